@@ -1,0 +1,258 @@
+"""Units at the edge: parse quantities from job files into SI floats, format them back.
+
+One pint registry serves the whole program; it is created on first use so that
+``leanspan --help`` stays fast. Inside the program every value is an SI float
+(m, N, Pa, kg). A dimensioned input is a string with its unit (``"300 mm"``,
+``"5 kN/m"``, ``"0.8 kip/ft"``) or a bare number under a declared default unit
+system (``units = "mm"`` or ``units = {length = "mm", force = "kN"}``).
+
+Examples
+--------
+>>> parse("300 mm", "length", "part.d")
+0.3
+>>> round(parse("0.8 kip/ft", "force/length", "load.w"), 3)
+11675.122
+>>> parse(12, "length", "b", UnitSystem.from_spec("mm", "units"))
+0.012
+>>> parse("5 kN", "force/length", "load.w")
+Traceback (most recent call last):
+...
+leanspan.errors.UnitsError: load.w: expected a force per length (e.g. '5 kN/m'), got '5 kN' (a force)
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import lru_cache
+import math
+
+from .errors import UnitsError
+
+__all__ = ["KINDS", "UnitSystem", "parse", "registry", "DISPLAY", "display_factor", "fmt"]
+
+# kind -> (pint dimensionality, length exponent, force exponent, mass exponent, example)
+# The exponents say how a bare number is scaled under a declared unit system.
+KINDS: dict[str, tuple[str, int, int, int, str]] = {
+    "length": ("[length]", 1, 0, 0, "'300 mm'"),
+    "area": ("[length] ** 2", 2, 0, 0, "'5000 mm^2'"),
+    "second moment": ("[length] ** 4", 4, 0, 0, "'8.5e7 mm^4'"),
+    "force": ("[mass] * [length] / [time] ** 2", 0, 1, 0, "'12 kN'"),
+    "force/length": ("[mass] / [time] ** 2", -1, 1, 0, "'5 kN/m'"),
+    "moment": ("[mass] * [length] ** 2 / [time] ** 2", 1, 1, 0, "'20 kN*m'"),
+    "pressure": ("[mass] / [length] / [time] ** 2", -2, 1, 0, "'355 MPa'"),
+    "flexural stiffness": ("[mass] * [length] ** 3 / [time] ** 2", 2, 1, 0, "'2e13 N*mm^2'"),
+    "density": ("[mass] / [length] ** 3", -3, 0, 1, "'500 kg/m^3'"),
+    "mass/length": ("[mass] / [length]", -1, 0, 1, "'25 kg/m'"),
+}
+
+_KIND_WORDS = {
+    "length": "a length",
+    "area": "an area",
+    "second moment": "a second moment of area",
+    "force": "a force",
+    "force/length": "a force per length",
+    "moment": "a moment",
+    "pressure": "a stress or pressure",
+    "flexural stiffness": "a flexural stiffness EI",
+    "density": "a density",
+    "mass/length": "a mass per length",
+}
+
+
+@lru_cache(maxsize=1)
+def registry():
+    """Return the one pint ``UnitRegistry`` (created on first call)."""
+    import pint
+
+    ureg = pint.UnitRegistry()
+    return ureg
+
+
+@dataclass(frozen=True)
+class UnitSystem:
+    """Default units for bare numbers: metres per length unit, newtons per force unit.
+
+    ``length`` and ``force`` are SI factors; ``None`` means bare numbers are refused.
+    """
+
+    length: float | None = None
+    force: float | None = None
+    mass: float | None = None
+    label: str = ""
+
+    @classmethod
+    def from_spec(cls, spec, field: str = "units") -> "UnitSystem":
+        """Build from ``"mm"`` or ``{length = "mm", force = "kN"}`` (``None`` gives no defaults)."""
+        if spec is None:
+            return cls()
+        if isinstance(spec, str):
+            spec = {"length": spec}
+        if not isinstance(spec, dict):
+            raise UnitsError(f"{field}: expected a length unit such as \"mm\" or a table "
+                             f"{{length = \"mm\", force = \"kN\"}}, got {spec!r}")
+        unknown = set(spec) - {"length", "force", "mass"}
+        if unknown:
+            raise UnitsError(f"{field}: unknown key {sorted(unknown)[0]!r}; expected length, force or mass")
+        factors = {}
+        for key, kind in (("length", "length"), ("force", "force"), ("mass", None)):
+            if key in spec:
+                text = spec[key]
+                if not isinstance(text, str):
+                    raise UnitsError(f"{field}.{key}: expected a unit name such as \"mm\", got {text!r}")
+                dim = "[mass]" if kind is None else KINDS[kind][0]
+                factors[key] = _unit_factor(text, dim, f"{field}.{key}", key)
+        return cls(label=str(spec), **factors)
+
+
+def _unit_factor(text: str, dim: str, field: str, word: str) -> float:
+    ureg = registry()
+    try:
+        q = ureg.Quantity(1.0, text)
+    except Exception:
+        raise UnitsError(f"{field}: unknown unit {text!r}") from None
+    if q.dimensionality != ureg.get_dimensionality(dim):
+        raise UnitsError(f"{field}: {text!r} is not a unit of {word}")
+    return float(q.to_base_units().magnitude)
+
+
+def _describe(dimensionality) -> str:
+    ureg = registry()
+    for kind, (dim, *_rest) in KINDS.items():
+        if dimensionality == ureg.get_dimensionality(dim):
+            return _KIND_WORDS[kind]
+    return "dimensionless" if not dimensionality else str(dimensionality)
+
+
+def parse(value, kind: str, field: str, units: UnitSystem | None = None) -> float:
+    """Parse ``value`` as a quantity of ``kind`` and return it as an SI float.
+
+    Parameters
+    ----------
+    value : str or number
+        ``"300 mm"`` style text, or a bare number when ``units`` declares a default.
+    kind : str
+        One of :data:`KINDS` (``"length"``, ``"force/length"``, ``"pressure"`` ...).
+    field : str
+        Where the value came from, for the error message (``"load[2].w"``).
+    units : UnitSystem, optional
+        Defaults for bare numbers.
+
+    Raises
+    ------
+    UnitsError
+        No unit where one is needed, an unknown unit, or a unit of the wrong kind.
+    """
+    dim, e_len, e_force, e_mass, example = KINDS[kind]
+    word = _KIND_WORDS[kind]
+    if isinstance(value, bool):
+        raise UnitsError(f"{field}: expected {word} (e.g. {example}), got {value!r}")
+    if isinstance(value, (int, float)):
+        units = units or UnitSystem()
+        needs = [(units.length, e_len, "length"), (units.force, e_force, "force"), (units.mass, e_mass, "mass")]
+        factor = 1.0
+        for unit, exp, name in needs:
+            if exp == 0:
+                continue
+            if unit is None:
+                raise UnitsError(f"{field}: {value!r} has no unit; expected {word} such as {example} "
+                                 f"(or declare a default {name} unit with units = ...)")
+            factor *= unit**exp
+        result = float(value) * factor
+    elif isinstance(value, str):
+        ureg = registry()
+        try:
+            q = ureg.Quantity(value.strip())
+        except Exception:
+            raise UnitsError(f"{field}: cannot read {value!r} as {word} (e.g. {example})") from None
+        if not hasattr(q, "dimensionality") or q.dimensionality != ureg.get_dimensionality(dim):
+            got = _describe(getattr(q, "dimensionality", {}))
+            if got == "dimensionless":
+                raise UnitsError(f"{field}: {value!r} has no unit; expected {word} such as {example}")
+            raise UnitsError(f"{field}: expected {word} (e.g. {example}), got {value!r} ({got})")
+        result = float(q.to_base_units().magnitude)
+    else:
+        raise UnitsError(f"{field}: expected {word} (e.g. {example}), got {value!r}")
+    if not math.isfinite(result):
+        raise UnitsError(f"{field}: expected a finite value, got {value!r}")
+    return result
+
+
+# Display units: kind -> (label, SI value of one display unit). Exact definitions:
+# 1 in = 0.0254 m, 1 lbf = 4.4482216152605 N, 1 lb = 0.45359237 kg, 1 ft = 0.3048 m.
+_IN, _FT, _LBF, _LB = 0.0254, 0.3048, 4.4482216152605, 0.45359237
+_KIP = 1000 * _LBF
+DISPLAY: dict[str, dict[str, tuple[str, float]]] = {
+    "si": {
+        "length": ("mm", 1e-3),
+        "span": ("m", 1.0),
+        "area": ("mm²", 1e-6),
+        "second moment": ("mm⁴", 1e-12),
+        "section modulus": ("mm³", 1e-9),
+        "warping": ("mm⁶", 1e-18),
+        "force": ("kN", 1e3),
+        "force/length": ("kN/m", 1e3),
+        "moment": ("kN·m", 1e3),
+        "pressure": ("MPa", 1e6),
+        "modulus": ("MPa", 1e6),
+        "flexural stiffness": ("kN·m²", 1e3),
+        "axial stiffness": ("kN", 1e3),
+        "density": ("kg/m³", 1.0),
+        "mass/length": ("kg/m", 1.0),
+        "rotation": ("rad", 1.0),
+        "shear factor": ("1/mm²", 1e6),
+        "spring": ("kN/m", 1e3),
+        "rotational spring": ("kN·m/rad", 1e3),
+    },
+    "us": {
+        "length": ("in", _IN),
+        "span": ("ft", _FT),
+        "area": ("in²", _IN**2),
+        "second moment": ("in⁴", _IN**4),
+        "section modulus": ("in³", _IN**3),
+        "warping": ("in⁶", _IN**6),
+        "force": ("kip", _KIP),
+        "force/length": ("kip/ft", _KIP / _FT),
+        "moment": ("kip·ft", _KIP * _FT),
+        "pressure": ("ksi", _KIP / _IN**2),
+        "modulus": ("ksi", _KIP / _IN**2),
+        "flexural stiffness": ("kip·in²", _KIP * _IN**2),
+        "axial stiffness": ("kip", _KIP),
+        "density": ("lb/ft³", _LB / _FT**3),
+        "mass/length": ("lb/ft", _LB / _FT),
+        "rotation": ("rad", 1.0),
+        "shear factor": ("1/in²", 1 / _IN**2),
+        "spring": ("kip/in", _KIP / _IN),
+        "rotational spring": ("kip·ft/rad", _KIP * _FT),
+    },
+}
+
+
+def display_factor(kind: str, system: str = "si") -> tuple[str, float]:
+    """Return ``(label, si_per_unit)`` for showing a quantity of ``kind``.
+
+    >>> display_factor("moment", "us")[0]
+    'kip·ft'
+    """
+    return DISPLAY[system][kind]
+
+
+def fmt(value: float, digits: int = 4) -> str:
+    """Format a number with ``digits`` significant figures, plain where readable.
+
+    >>> fmt(1234567.0), fmt(0.000123456), fmt(12.5), fmt(0.0)
+    ('1.235e+06', '0.0001235', '12.5', '0')
+    """
+    if value is None or (isinstance(value, float) and math.isnan(value)):
+        return "-"
+    if value == 0:
+        return "0"
+    if math.isinf(value):
+        return "inf" if value > 0 else "-inf"
+    mag = abs(value)
+    if 1e-4 <= mag < 1e6:
+        decimals = max(0, digits - 1 - int(math.floor(math.log10(mag))))
+        text = f"{value:.{decimals}f}"
+        if "." in text:
+            text = text.rstrip("0").rstrip(".")
+        return text
+    return f"{value:.{digits - 1}e}"
