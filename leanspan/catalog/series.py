@@ -78,8 +78,8 @@ class Series:
     label: Callable | None = None
 
     def dims(self) -> dict[str, np.ndarray]:
-        """Dimension arrays in metres (a fresh copy)."""
-        return {k: v / 1000.0 for k, v in _dims_mm(self.name).items()}
+        """Dimension arrays in metres (a fresh copy; rounded to 0.1 nm so 7.1 mm is 0.0071)."""
+        return {k: np.round(v / 1000.0, 10) for k, v in _dims_mm(self.name).items()}
 
     def names(self, dims: dict[str, np.ndarray]) -> list[str]:
         """Generated names for ``dims`` (metres)."""

@@ -1,0 +1,178 @@
+"""User catalogues: a supplier's list as CSV, read into dimension arrays per family.
+
+Columns: ``family`` and that family's dimension keys (GUIDE section 4), in mm unless
+the header names a unit (``d [in]``); optional ``name`` and ``material``. Rows of
+different families may share one file: a cell left blank is "not given". Columns
+named after a section property (``A``, ``Iz``, ``Zz`` ..., ``mass_per_length``) are
+tabulated values, compared with the computed ones (default units mm², mm⁴, mm³, mm,
+kg/m). Other columns (a price, a stock code) are ignored. Lines starting with ``#``
+are comments. Row numbers are file line numbers.
+
+Examples
+--------
+>>> import tempfile, pathlib
+>>> p = pathlib.Path(tempfile.mkdtemp()) / "list.csv"
+>>> _ = p.write_text("family,b,d [in],material\\nrectangle,45,9.25,C24\\n")
+>>> cat = read_user_catalog(p)
+>>> cat.blocks["rectangle"].dims["d"], cat.blocks["rectangle"].lines
+(array([0.23495]), [2])
+>>> _ = p.write_text("family,b,d\\nrectangle,45,x\\n")
+>>> read_user_catalog(p)
+Traceback (most recent call last):
+...
+leanspan.errors.CatalogError: ...list.csv: row 2: column 'd': expected a length in mm (a number), got 'x'
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from ..errors import CatalogError, GeometryError, MaterialError
+from .csvfile import column_factor, read_table, to_float
+
+__all__ = ["UserBlock", "UserCatalog", "read_user_catalog", "TABULATED", "DEFAULT_MATERIAL"]
+
+# tabulated property -> (unit kind, default unit)
+TABULATED = {
+    "A": ("area", "mm^2"),
+    **{k: ("second moment", "mm^4") for k in ("Iz", "Iy", "I1", "I2")},
+    **{k: ("section modulus", "mm^3") for k in ("Sz_top", "Sz_bot", "Sy_left", "Sy_right", "Zz", "Zy")},
+    **{k: ("length", "mm") for k in ("yc", "zc", "rz", "ry", "depth", "width")},
+    "mass_per_length": ("mass/length", "kg/m"),
+}
+
+# Default material of a user row without one, by shape family (document in README).
+DEFAULT_MATERIAL = {"rectangle": "C24", "circle": "S355", "tube": "S355J2H", "box": "S355J2H",
+                    "i_section": "S355", "channel": "S355", "tee": "S355", "angle": "S355"}
+
+
+@dataclass
+class UserBlock:
+    """The rows of one family: dims (m, completed), names, materials, file lines, tabulated values."""
+
+    family: str
+    dims: dict = field(default_factory=dict)
+    names: list = field(default_factory=list)
+    materials: list = field(default_factory=list)
+    lines: list = field(default_factory=list)
+    tabulated: dict = field(default_factory=dict)  # key -> array (NaN where not given)
+
+
+@dataclass
+class UserCatalog:
+    """A read user catalogue: one :class:`UserBlock` per family, plus notes for the user."""
+
+    path: Path
+    blocks: dict
+    warnings: list
+
+
+def read_user_catalog(path, materials: dict | None = None) -> UserCatalog:
+    """Read and check a user catalogue CSV.
+
+    Parameters
+    ----------
+    path : path-like
+        The CSV file (never modified).
+    materials : dict of name -> Material, optional
+        Table used to check the ``material`` column (default: the built-in table).
+
+    Raises
+    ------
+    CatalogError
+        Naming the file, the row and what was expected: a non-numeric or missing
+        dimension, an unknown family or material, impossible geometry.
+    """
+    from ..fileio import protect_inputs
+    from ..sections.families import FAMILIES
+    from .materials import get_material, materials_table
+
+    path = Path(path)
+    header, rows = read_table(path, CatalogError)
+    protect_inputs(path)
+    names = [h for h, _ in header]
+    if "family" not in names:
+        raise CatalogError(f"{path}: missing column 'family'; expected family plus dimension "
+                           "columns such as b, d (mm unless the header says, e.g. 'd [in]')")
+    dim_keys = {k for f in FAMILIES.values() for k in f.all_keys}
+    col = {}
+    warnings = []
+    ignored = []
+    for j, (name, unit) in enumerate(header):
+        if name in dim_keys:
+            col[name] = (j, "dim", column_factor(unit or "mm", "length", f"{path}: column {name!r}"))
+        elif name in TABULATED:
+            kind, default = TABULATED[name]
+            col[name] = (j, "tab", column_factor(unit or default, kind, f"{path}: column {name!r}"))
+        elif name in ("family", "name", "material"):
+            col[name] = (j, "text", None)
+        else:
+            ignored.append(name)
+    if ignored:
+        warnings.append(f"{path}: ignored columns (not a dimension or property): {', '.join(ignored)}")
+    table = materials if materials is not None else materials_table()
+    blocks: dict[str, UserBlock] = {}
+    raw: dict[str, dict[str, list]] = {}
+    for line, cells in rows:
+        where = f"{path}: row {line}"
+        if len(cells) > len(header):
+            raise CatalogError(f"{where}: {len(cells)} cells but {len(header)} columns")
+        cells = cells + [""] * (len(header) - len(cells))
+        fam_name = cells[col["family"][0]]
+        fam = FAMILIES.get(fam_name)
+        if fam is None:
+            raise CatalogError(f"{where}: unknown family {fam_name!r}; expected one of "
+                               f"{', '.join(FAMILIES)}")
+        absent = [k for k in fam.keys if k not in col]
+        if absent:
+            raise CatalogError(f"{where}: missing dimension {absent[0]!r} for {fam_name} (no such "
+                               f"column); expected {', '.join(fam.keys)}")
+        block = blocks.setdefault(fam_name, UserBlock(fam_name))
+        values = raw.setdefault(fam_name, {})
+        for key, (j, what, factor) in col.items():
+            cell = cells[j]
+            if what == "dim":
+                if cell == "":
+                    if key in fam.keys:
+                        raise CatalogError(f"{where}: missing dimension {key!r} for {fam_name}; "
+                                           f"expected {', '.join(fam.keys)}")
+                    value = np.nan
+                elif key not in fam.all_keys:
+                    raise CatalogError(f"{where}: {fam_name} has no dimension {key!r}; expected "
+                                       f"{', '.join(fam.all_keys)} (leave the cell blank)")
+                else:
+                    unit = header[j][1] or "mm"
+                    value = to_float(cell, f"{where}: column {key!r}", f"a length in {unit}") * factor
+                values.setdefault(key, []).append(value)
+            elif what == "tab":
+                value = np.nan if cell == "" else to_float(
+                    cell, f"{where}: column {key!r}", f"a tabulated {key}") * factor
+                block.tabulated.setdefault(key, []).append(value)
+        material = cells[col["material"][0]] if "material" in col else ""
+        if material:
+            try:
+                material = get_material(material, table).name
+            except MaterialError as exc:
+                raise CatalogError(f"{where}: {exc}") from None
+        else:
+            material = DEFAULT_MATERIAL[fam_name]
+        block.materials.append(material)
+        block.names.append(cells[col["name"][0]] if "name" in col else "")
+        block.lines.append(line)
+    for fam_name, block in blocks.items():
+        fam = FAMILIES[fam_name]
+        given = {k: np.array(v) for k, v in raw[fam_name].items() if k in fam.all_keys}
+        given = {k: v for k, v in given.items() if k in fam.keys or not np.isnan(v).all()}
+        try:
+            dims = fam.complete(given)
+            fam.validate(dims, lambda i, b=block: f"{path}: row {b.lines[i]}")
+        except GeometryError as exc:
+            raise CatalogError(str(exc)) from None
+        block.dims = dims
+        block.tabulated = {k: np.array(v) for k, v in block.tabulated.items()}
+        generated = fam.designation(dims)
+        block.names = [n or g for n, g in zip(block.names, generated)]
+    return UserCatalog(path, blocks, warnings)
