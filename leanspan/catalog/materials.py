@@ -153,7 +153,12 @@ def _rows_from_toml(path) -> list[dict]:
     from ..fileio import load_toml
     from ..units import parse
 
-    data = load_toml(path)
+    from ..errors import InputError
+
+    try:
+        data = load_toml(path)
+    except InputError as exc:
+        raise MaterialError(str(exc)) from None
     items = data.get("material")
     extra = set(data) - {"material"}
     if extra:

@@ -240,7 +240,7 @@ def catalog_table(series=None, families=None, materials=None, user_csv=None, max
         A user catalogue (see :mod:`leanspan.catalog.user`). Its rows come in series
         ``"user"``; warnings about tabulated values are in ``df.attrs["warnings"]``.
     max_depth, min_depth, min_width, max_width : float, optional
-        Limits on the overall depth and width, m.
+        Limits on the overall depth and width, m (met within a relative 1e-4).
     builtin : bool, optional
         Include the built-in series (default: yes without ``user_csv``, no with it).
     material_table : path-like or dict, optional
@@ -285,8 +285,9 @@ def catalog_table(series=None, families=None, materials=None, user_csv=None, max
     for limit, col, op in ((max_depth, "depth", np.less_equal), (min_depth, "depth", np.greater_equal),
                            (max_width, "width", np.less_equal), (min_width, "width", np.greater_equal)):
         if limit is not None:
-            keep &= op(df[col].to_numpy(), float(limit) * (1 + 1e-9) if op is np.less_equal
-                       else float(limit) * (1 - 1e-9))
+            # relative slack 1e-4: a polygonised tube of d = 21.3 mm is 21.301 mm deep
+            keep &= op(df[col].to_numpy(), float(limit) * (1 + 1e-4) if op is np.less_equal
+                       else float(limit) * (1 - 1e-4))
     df = df[keep].reset_index(drop=True)
     if materials is None:
         df = _with_materials(df, None, mats)
