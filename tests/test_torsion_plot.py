@@ -31,7 +31,7 @@ def test_draws_into_axes(result):
     # colour limits: 0 to the largest nodal |tau| under a unit torque
     mesh_art = ax.collections[0]
     assert mesh_art.get_array().max() == pytest.approx(result.tau_max)
-    assert ax.get_title() == "I section"
+    assert ax.get_title(loc="left") == "I section"
 
 
 def test_unknown_format(result, tmp_path):
