@@ -170,6 +170,18 @@ def test_composite_parts():
     assert comp.zs == pytest.approx(0.0, abs=1e-4) and comp.ys == pytest.approx(100.0, abs=1e-4)
 
 
+def test_parts_touching_along_part_of_an_edge_share_nodes():
+    # a plate shorter than the timbers beside it: the noded mesh must conform, so with
+    # one modulus the split section equals its outline meshed as one polygon
+    import shapely
+
+    parts = [box(-55, 0, -5, 200), box(-5, 20, 5, 180), box(5, 0, 55, 200)]
+    split = torsion(parts, mesh_size=5.0)
+    whole = torsion([shapely.union_all(parts)], mesh_size=5.0)
+    assert split.J == pytest.approx(whole.J, rel=2e-4)
+    assert split.Cw == pytest.approx(whole.Cw, rel=2e-3)
+
+
 def test_disconnected_parts_add_their_J():
     # parts that do not touch twist as separate pieces: J is the sum (the two meshes
     # differ slightly, hence the discretisation-level tolerance)
