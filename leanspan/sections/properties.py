@@ -40,9 +40,14 @@ def elastic_properties(e: Edges) -> dict[str, np.ndarray]:
     m = moments(e, (oz, oy))
     A = m["A"]
     dz, dy = m["Sz"] / A, m["Sy"] / A
+    # round-off clean-up: offsets and products far below the section's size are zero
+    size = (zmax - zmin) + (ymax - ymin)
+    dz = np.where(np.abs(dz) < 1e-12 * size, 0.0, dz)
+    dy = np.where(np.abs(dy) < 1e-12 * size, 0.0, dy)
     Iz = m["Syy"] - A * dy * dy
     Iy = m["Szz"] - A * dz * dz
     Iyz = m["Syz"] - A * dy * dz
+    Iyz = np.where(np.abs(Iyz) < 1e-12 * (Iz + Iy), 0.0, Iyz)
     mean = (Iz + Iy) / 2.0
     radius = np.hypot((Iz - Iy) / 2.0, Iyz)
     yc, zc = oy + dy, oz + dz
@@ -182,7 +187,7 @@ def _properties_chunk(e: Edges) -> dict[str, np.ndarray]:
     return p
 
 
-def properties(e: Edges, private: bool = False) -> dict[str, np.ndarray]:
+def properties(e: Edges, private: bool = False, offset: int = 0) -> dict[str, np.ndarray]:
     """All section properties (:data:`KEYS`) for every section in the batch ``e``.
 
     Parameters
@@ -191,6 +196,8 @@ def properties(e: Edges, private: bool = False) -> dict[str, np.ndarray]:
         Oriented edges of N sections (outlines counter-clockwise, holes clockwise).
     private : bool
         Also return helper arrays (bounds ``_ymin`` …, plastic axes ``_pna_y``, ``_pna_z``).
+    offset : int
+        Index of the first section, for error messages.
 
     Raises
     ------
@@ -207,7 +214,7 @@ def properties(e: Edges, private: bool = False) -> dict[str, np.ndarray]:
     out = {k: np.concatenate([c[k] for c in chunks]) for k in chunks[0]}
     bad = np.flatnonzero(~(out["A"] > 0))
     if bad.size:
-        raise GeometryError(f"section {int(bad[0])}: area is {out['A'][bad[0]]:.3g} m^2; "
+        raise GeometryError(f"section {int(bad[0]) + offset}: area is {out['A'][bad[0]]:.3g} m^2; "
                             "expected a positive area (outline counter-clockwise, holes inside)")
     if not private:
         out = {k: v for k, v in out.items() if not k.startswith("_")}
@@ -229,7 +236,11 @@ def family_properties(family: str, dims: dict, private: bool = False) -> dict[st
     fam = get_family(family)
     dims = fam.complete(dims)
     fam.validate(dims)
-    return properties(edges_from_family(fam, dims), private=private)
+    n = len(next(iter(dims.values())))
+    # build the polygons chunk by chunk too: small arrays stay in cache
+    chunks = [properties(edges_from_family(fam, {k: v[s:s + _CHUNK] for k, v in dims.items()}), private, s)
+              for s in range(0, n, _CHUNK)]
+    return {k: np.concatenate([c[k] for c in chunks]) for k in chunks[0]}
 
 
 def edges_from_family(fam, dims) -> Edges:

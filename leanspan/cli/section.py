@@ -1,0 +1,133 @@
+"""``leanspan section FILE.toml``: properties of a custom, built-up or composite section."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from . import add_common, emit_json
+
+# (label, JSON key, display kind)
+ROWS = [
+    ("Area A", "A", "area"),
+    ("Centroid y from base yc", "yc", "length"),
+    ("Centroid z zc", "zc", "length"),
+    ("Depth", "depth", "length"),
+    ("Width", "width", "length"),
+    ("Iz (about horizontal axis)", "Iz", "second moment"),
+    ("Iy (about vertical axis)", "Iy", "second moment"),
+    ("Iyz", "Iyz", "second moment"),
+    ("I1 (major principal)", "I1", "second moment"),
+    ("I2 (minor principal)", "I2", "second moment"),
+    ("theta (z-axis to I1, CCW)", "theta", None),
+    ("Sz top fibre", "Sz_top", "section modulus"),
+    ("Sz bottom fibre", "Sz_bot", "section modulus"),
+    ("Sy left fibre", "Sy_left", "section modulus"),
+    ("Sy right fibre", "Sy_right", "section modulus"),
+    ("Plastic modulus Zz", "Zz", "section modulus"),
+    ("Plastic modulus Zy", "Zy", "section modulus"),
+    ("Radius of gyration rz", "rz", "length"),
+    ("Radius of gyration ry", "ry", "length"),
+    ("Shear factor (tau_max = V x)", "shear_factor", "shear factor"),
+]
+COMPOSITE_ROWS = [
+    ("EIz (transformed)", "EIz", "flexural stiffness"),
+    ("EA", "EA", "axial stiffness"),
+    ("Mass per length", "mass_per_length", "mass/length"),
+    ("Neutral axis y (E-weighted)", "y_neutral", "length"),
+]
+TORSION_ROWS = [
+    ("Torsion constant J", "J", "second moment"),
+    ("Warping constant Cw", "Cw", "warping"),
+    ("Shear centre z", "zs", "length"),
+    ("Shear centre y", "ys", "length"),
+]
+
+
+def add_parser(sub):
+    p = sub.add_parser("section", help="properties of a section described in a TOML file",
+                       description="Area, centroid, second moments, principal axes, elastic and "
+                                   "plastic moduli, shear factor; transformed properties when parts "
+                                   "carry materials; torsion by finite elements with --torsion.")
+    p.add_argument("file", help="section file with [[part]] tables")
+    add_common(p)
+    p.add_argument("--torsion", action="store_true", help="also J, Cw and the shear centre (finite elements)")
+    p.add_argument("--mesh-size", default=None, help="element size for --torsion, e.g. '2 mm'")
+    p.add_argument("--moment", default=None, help="a bending moment, e.g. '12 kN*m': print the stress in each material")
+    p.add_argument("--plot", metavar="OUT", default=None, help="draw the section to OUT (.svg or .png)")
+    p.set_defaults(run=run)
+
+
+def compute(path, torsion=False, mesh_size=None, moment=None):
+    """Everything the command reports, as a dict of SI values (JSON contract keys)."""
+    from ..sections.io import load_section_file, material_lookup
+    from ..units import parse
+
+    section, _ = load_section_file(path)
+    props = section.properties(private=True)
+    out = {k: v for k, v in props.items() if not k.startswith("_")}
+    extra = {"pna_y": props["_pna_y"], "pna_z": props["_pna_z"]}
+    comp = None
+    if section.has_materials:
+        lookup = material_lookup()
+        comp = section.composite(lookup)
+        out.update(EIz=comp.EIz, EA=comp.EA, mass_per_length=comp.mass_per_length)
+        extra["y_neutral"] = comp.y_neutral
+        if moment is not None:
+            M = parse(moment, "moment", "--moment")
+            extra["moment"] = M
+            extra["stresses"] = {k: {"top": a, "bottom": b} for k, (a, b) in comp.stresses(M).items()}
+    elif moment is not None:
+        M = parse(moment, "moment", "--moment")
+        extra["moment"] = M
+        extra["stresses"] = {"(geometry)": {"top": -M / out["Sz_top"], "bottom": M / out["Sz_bot"]}}
+    tors = None
+    if torsion:
+        from ..sections.torsion import torsion as solve_torsion
+
+        size = parse(mesh_size, "length", "--mesh-size") if mesh_size is not None else None
+        G = None
+        if section.has_materials:
+            lookup = material_lookup()
+            G = [lookup(p.material).G for p in section.parts]
+            E = [lookup(p.material).E for p in section.parts]
+            tors = solve_torsion([p.polygon for p in section.parts], G, size, elastic_moduli=E)
+        else:
+            tors = solve_torsion([p.polygon for p in section.parts], None, size)
+        out.update(J=tors.J, Cw=tors.Cw, ys=tors.ys, zs=tors.zs)
+        extra["torsion_elements"] = int(tors.mesh.triangles.shape[0]) if hasattr(tors.mesh, "triangles") else None
+    return section, out, extra, tors
+
+
+def run(args) -> int:
+    from ..units import display_factor, fmt
+
+    section, out, extra, tors = compute(args.file, args.torsion, args.mesh_size, args.moment)
+    if args.plot:
+        from ..report.section_plot import plot_section
+
+        plot_section(section, out, args.plot, title=Path(args.file).name, units=args.units)
+    if args.json:
+        payload = dict(out)
+        if "stresses" in extra:
+            payload["stresses"] = extra["stresses"]
+        emit_json(payload)
+        return 0
+    rows = ROWS + (COMPOSITE_ROWS if "EIz" in out else []) + (TORSION_ROWS if tors is not None else [])
+    values = dict(out, **extra)
+    lines = [f"Section {args.file}: {len(section.parts)} part(s)"]
+    for label, key, kind in rows:
+        if key not in values:
+            continue
+        unit, factor = display_factor(kind, args.units) if kind else ("deg", 1.0)
+        lines.append(f"  {label:<32} {fmt(values[key] / factor):>12} {unit}")
+    if "stresses" in extra:
+        unit, factor = display_factor("pressure", args.units)
+        mu, mf = display_factor("moment", args.units)
+        lines.append(f"Bending stress under M = {fmt(extra['moment'] / mf)} {mu} (tension +):")
+        for name, s in extra["stresses"].items():
+            lines.append(f"  {name:<12} top {fmt(s['top'] / factor):>10} {unit}   "
+                         f"bottom {fmt(s['bottom'] / factor):>10} {unit}")
+    print("\n".join(lines))
+    if args.plot:
+        print(f"drawing written to {args.plot}")
+    return 0

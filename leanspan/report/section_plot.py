@@ -1,0 +1,95 @@
+"""Drawing of a cross-section: parts by material, centroid, principal axes, overall sizes.
+
+matplotlib is imported inside the functions, so importing this module is cheap.
+"""
+
+from __future__ import annotations
+
+import math
+
+__all__ = ["draw_section", "plot_section"]
+
+_COLOURS = ["#9bb7d4", "#d9b38c", "#a8c8a0", "#d4a5a5", "#c4b7d9", "#e0d38a"]
+
+
+def draw_section(ax, section, props, units: str = "si"):
+    """Draw ``section`` on matplotlib axes ``ax`` (coordinates shown in display units)."""
+    from matplotlib.patches import PathPatch
+    from matplotlib.path import Path as MplPath
+    import numpy as np
+
+    from ..units import display_factor, fmt
+
+    unit, f = display_factor("length", units)
+    colours = {}
+    for part in section.parts:
+        key = part.material or "(no material)"
+        colours.setdefault(key, _COLOURS[len(colours) % len(_COLOURS)])
+        verts, codes = [], []
+        for ring in part.rings():
+            pts = np.vstack([ring, ring[:1]]) / f
+            verts.extend(pts.tolist())
+            codes.extend([MplPath.MOVETO] + [MplPath.LINETO] * (len(ring) - 1) + [MplPath.CLOSEPOLY])
+        ax.add_patch(PathPatch(MplPath(verts, codes), facecolor=colours[key], edgecolor="#222222",
+                               linewidth=0.8, label=key))
+    zc, yc = props["zc"] / f, props["yc"] / f
+    span = max(props["depth"], props["width"]) / f
+    ax.plot([zc], [yc], marker="+", markersize=14, color="#c0392b", mew=1.6, zorder=5)
+    ax.annotate("centroid", (zc, yc), xytext=(6, 6), textcoords="offset points", color="#c0392b", fontsize=8)
+    t = math.radians(props["theta"])
+    L = 0.6 * span
+    for ang, name, style in ((t, "1", "-."), (t + math.pi / 2, "2", ":")):
+        dz, dy = L * math.cos(ang), L * math.sin(ang)
+        ax.plot([zc - dz, zc + dz], [yc - dy, yc + dy], style, color="#555555", linewidth=0.9)
+        ax.annotate(name, (zc + dz, yc + dy), fontsize=8, color="#555555")
+    if "y_neutral" in props:
+        yn = props["y_neutral"] / f
+        ax.axhline(yn, color="#2e86c1", linewidth=0.8, linestyle="--")
+        ax.annotate("neutral axis", (zc + 0.5 * span, yn), xytext=(0, 3), textcoords="offset points",
+                    fontsize=8, color="#2e86c1")
+    xmin, ymin, xmax, ymax = (v / f for v in section.outline().bounds)
+    pad = 0.12 * span
+    ax.annotate("", (xmin, ymin - pad / 2), (xmax, ymin - pad / 2),
+                arrowprops=dict(arrowstyle="<->", color="#333333", linewidth=0.8))
+    ax.text((xmin + xmax) / 2, ymin - 0.6 * pad, f"{fmt(props['width'] / f)} {unit}", ha="center",
+            va="top", fontsize=8)
+    ax.annotate("", (xmax + pad / 2, ymin), (xmax + pad / 2, ymax),
+                arrowprops=dict(arrowstyle="<->", color="#333333", linewidth=0.8))
+    ax.text(xmax + 0.6 * pad, (ymin + ymax) / 2, f"{fmt(props['depth'] / f)} {unit}", ha="left",
+            va="center", fontsize=8, rotation=90)
+    ax.set_xlim(xmin - pad, xmax + 2 * pad)
+    ax.set_ylim(ymin - 1.5 * pad, ymax + pad)
+    ax.set_aspect("equal")
+    ax.set_xlabel(f"z [{unit}]")
+    ax.set_ylabel(f"y [{unit}]")
+    if len(colours) > 1 or section.has_materials:
+        handles = {h.get_label(): h for h in ax.patches}
+        ax.legend(handles.values(), handles.keys(), fontsize=8, loc="upper right")
+    return ax
+
+
+def plot_section(section, props, path, title: str = "", units: str = "si"):
+    """Draw the section to ``path`` (.svg or .png), written atomically."""
+    import io
+
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    from ..errors import InputError
+    from ..fileio import atomic_write
+
+    fmt_ = str(path).rsplit(".", 1)[-1].lower()
+    if fmt_ not in ("svg", "png"):
+        raise InputError(f"--plot {path}: expected a file name ending in .svg or .png")
+    fig, ax = plt.subplots(figsize=(5.5, 5.5))
+    try:
+        draw_section(ax, section, props, units)
+        if title:
+            ax.set_title(title, fontsize=10)
+        buf = io.BytesIO()
+        fig.savefig(buf, format=fmt_, bbox_inches="tight", dpi=150)
+    finally:
+        plt.close(fig)
+    atomic_write(path, buf.getvalue())
