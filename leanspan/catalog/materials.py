@@ -208,9 +208,7 @@ def _merge(table: dict[str, Material], rows: list[dict]) -> dict[str, Material]:
         try:
             if old_name is not None:
                 row.pop("name")
-                new = replace(table[old_name], **row)
-                del table[old_name]
-                table[new.name if new.name in (old_name,) else old_name] = new
+                table[old_name] = replace(table[old_name], **row)  # keeps its place
             else:
                 missing = [k for k in ("kind",) + tuple(_QUANTITIES) if k not in row]
                 if missing:
