@@ -35,7 +35,16 @@ def check_polygon(poly, where: str):
     import shapely
     from shapely.validation import explain_validity
 
-    if poly.is_empty or poly.area <= 0:
+    import numpy as np
+
+    ring = np.asarray(poly.exterior.coords) if not poly.is_empty else np.zeros((0, 2))
+    flat = True  # all points on one line?
+    if len(ring) >= 3:
+        d = ring - ring[0]
+        size = np.abs(d).max()
+        k = np.argmax(np.hypot(d[:, 0], d[:, 1]))
+        flat = size == 0 or np.abs(d[:, 0] * d[k, 1] - d[:, 1] * d[k, 0]).max() <= 1e-12 * size * size
+    if poly.is_empty or flat or (poly.is_valid and poly.area <= 0):
         raise GeometryError(f"{where}: zero area; expected at least three points enclosing an area")
     if not poly.is_valid:
         text = explain_validity(poly)  # e.g. "Self-intersection[0.1 0.2]"
