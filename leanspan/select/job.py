@@ -1,0 +1,220 @@
+"""A selection job: the beam (without a member), the search space and the limits.
+
+Job file = a beam job whose ``[beam]`` gives no ``EI``/``section`` (the candidates
+supply them) + ``[search]`` + ``[limits]``::
+
+    [search]
+    families = ["sawn_metric", "glulam"]   # series or shape families
+    materials = ["C24", "GL28h"]           # optional: pair the geometry with these
+    catalog = "supplier.csv"               # optional user catalogue, relative to the job
+    max_depth = "300 mm"
+    objective = "mass"                     # or "depth"
+    self_weight = "dead"                   # the case that carries each candidate's weight
+
+    [limits]
+    stress_factor = 0.6                    # x each material's bending and shear strength
+    # bending_stress = "165 MPa"           # or absolute values (override the factor)
+
+Examples
+--------
+>>> from pathlib import Path
+>>> data = {"beam": {"spans": ["4 m"]}, "load": [{"case": "dead", "type": "udl", "w": "2 kN/m"}],
+...         "search": {"families": ["sawn_metric"]}, "limits": {"stress_factor": 0.6}}
+>>> job = parse_job(data, Path("."))
+>>> job.search.self_weight, job.limits.stress_factor, [c.name for c in job.model.combinations]
+('dead', 0.6, ['all cases'])
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from pathlib import Path
+
+from ..errors import SelectionError
+from ..units import UnitSystem, parse
+
+__all__ = ["SearchSpec", "Limits", "Job", "parse_job"]
+
+_SEARCH_KEYS = {"families", "series", "materials", "catalog", "max_depth", "min_depth", "max_width",
+                "min_width", "objective", "self_weight", "materials_file"}
+_LIMIT_KEYS = {"bending_stress", "shear_stress", "stress_factor"}
+
+
+@dataclass(frozen=True)
+class SearchSpec:
+    """What to search: series/families, materials, a user catalogue, size limits, objective."""
+
+    families: tuple | None = None
+    materials: tuple | None = None
+    catalog: Path | None = None
+    max_depth: float | None = None
+    min_depth: float | None = None
+    max_width: float | None = None
+    min_width: float | None = None
+    objective: str = "mass"
+    self_weight: str | None = "dead"
+    materials_file: Path | None = None
+
+    def __post_init__(self):
+        if self.objective not in ("mass", "depth"):
+            raise SelectionError(f"search.objective: expected mass or depth, got {self.objective!r}")
+
+
+@dataclass(frozen=True)
+class Limits:
+    """Allowable stresses: absolute (Pa) or ``stress_factor`` x the material's strengths."""
+
+    bending_stress: float | None = None
+    shear_stress: float | None = None
+    stress_factor: float | None = None
+
+    def __post_init__(self):
+        if self.stress_factor is not None and not self.stress_factor > 0:
+            raise SelectionError(f"limits.stress_factor: expected a positive number, got {self.stress_factor!r}")
+        for name in ("bending_stress", "shear_stress"):
+            v = getattr(self, name)
+            if v is not None and not v > 0:
+                raise SelectionError(f"limits.{name}: expected a positive stress, got {v!r}")
+        if self.stress_factor is None and (self.bending_stress is None or self.shear_stress is None):
+            missing = "bending_stress" if self.bending_stress is None else "shear_stress"
+            raise SelectionError(f"limits.{missing}: missing; give bending_stress and shear_stress "
+                                 "(e.g. \"165 MPa\") or stress_factor (x each material's strengths)")
+
+    def allowable(self, strength_bending, strength_shear):
+        """Arrays of allowable bending and shear stress for the candidates' materials."""
+        import numpy as np
+
+        fb = (np.full(np.shape(strength_bending), self.bending_stress) if self.bending_stress is not None
+              else self.stress_factor * np.asarray(strength_bending, float))
+        fv = (np.full(np.shape(strength_shear), self.shear_stress) if self.shear_stress is not None
+              else self.stress_factor * np.asarray(strength_shear, float))
+        return fb, fv
+
+    def describe(self) -> str:
+        parts = []
+        if self.stress_factor is not None:
+            parts.append(f"{self.stress_factor:g} x material strengths")
+        if self.bending_stress is not None:
+            parts.append(f"bending {self.bending_stress / 1e6:g} MPa")
+        if self.shear_stress is not None:
+            parts.append(f"shear {self.shear_stress / 1e6:g} MPa")
+        return ", ".join(parts)
+
+
+@dataclass(frozen=True)
+class Job:
+    model: object  # leanspan.beam.BeamModel with a placeholder EI of 1 N m^2
+    search: SearchSpec
+    limits: Limits
+    title: str = ""
+    base_dir: Path = Path(".")
+
+
+def _names(value, field):
+    if value is None:
+        return None
+    if isinstance(value, str):
+        value = [value]
+    if not isinstance(value, list) or not value or not all(isinstance(v, str) for v in value):
+        raise SelectionError(f"{field}: expected a name or a list of names, got {value!r}")
+    return tuple(value)
+
+
+def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
+    """Build a :class:`Job` from the whole job TOML; errors name the field."""
+    from ..beam import parse_beam
+
+    p = where
+    if not isinstance(data.get("beam"), dict):
+        raise SelectionError(f"{p}beam: missing [beam] table")
+    for key in ("EI", "section", "material", "stiffness", "mass_per_length", "self_weight"):
+        if key in data["beam"] or (key == "stiffness" and "stiffness" in data):
+            raise SelectionError(f"{p}beam.{key}: a selection job takes the member from the catalogue; "
+                                 "remove it (self-weight goes in search.self_weight)")
+    search_t = data.get("search")
+    if not isinstance(search_t, dict):
+        raise SelectionError(f"{p}search: missing [search] table (families, materials, catalog ...)")
+    limits_t = data.get("limits")
+    if not isinstance(limits_t, dict):
+        raise SelectionError(f"{p}limits: missing [limits] table (bending_stress, shear_stress or stress_factor)")
+    for key in search_t:
+        if key not in _SEARCH_KEYS:
+            raise SelectionError(f"{p}search.{key}: unknown key; expected {', '.join(sorted(_SEARCH_KEYS))}")
+    for key in limits_t:
+        if key not in _LIMIT_KEYS:
+            raise SelectionError(f"{p}limits.{key}: unknown key; expected {', '.join(sorted(_LIMIT_KEYS))}")
+    units = UnitSystem.from_spec(data.get("units"), f"{p}units")
+
+    families = _names(search_t.get("families"), f"{p}search.families")
+    series = _names(search_t.get("series"), f"{p}search.series")
+    if series:
+        families = (families or ()) + series
+    materials = _names(search_t.get("materials"), f"{p}search.materials")
+    catalog = search_t.get("catalog")
+    if catalog is not None:
+        if not isinstance(catalog, str):
+            raise SelectionError(f"{p}search.catalog: expected a CSV file name, got {catalog!r}")
+        catalog = Path(base_dir) / catalog
+        if not catalog.is_file():
+            raise SelectionError(f"{p}search.catalog: file {catalog} not found")
+    mat_file = search_t.get("materials_file")
+    if mat_file is not None:
+        mat_file = Path(base_dir) / str(mat_file)
+        if not mat_file.is_file():
+            raise SelectionError(f"{p}search.materials_file: file {mat_file} not found")
+    sizes = {k: parse(search_t[k], "length", f"{p}search.{k}", units) if k in search_t else None
+             for k in ("max_depth", "min_depth", "max_width", "min_width")}
+    for k, v in sizes.items():
+        if v is not None and not v > 0:
+            raise SelectionError(f"{p}search.{k}: expected a positive length, got {search_t[k]!r}")
+    objective = search_t.get("objective", "mass")
+    sw = search_t.get("self_weight", "dead")
+    if sw is not None and not isinstance(sw, str):
+        raise SelectionError(f"{p}search.self_weight: expected a load case name or \"none\", got {sw!r}")
+    if sw == "none":
+        sw = None
+
+    beam_data = dict(data)
+    beam_data.pop("search", None)
+    beam_data.pop("limits", None)
+    beam = dict(data["beam"])
+    beam["EI"] = "1 N*m^2"  # placeholder: candidates supply EI
+    if sw is not None:
+        beam["self_weight"] = sw
+    beam_data["beam"] = beam
+    combos = list(beam_data.get("combination", data["beam"].get("combination", [])) or [])
+    if not combos:
+        cases = {t.get("case") for t in beam_data.get("load", []) if isinstance(t, dict)}
+        if sw is not None:
+            cases.add(sw)
+        # no combinations: one strength combination of every case at factor 1
+        beam_data["combination"] = [{"name": "all cases", "factors": {c: 1.0 for c in sorted(cases) if c}}]
+        beam.pop("combination", None)
+    model = parse_beam(beam_data, Path(base_dir), p)
+    if sw is not None:
+        used = any(case == sw for c in model.combinations for case, f in c.factors if f != 0)
+        if not used:
+            raise SelectionError(f"{p}search.self_weight: case {sw!r} is in no combination, so the "
+                                 "members' own weight would be left out; name a case the combinations "
+                                 "use, or self_weight = \"none\"")
+    if not any(c.check == "strength" for c in model.combinations):
+        raise SelectionError(f"{p}combination: no strength combination; add one with check = \"strength\"")
+    limits = Limits(
+        bending_stress=parse(limits_t["bending_stress"], "pressure", f"{p}limits.bending_stress", units)
+        if "bending_stress" in limits_t else None,
+        shear_stress=parse(limits_t["shear_stress"], "pressure", f"{p}limits.shear_stress", units)
+        if "shear_stress" in limits_t else None,
+        stress_factor=_factor(limits_t.get("stress_factor"), f"{p}limits.stress_factor"),
+    )
+    search = SearchSpec(families, materials, catalog, sizes["max_depth"], sizes["min_depth"],
+                        sizes["max_width"], sizes["min_width"], objective, sw, mat_file)
+    title = data["beam"].get("title") or data["beam"].get("name") or ""
+    return Job(model, search, limits, str(title), Path(base_dir))
+
+
+def _factor(value, field):
+    if value is None:
+        return None
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        raise SelectionError(f"{field}: expected a number such as 0.6, got {value!r}")
+    return float(value)

@@ -1,0 +1,296 @@
+"""Vectorised screening of many candidate members against one beam job.
+
+The beam is solved once per unit case (``leanspan.beam.respond``). For a prismatic
+beam without springs the internal forces do not depend on EI and deflections scale
+with 1/EI, so every combination for candidate k is ``A(x) + t_k B(x)`` where A is the
+combination of the load cases, B the unit self-weight case and ``t_k`` the
+candidate's factored weight per length. Extremes are found on a grid of points per
+element for all candidates at once and then polished by Newton steps on the exact
+element polynomial, so they equal the exact extremes to round-off. With springs the
+unit cases are solved for all K stiffnesses as one batch and combined the same way.
+
+:func:`screen_loop` does the same checks one candidate at a time through
+:func:`leanspan.beam.solve`: the independent reference the tests compare with.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+__all__ = ["Candidates", "Screen", "screen", "screen_loop", "CHECKS"]
+
+CHECKS = ("bending", "shear", "deflection")
+_SAMPLES = 12  # grid points per element before the Newton polish
+_BLOCK = 2048  # candidates per block (keeps the grid work in cache)
+
+
+@dataclass(frozen=True)
+class Candidates:
+    """Arrays (K,) describing candidate members (SI units)."""
+
+    EI: np.ndarray
+    mass_per_length: np.ndarray
+    Sz_top: np.ndarray
+    Sz_bot: np.ndarray
+    shear_factor: np.ndarray
+    bending_allow: np.ndarray
+    shear_allow: np.ndarray
+
+    @property
+    def size(self) -> int:
+        return int(np.size(self.EI))
+
+    def take(self, index) -> "Candidates":
+        return Candidates(*(np.asarray(getattr(self, f))[index] for f in self.__dataclass_fields__))
+
+
+@dataclass(frozen=True)
+class Screen:
+    """Demands and utilisations per candidate (arrays (K,), SI units).
+
+    ``M_max``/``M_min`` over strength combinations (sagging +), ``V_abs`` the largest
+    shear magnitude, ``sigma`` the peak bending stress at either extreme fibre,
+    ``tau`` the peak shear stress, ``deflection_ratio`` the largest deflection / allowed
+    over every span and overhang of every deflection combination (NaN if none),
+    ``utilisation`` a dict of the three checks, ``governing`` the name of the largest,
+    ``passes`` all utilisations <= 1.
+    """
+
+    M_max: np.ndarray
+    M_min: np.ndarray
+    V_abs: np.ndarray
+    sigma: np.ndarray
+    tau: np.ndarray
+    v_abs: np.ndarray
+    deflection_ratio: np.ndarray
+    utilisation: dict
+    governing: np.ndarray
+    passes: np.ndarray
+
+
+def _grid(lengths):
+    return lengths[:, None] * np.linspace(0.0, 1.0, _SAMPLES)[None, :]
+
+
+def _horner(coeffs, s):
+    """coeffs (..., E, n) at local points s (E, S) -> (..., E, S)."""
+    out = np.broadcast_to(coeffs[..., -1:], coeffs.shape[:-1] + (s.shape[-1],)).copy()
+    for k in range(coeffs.shape[-1] - 2, -1, -1):
+        out *= s
+        out += coeffs[..., k:k + 1]
+    return out
+
+
+def _polish(coef, s0, L, sign):
+    """Newton steps on d/ds of each row's polynomial (K, n) from s0, kept inside [0, L]."""
+    n = coef.shape[-1]
+    d1 = coef[:, 1:] * np.arange(1, n)
+    d2 = d1[:, 1:] * np.arange(1, n - 1)
+    s = s0.copy()
+    for _ in range(4):
+        g = _horner_rows(d1, s)
+        h = _horner_rows(d2, s)
+        ok = (sign * h) < 0  # curving the right way for a maximum of sign * f
+        with np.errstate(divide="ignore", invalid="ignore"):
+            step = np.where(ok, g / np.where(ok, h, 1.0), 0.0)
+        s = np.clip(s - step, 0.0, L)
+    return s, _horner_rows(coef, s)
+
+
+def _horner_rows(coef, s):
+    out = coef[:, -1].copy()
+    for k in range(coef.shape[-1] - 2, -1, -1):
+        out = out * s + coef[:, k]
+    return out
+
+
+def _extreme(vals, coef_of, s_grid, lengths, x0, sign):
+    """Largest ``sign * f`` per candidate: grid argmax, then a Newton polish.
+
+    vals : (K, E, S) grid values; coef_of(rows, elements) -> (K, n) element polynomials.
+    Returns value (signed, of f) and x.
+    """
+    K, E, S = vals.shape
+    flat = (sign * vals).reshape(K, E * S)
+    j = np.argmax(flat, axis=1)
+    best = flat[np.arange(K), j]
+    e, i = np.divmod(j, S)
+    rows = np.arange(K)
+    value, x = sign * best, x0[e] + s_grid[e, i]
+    # polish in the element of the best grid point and in its neighbours: a grid point
+    # at an element end may sit next to a peak just inside the adjacent element
+    for shift, start in ((0, None), (1, 0.0), (-1, 1.0)):
+        ee = np.clip(e + shift, 0, E - 1)
+        s0 = s_grid[ee, i] if start is None else start * lengths[ee]
+        s, f = _polish(coef_of(rows, ee), s0, lengths[ee], sign)
+        better = sign * f > sign * value
+        value = np.where(better, f, value)
+        x = np.where(better, x0[ee] + s, x)
+    return value, x
+
+
+def _combine(field, F, t, sw, fixed):
+    """Coefficients of one combination for every candidate.
+
+    field : (1 or K, U, E, n); F : (U,) case factors; t : (K,) factored weight per length.
+    Returns a function (rows, elements) -> (K', n) and the grid values builder.
+    """
+    Fn = F.copy()
+    if sw is not None:
+        Fn[sw] = 0.0
+    if fixed:  # forces independent of the candidate: A + t B
+        A = np.tensordot(Fn, field[0], axes=(0, 0))  # (E, n)
+        B = field[0, sw] if sw is not None else np.zeros_like(A)
+        return A, B
+    Fk = np.broadcast_to(Fn, (t.size, Fn.size)).copy()
+    if sw is not None:
+        Fk[:, sw] = t
+    return np.einsum("ku,kuen->ken", Fk, field), None
+
+
+def _field_extremes(field, F, sw, t, scale, lengths, x0, elems, want):
+    """Max and/or min over elements ``elems`` of a combined field, per candidate.
+
+    field (1 or K, U, E, n); the combined field for candidate k is
+    (sum_u F_u field_u + t_k field_sw) * scale_k (scale: None or (K,)).
+    want: tuple of +1 (max) and/or -1 (min). Returns {sign: (value, x)}.
+    """
+    fixed = field.shape[0] == 1
+    A, B = _combine(field[:, :, elems], F, t, sw, fixed)
+    L = lengths[elems]
+    xs = x0[elems]
+    s_grid = _grid(L)
+    out = {sg: [] for sg in want}
+    K = t.size
+    if fixed:
+        gA, gB = _horner(A, s_grid), _horner(B, s_grid)
+    for start in range(0, K, _BLOCK):
+        rows = slice(start, min(K, start + _BLOCK))
+        tk = t[rows]
+        if fixed:
+            vals = gA[None] + tk[:, None, None] * gB[None]
+            coef_of = lambda r, e, tk=tk: A[e] + tk[r, None] * B[e]  # noqa: E731
+        else:
+            Ck = A[rows]
+            vals = _horner(Ck, s_grid)
+            coef_of = lambda r, e, Ck=Ck: Ck[r, e]  # noqa: E731
+        if scale is not None:
+            sc = scale[rows]
+            vals = vals * sc[:, None, None]
+            base = coef_of
+            coef_of = lambda r, e, base=base, sc=sc: base(r, e) * sc[r, None]  # noqa: E731
+        for sg in want:
+            out[sg].append(_extreme(vals, coef_of, s_grid, L, xs, sg))
+    return {sg: tuple(np.concatenate([p[i] for p in parts]) for i in range(2)) for sg, parts in out.items()}
+
+
+def screen(model, cand: Candidates, self_weight_case=None) -> Screen:
+    """Check every candidate against every combination of ``model`` (a BeamModel).
+
+    Parameters
+    ----------
+    model : BeamModel
+        The job's beam (its own EI is ignored).
+    cand : Candidates
+    self_weight_case : str, optional
+        The case carrying each candidate's weight (default: the model's ``self_weight``).
+    """
+    from ..beam import G, respond
+
+    sw_case = self_weight_case if self_weight_case is not None else model.self_weight
+    resp = respond(model, EI=np.asarray(cand.EI, float), unit_self_weight=sw_case is not None,
+                   self_weight_case=sw_case)
+    K = cand.size
+    sw = resp.self_weight_index
+    mass_g = np.asarray(cand.mass_per_length, float) * G
+    lengths, x0 = resp.lengths, resp.x_nodes[:-1]
+    all_elems = np.arange(lengths.size)
+    fixed = resp.M.shape[0] == 1
+    if fixed:  # deflection = (v EI of the unit solve) / EI_k
+        v_field = resp.v[:1] * resp.EI[:1, None, :, None]
+        v_scale = 1.0 / np.asarray(cand.EI, float)
+    else:
+        v_field, v_scale = resp.v, None
+
+    M_max = np.full(K, -np.inf)
+    M_min = np.full(K, np.inf)
+    V_abs = np.zeros(K)
+    ratio = np.full(K, np.nan)
+    v_abs = np.full(K, np.nan)
+    mids = x0 + lengths / 2
+    for combo in resp.combos:  # a small set
+        F = np.asarray(combo.factors, float)
+        t = mass_g * (F[sw] if sw is not None else 0.0)
+        if combo.check == "strength":
+            m = _field_extremes(resp.M, F, sw, t, None, lengths, x0, all_elems, (1, -1))
+            v = _field_extremes(resp.V, F, sw, t, None, lengths, x0, all_elems, (1, -1))
+            M_max = np.maximum(M_max, m[1][0])
+            M_min = np.minimum(M_min, m[-1][0])
+            V_abs = np.maximum(V_abs, np.maximum(np.abs(v[1][0]), np.abs(v[-1][0])))
+        elif combo.limit is not None:
+            for a, b, _kind in resp.spans:
+                elems = np.nonzero((mids > a) & (mids < b))[0]
+                if elems.size == 0:
+                    continue
+                d = _field_extremes(v_field, F, sw, t, v_scale, lengths, x0, elems, (1, -1))
+                mag = np.maximum(np.abs(d[1][0]), np.abs(d[-1][0]))
+                r = mag / float(combo.limit.allowed(b - a))
+                upd = ~(r <= ratio)  # NaN-aware maximum
+                ratio = np.where(upd, r, ratio)
+                v_abs = np.where(upd, mag, v_abs)
+    S_min = np.minimum(cand.Sz_top, cand.Sz_bot)
+    # peak fibre stress: sagging M gives M/S at both fibres, hogging |M|/S likewise
+    sigma = np.maximum(np.maximum(M_max, 0.0), np.maximum(-M_min, 0.0)) / S_min
+    tau = V_abs * cand.shear_factor
+    util = {"bending": sigma / cand.bending_allow, "shear": tau / cand.shear_allow,
+            "deflection": ratio}
+    return _finish(M_max, M_min, V_abs, sigma, tau, v_abs, ratio, util)
+
+
+def _finish(M_max, M_min, V_abs, sigma, tau, v_abs, ratio, util):
+    stack = np.stack([util[c] for c in CHECKS], axis=1)
+    filled = np.where(np.isnan(stack), -np.inf, stack)
+    governing = np.asarray(CHECKS, dtype=object)[np.argmax(filled, axis=1)]
+    passes = np.all(np.isnan(stack) | (stack <= 1.0), axis=1)
+    return Screen(M_max, M_min, V_abs, sigma, tau, v_abs, ratio, util, governing, passes)
+
+
+def screen_loop(model, cand: Candidates, self_weight_case=None) -> Screen:
+    """The same checks, one candidate at a time through :func:`leanspan.beam.solve`.
+
+    Slow on purpose: the reference the vectorised :func:`screen` is tested against.
+    """
+    import dataclasses
+
+    from ..beam import Stiffness, solve
+
+    sw_case = self_weight_case if self_weight_case is not None else model.self_weight
+    K = cand.size
+    out = {k: np.zeros(K) for k in ("M_max", "M_min", "V_abs", "v_abs", "ratio")}
+    for k in range(K):
+        m = dataclasses.replace(
+            model, stiffness=(Stiffness(0.0, model.length, float(cand.EI[k])),),
+            mass_per_length=float(cand.mass_per_length[k]) if sw_case is not None else None,
+            self_weight=sw_case)
+        sol = solve(m)
+        mx, mn, va, ratio, vabs = -np.inf, np.inf, 0.0, np.nan, np.nan
+        for c in m.combinations:
+            r = sol.results[c.name]
+            if c.check == "strength":
+                mx = max(mx, r.extremes["M_max"].value)
+                mn = min(mn, r.extremes["M_min"].value)
+                va = max(va, abs(r.extremes["V_max"].value), abs(r.extremes["V_min"].value))
+            else:
+                for row in r.deflection_checks:
+                    if np.isnan(ratio) or row["utilisation"] > ratio:
+                        ratio, vabs = row["utilisation"], abs(row["v_extreme"])
+        out["M_max"][k], out["M_min"][k], out["V_abs"][k] = mx, mn, va
+        out["ratio"][k], out["v_abs"][k] = ratio, vabs
+    S_min = np.minimum(cand.Sz_top, cand.Sz_bot)
+    sigma = np.maximum(np.maximum(out["M_max"], 0.0), np.maximum(-out["M_min"], 0.0)) / S_min
+    tau = out["V_abs"] * cand.shear_factor
+    util = {"bending": sigma / cand.bending_allow, "shear": tau / cand.shear_allow,
+            "deflection": out["ratio"]}
+    return _finish(out["M_max"], out["M_min"], out["V_abs"], sigma, tau, out["v_abs"], out["ratio"], util)
