@@ -1,0 +1,68 @@
+"""``leanspan select JOB.toml``: the lightest catalogue section that passes, ranked."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from . import add_common, emit_json
+
+
+def add_parser(sub):
+    p = sub.add_parser("select", help="find the lightest section that passes a beam job's limits",
+                       description="Screen every catalogue section (and your own list) against the "
+                                   "job's beam, loads, combinations and limits; print the ranked table.")
+    p.add_argument("job", help="job file: a beam job plus [search] and [limits]")
+    add_options(p)
+    p.set_defaults(run=run)
+
+
+def add_options(p):
+    add_common(p)
+    p.add_argument("--top", type=int, default=10, metavar="N", help="passing candidates to list (default 10)")
+    p.add_argument("--report", metavar="SHEET.html", default=None, help="write the calculation sheet")
+    p.add_argument("--csv", metavar="OUT.csv", default=None, help="write the ranked table as CSV")
+    p.add_argument("--markdown", metavar="OUT.md", default=None, help="write the ranked table as Markdown")
+
+
+def load_job(path):
+    from ..fileio import load_toml
+    from ..select.job import parse_job
+
+    data = load_toml(path)
+    return parse_job(data, Path(path).resolve().parent, f"{path}: ")
+
+
+def run(args) -> int:
+    job = load_job(args.job)
+    return finish(args, job, source=args.job)
+
+
+def finish(args, job, source) -> int:
+    """Run the selection, print, export; exit status 0 (a winner) or 1 (nothing passes)."""
+    import sys
+
+    from .. import CAUTION
+    from ..report.tables import ranked_table_text, write_table_exports
+    from ..select.search import run_selection
+
+    if args.top < 1:
+        from ..errors import InputError
+
+        raise InputError(f"--top: expected a positive number, got {args.top}")
+    sel = run_selection(job)
+    for w in sel.warnings:
+        print(f"warning: {w}", file=sys.stderr)
+    write_table_exports(sel, args)
+    if getattr(args, "report", None):
+        from ..report.sheet import write_selection_sheet
+
+        write_selection_sheet(sel, args.report, units=args.units, source=source, top=args.top)
+    if args.json:
+        emit_json(sel.to_json(args.top))
+    else:
+        print(ranked_table_text(sel, args.units, args.top))
+        if getattr(args, "report", None):
+            print(f"calculation sheet written to {args.report}")
+        print()
+        print(CAUTION)
+    return 0 if sel.success else 1

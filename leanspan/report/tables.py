@@ -1,0 +1,100 @@
+"""The ranked table of a selection: text for the terminal, CSV and Markdown exports."""
+
+from __future__ import annotations
+
+__all__ = ["table_rows", "ranked_table_text", "ranked_table_markdown", "ranked_table_csv",
+           "write_table_exports", "HEADERS"]
+
+HEADERS = ["rank", "name", "material", "mass", "depth", "width", "bending", "shear", "deflection",
+           "governing", "pass"]
+
+
+def _util(u):
+    return "-" if u is None else f"{u:.2f}"
+
+
+def table_rows(sel, units: str = "si", top: int = 10):
+    """Header labels (with units) and rows of display strings for the shown candidates."""
+    from ..units import display_factor, fmt
+
+    mu, mf = display_factor("mass/length", units)
+    lu, lf = display_factor("length", units)
+    labels = ["rank", "name", "material", f"mass [{mu}]", f"depth [{lu}]", f"width [{lu}]",
+              "bending", "shear", "deflection", "governing", "pass"]
+    rows = []
+    for c in sel.shown(top):
+        u = c["utilisation"]
+        rows.append([str(c["rank"]), c["name"], c["material"], fmt(c["mass_per_length"] / mf, 4),
+                     fmt(c["depth"] / lf, 4), fmt(c["width"] / lf, 4), _util(u["bending"]),
+                     _util(u["shear"]), _util(u["deflection"]), c["governing"],
+                     "yes" if c["passes"] else "NO"])
+    return labels, rows
+
+
+def _summary(sel, units):
+    from ..units import display_factor, fmt
+
+    job = sel.job
+    lines = []
+    if job.title:
+        lines.append(job.title)
+    su, sf = display_factor("span", units)
+    spans = ", ".join(f"{fmt((b - a) / sf, 4)} {su}" + (" overhang" if k == "overhang" else "")
+                      for a, b, k in job.model.spans)
+    combos = ", ".join(f"{c.name} ({c.check}{', ' + c.limit.describe() if c.limit else ''})"
+                       for c in job.model.combinations)
+    lines.append(f"Beam: {spans}; combinations: {combos}")
+    lines.append(f"Limits: {job.limits.describe()}; self-weight in case "
+                 f"{job.search.self_weight or '(none)'}; objective: least {job.search.objective}")
+    lines.append(sel.message)
+    return lines
+
+
+def ranked_table_text(sel, units: str = "si", top: int = 10) -> str:
+    """Summary lines and an aligned table of the shown candidates."""
+    labels, rows = table_rows(sel, units, top)
+    widths = [max(len(labels[i]), *(len(r[i]) for r in rows)) if rows else len(labels[i])
+              for i in range(len(labels))]
+    right = {0, 3, 4, 5, 6, 7, 8}
+
+    def line(cells):
+        return "  ".join(c.rjust(w) if i in right else c.ljust(w) for i, (c, w) in enumerate(zip(cells, widths)))
+
+    out = _summary(sel, units) + ["", line(labels), line(["-" * w for w in widths])]
+    out += [line(r) for r in rows]
+    out.append("Utilisation = demand / limit; rows marked NO fail (lighter sections that fail are "
+               "listed after the passing ones).")
+    return "\n".join(out)
+
+
+def ranked_table_markdown(sel, units: str = "si", top: int = 10) -> str:
+    """The ranked table as a Markdown (pipe) table, with the summary above it."""
+    labels, rows = table_rows(sel, units, top)
+    out = [f"- {s}" for s in _summary(sel, units)] + [""]
+    out.append("| " + " | ".join(labels) + " |")
+    out.append("|" + "|".join("---:" if i in (0, 3, 4, 5, 6, 7, 8) else "---" for i in range(len(labels))) + "|")
+    out += ["| " + " | ".join(r) + " |" for r in rows]
+    return "\n".join(out) + "\n"
+
+
+def ranked_table_csv(sel, units: str = "si", top: int = 10) -> str:
+    """The ranked table as CSV (display units in the headers)."""
+    import csv
+    import io
+
+    labels, rows = table_rows(sel, units, top)
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(labels)
+    w.writerows(rows)
+    return buf.getvalue()
+
+
+def write_table_exports(sel, args) -> None:
+    """Write ``--csv`` and ``--markdown`` files (atomically) when asked."""
+    from ..fileio import atomic_write
+
+    if getattr(args, "csv", None):
+        atomic_write(args.csv, ranked_table_csv(sel, args.units, args.top))
+    if getattr(args, "markdown", None):
+        atomic_write(args.markdown, ranked_table_markdown(sel, args.units, args.top))

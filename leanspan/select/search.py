@@ -1,0 +1,181 @@
+"""The search: catalogue -> candidates -> screening -> a ranked result.
+
+Like ``scipy.optimize``, a search where nothing passes is a result
+(``success = False`` with a message), not an exception.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from ..errors import SelectionError
+from .screen import CHECKS, Candidates, Screen, screen
+
+__all__ = ["Selection", "run_selection", "candidate_table", "candidates_from_table"]
+
+_SECTION_COLUMNS = ("A", "Iz", "Sz_top", "Sz_bot", "shear_factor", "depth", "width", "mass_per_length")
+
+
+@dataclass(frozen=True)
+class Selection:
+    """Outcome of a selection.
+
+    Attributes
+    ----------
+    success : bool
+        Some candidate passes every check.
+    message : str
+    chosen : dict or None
+        The best passing candidate (JSON contract CANDIDATE).
+    order : ndarray
+        Row indices of ``table``: passing candidates in objective order, then failing
+        ones by their largest utilisation (rank = position + 1).
+    screened : int
+    table : pandas.DataFrame
+        The catalogue rows screened (same order as the ``result`` arrays).
+    result : Screen
+    job : Job
+    warnings : list of str
+    """
+
+    success: bool
+    message: str
+    chosen: dict | None
+    order: np.ndarray
+    screened: int
+    table: object
+    result: Screen
+    job: object
+    warnings: list = field(default_factory=list)
+
+    def rows(self, positions) -> list:
+        """CANDIDATE dicts for the given rank positions (0-based)."""
+        return _rows(self.table, self.result, self.order, positions)
+
+    @property
+    def ranked(self) -> list:
+        """Every candidate as a CANDIDATE dict, in rank order."""
+        return self.rows(range(len(self.order)))
+
+    def shown_positions(self, top: int = 10, failures: int = 3) -> list:
+        """Rank positions for the table: ``top`` passing plus the nearest failures.
+
+        With a winner the nearest failures are the heaviest failing candidates lighter
+        (or, for objective depth, shallower) than it; with none, the ``top`` closest.
+        """
+        passes = self.result.passes[self.order]
+        n_pass = int(passes.sum())
+        if n_pass == 0:
+            return list(range(min(top, len(self.order))))
+        key = "mass_per_length" if self.job.search.objective == "mass" else "depth"
+        value = self.table[key].to_numpy(float)[self.order]
+        fail_pos = np.flatnonzero(~passes)
+        lighter = fail_pos[value[fail_pos] < value[0]]
+        lighter = lighter[np.argsort(-value[lighter], kind="stable")][:failures]
+        return list(range(min(top, n_pass))) + [int(p) for p in lighter]
+
+    def shown(self, top: int = 10, failures: int = 3) -> list:
+        return self.rows(self.shown_positions(top, failures))
+
+    def to_json(self, top: int = 10) -> dict:
+        return {"chosen": self.chosen, "candidates": self.shown(top), "screened": self.screened}
+
+
+def candidate_table(search):
+    """The catalogue rows a :class:`~leanspan.select.job.SearchSpec` asks for."""
+    from ..catalog.table import catalog_table
+
+    df = catalog_table(series=None, families=list(search.families) if search.families else None,
+                       materials=list(search.materials) if search.materials else None,
+                       user_csv=search.catalog, max_depth=search.max_depth, min_depth=search.min_depth,
+                       min_width=search.min_width, max_width=search.max_width,
+                       material_table=search.materials_file)
+    return df
+
+
+def candidates_from_table(df, limits) -> Candidates:
+    """Arrays for :func:`screen` from catalogue rows (E x Iz, allowable stresses ...)."""
+    col = lambda k: df[k].to_numpy(float)  # noqa: E731
+    fb, fv = limits.allowable(col("strength_bending"), col("strength_shear"))
+    return Candidates(EI=col("E") * col("Iz"), mass_per_length=col("mass_per_length"),
+                      Sz_top=col("Sz_top"), Sz_bot=col("Sz_bot"), shear_factor=col("shear_factor"),
+                      bending_allow=fb, shear_allow=fv)
+
+
+def _rows(df, res: Screen, order, positions) -> list:
+    from ..catalog.table import row_dims
+
+    names = df["name"].to_numpy()
+    out = []
+    for pos in positions:
+        k = int(order[pos])
+        rank = pos + 1
+        row = df.iloc[k]
+        util = {c: (None if np.isnan(res.utilisation[c][k]) else float(res.utilisation[c][k])) for c in CHECKS}
+        out.append({
+            "rank": rank,
+            "name": str(names[k]),
+            "family": str(row["family"]),
+            "series": str(row["series"]),
+            "material": str(row["material"]),
+            "dims": {key: float(v) for key, v in row_dims(row).items()},
+            "mass_per_length": float(row["mass_per_length"]),
+            "depth": float(row["depth"]),
+            "width": float(row["width"]),
+            "utilisation": util,
+            "governing": str(res.governing[k]),
+            "passes": bool(res.passes[k]),
+            "demands": {"M_max": float(res.M_max[k]), "M_min": float(res.M_min[k]),
+                        "V_abs": float(res.V_abs[k]), "sigma": float(res.sigma[k]),
+                        "tau": float(res.tau[k]),
+                        "v_abs": None if np.isnan(res.v_abs[k]) else float(res.v_abs[k])},
+        })
+    return out
+
+
+def rank_order(df, res: Screen, objective: str) -> np.ndarray:
+    """Indices: passing candidates by objective (mass or depth, ties by the other, then
+    name), then failing ones by their largest utilisation."""
+    mass = df["mass_per_length"].to_numpy(float)
+    depth = df["depth"].to_numpy(float)
+    names = df["name"].to_numpy().astype(str)
+    worst = np.nanmax(np.stack([res.utilisation[c] for c in CHECKS], axis=1), axis=1)
+    first, second = (mass, depth) if objective == "mass" else (depth, mass)
+    p = np.flatnonzero(res.passes)
+    f = np.flatnonzero(~res.passes)
+    p = p[np.lexsort((names[p], second[p], first[p]))]
+    f = f[np.lexsort((names[f], first[f], worst[f]))]
+    return np.concatenate([p, f])
+
+
+def run_selection(job, table=None) -> Selection:
+    """Screen the job's whole search space and rank it.
+
+    Parameters
+    ----------
+    job : Job
+    table : pandas.DataFrame, optional
+        Catalogue rows to screen instead of the job's own search (used by tests).
+    """
+    df = candidate_table(job.search) if table is None else table
+    warnings = list(df.attrs.get("warnings", [])) if hasattr(df, "attrs") else []
+    if len(df) == 0:
+        raise SelectionError("search: no catalogue rows match the families, materials and size limits; "
+                             "widen the search")
+    cand = candidates_from_table(df, job.limits)
+    res = screen(job.model, cand, job.search.self_weight)
+    order = rank_order(df, res, job.search.objective)
+    first = _rows(df, res, order, [0])[0]
+    n_pass = int(res.passes.sum())
+    if n_pass:
+        chosen = first
+        msg = f"{n_pass} of {len(df)} candidates pass; lightest by {job.search.objective}: {chosen['name']}"
+    else:
+        chosen = None
+        best = first
+        g = best["governing"]
+        msg = (f"no candidate passes ({len(df)} screened); closest is {best['name']} "
+               f"({best['material']}) with {g} at {best['utilisation'][g]:.2f} of its limit")
+    return Selection(bool(n_pass), msg, chosen, order, len(df), df, res, job, warnings)
