@@ -131,9 +131,13 @@ def _node_index(x, value):
     return int(np.argmin(np.abs(x - value)))
 
 
+SNAP = 1e-6
+"""Feature positions closer than SNAP * length share a node (short elements are ill-conditioned)."""
+
+
 def _mesh(model: BeamModel) -> _Mesh:
     L = model.length
-    tol = 1e-9 * L
+    tol = SNAP * L
     pts = [0.0, L]
     pts += [s.at for s in model.supports] + list(model.hinges)
     for p in model.stiffness:
@@ -191,7 +195,7 @@ def _unit_cases(model, mesh, unit_self_weight, pattern_cases):
     q0 = np.zeros((U, E))
     q1 = np.zeros((U, E))
     x0, x1 = mesh.x[:-1], mesh.x[1:]
-    tol = 1e-9 * model.length
+    tol = SNAP * model.length
     espan = _span_index(spans, 0.5 * (x0 + x1))
     for ld in model.loads:  # loads are a small set; each is vectorised over elements
         u = names.index(ld.case)
@@ -348,6 +352,22 @@ def _supports_dofs(model, mesh):
     return fixed, springs
 
 
+def _refined_solve(A, b, steps: int = 2):
+    """Solve stacked systems ``A x = b`` (``A`` in long double) by double-precision LU with
+    iterative refinement (residuals in long double).
+
+    Short elements next to soft springs make ``A`` ill-conditioned (element terms EI/L^3 far
+    above k); refinement with an extended-precision residual recovers full double accuracy.
+    """
+    Ad = A.astype(float)
+    x = np.linalg.solve(Ad, b)
+    Al, bl = A.astype(np.longdouble), b.astype(np.longdouble)
+    for _ in range(steps):
+        r = (bl - np.matmul(Al, x.astype(np.longdouble))).astype(float)
+        x = x + np.linalg.solve(Ad, r)
+    return x
+
+
 def respond(model: BeamModel, EI=None, unit_self_weight: bool = True, self_weight_case: str | None = None,
             ) -> Response:
     """Solve every unit case exactly, for the model's stiffness or for K candidates at once.
@@ -397,9 +417,13 @@ def respond(model: BeamModel, EI=None, unit_self_weight: bool = True, self_weigh
             raise BeamError("EI: candidate stiffnesses need a prismatic beam (one EI along the length)")
         ratio = EI / mesh.EI[0]
 
-    Ke = _element_stiffness(mesh.L, mesh.EI)
-    K = np.zeros((mesh.ndof, mesh.ndof))
-    np.add.at(K, (mesh.edofs[:, :, None], mesh.edofs[:, None, :]), Ke)
+    # assembled in long double: short stiff elements then keep their rigid-body modes free of
+    # spurious stiffness far below round-off of EI/L^3 (which would pollute soft springs)
+    LD = np.longdouble
+    Ke = _element_stiffness(mesh.L.astype(LD), mesh.EI.astype(LD))
+    Kl = np.zeros((mesh.ndof, mesh.ndof), LD)
+    np.add.at(Kl, (mesh.edofs[:, :, None], mesh.edofs[:, None, :]), Ke)
+    K = Kl.astype(float)
     S = np.zeros(mesh.ndof)
     for dof, k, _, _ in springs:
         S[dof] += k
@@ -411,15 +435,18 @@ def respond(model: BeamModel, EI=None, unit_self_weight: bool = True, self_weigh
     np.add.at(F, mesh.th_left, C.T)
     fixed_dofs = np.array([f[0] for f in fixed], int)
     free = np.setdiff1d(np.arange(mesh.ndof), fixed_dofs)
-    Kff = K[np.ix_(free, free)]
+    Kff = Kl[np.ix_(free, free)]
     batched = ratio is not None and bool(springs)
+    Sff = np.diag(S[free]).astype(LD)
     if batched:
-        A = ratio[:, None, None] * Kff[None] + np.diag(S[free])[None]
-        d_free = np.linalg.solve(A, np.broadcast_to(F[free], (ratio.size,) + F[free].shape))
+        A = ratio.astype(LD)[:, None, None] * Kff[None] + Sff[None]
+        b = np.broadcast_to(F[free], (ratio.size,) + F[free].shape)
         kfac = ratio
     else:
-        d_free = np.linalg.solve(Kff + np.diag(S[free]), F[free])[None]
+        A = (Kff + Sff)[None]
+        b = F[free][None]
         kfac = np.ones(1)
+    d_free = _refined_solve(A, b)
     nk = d_free.shape[0]
     d = np.zeros((nk, mesh.ndof, len(names)))
     d[:, free] = d_free
@@ -427,7 +454,10 @@ def respond(model: BeamModel, EI=None, unit_self_weight: bool = True, self_weigh
     # reactions (nk, U, nsup, 2): rigid ones from K d - F, springs -k d
     R = np.zeros((nk, len(names), len(model.supports), 2))
     if fixed:
-        Rf = kfac[:, None, None] * np.einsum("rj,kju->kru", K[fixed_dofs], d) - F[fixed_dofs][None]
+        # K d - F in extended precision: stiff short elements make it a difference of large terms
+        Kr = Kl[fixed_dofs]
+        Rf = (kfac[:, None, None].astype(np.longdouble) * np.matmul(Kr[None], d.astype(np.longdouble))
+              - F[fixed_dofs][None]).astype(float)
         for r, (_, i, comp) in enumerate(fixed):
             R[:, :, i, comp] += Rf[:, r]
     for dof, k, i, comp in springs:

@@ -1,0 +1,206 @@
+"""Property tests on random beams (hypothesis): statics, reciprocity, field relations, superposition.
+
+References: equilibrium of a free body and Maxwell-Betti reciprocity (any mechanics-of-materials
+textbook, e.g. Timoshenko & Gere, Mechanics of Materials, chapters on statically indeterminate
+beams and energy methods); M = EI v'' and V = -dM/dx are the beam equations of GUIDE section 3,
+checked here with finite differences of the computed fields, independent of how they were built.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from hypothesis import HealthCheck, assume, given, settings
+from hypothesis import strategies as st
+
+from leanspan.beam import (BeamModel, Combination, Couple, DistributedLoad, PointLoad, Stiffness, Support,
+                           poly, solve)
+from leanspan.errors import MechanismError
+
+SETTINGS = settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+
+
+@st.composite
+def beams(draw, with_loads=True):
+    L = draw(st.floats(2.0, 20.0))
+    n = draw(st.integers(1, 4))
+    fr = sorted(set(draw(st.lists(st.sampled_from([0.0, 0.15, 0.3, 0.45, 0.5, 0.62, 0.8, 0.9, 1.0]),
+                                  min_size=n, max_size=n))))
+    sups = []
+    for f in fr:
+        kind = draw(st.sampled_from(["pin", "roller", "fixed", "spring", "spring_r", "guided"]))
+        if kind == "spring":
+            sups.append(Support(f * L, "spring", k=draw(st.floats(1e4, 1e8))))
+        elif kind == "spring_r":
+            sups.append(Support(f * L, "spring", k=draw(st.floats(1e4, 1e8)), kr=draw(st.floats(1e4, 1e8))))
+        else:
+            sups.append(Support(f * L, kind))
+    hinges = ()
+    if draw(st.booleans()):
+        h = draw(st.sampled_from([0.25, 0.55, 0.7])) * L
+        if not any(abs(s.at - h) < 1e-9 and s.rotational for s in sups):
+            hinges = (h,)
+    if draw(st.booleans()):
+        cut = draw(st.floats(0.2, 0.8)) * L
+        stiff = (Stiffness(0, cut, draw(st.floats(1e5, 1e7))), Stiffness(cut, L, draw(st.floats(1e5, 1e7))))
+    else:
+        stiff = (Stiffness(0, L, draw(st.floats(1e5, 1e7))),)
+    loads = []
+    if with_loads:
+        for _ in range(draw(st.integers(1, 5))):
+            kind = draw(st.sampled_from(["point", "moment", "udl", "linear"]))
+            case = draw(st.sampled_from(["A", "B"]))
+            a = draw(st.integers(0, 40)) / 40 * L  # on a grid: features 1/40 of the span apart
+            if kind == "point":
+                loads.append(PointLoad(case, draw(st.floats(-1e4, 1e4)), a))
+            elif kind == "moment":
+                if any(abs(a - h) < 1e-6 * L for h in hinges):
+                    continue
+                loads.append(Couple(case, draw(st.floats(-1e4, 1e4)), a))
+            else:
+                b = draw(st.integers(0, 40)) / 40 * L
+                lo, hi = min(a, b), max(a, b)
+                assume(hi - lo > 1e-3 * L)
+                w1 = draw(st.floats(-5e3, 5e3))
+                w2 = w1 if kind == "udl" else draw(st.floats(-5e3, 5e3))
+                loads.append(DistributedLoad(case, w1, w2, lo, hi))
+    try:
+        model = BeamModel(L, tuple(sups), stiff, tuple(loads), hinges)
+        if with_loads:
+            assume(model.cases)
+            sol = solve(model)
+        else:
+            from leanspan.beam import check_mechanism
+            check_mechanism(model)
+            sol = None
+    except MechanismError:
+        assume(False)
+    return model, sol
+
+
+def _applied(model, case):
+    """Total upward force and counter-clockwise moment about x = 0 of the applied loads."""
+    F = Mo = 0.0
+    for ld in model.loads:
+        if ld.case != case:
+            continue
+        if isinstance(ld, PointLoad):
+            F -= ld.P
+            Mo -= ld.P * ld.at
+        elif isinstance(ld, Couple):
+            Mo += ld.M
+        else:
+            a, b = ld.start, ld.end
+            c = b - a
+            F -= (ld.w1 + ld.w2) / 2 * c
+            Mo -= c / 6 * (ld.w1 * (2 * a + b) + ld.w2 * (a + 2 * b))  # integral of w(x) x dx
+    return F, Mo
+
+
+def _scale(model, case):
+    out = 1.0
+    for ld in model.loads:
+        if ld.case == case:
+            out = max(out, abs(getattr(ld, "P", 0.0)), abs(getattr(ld, "M", 0.0)) / model.length,
+                      abs(getattr(ld, "w1", 0.0)) * model.length, abs(getattr(ld, "w2", 0.0)) * model.length)
+    return out
+
+
+@SETTINGS
+@given(beams())
+def test_equilibrium(mb):
+    model, sol = mb
+    for case in model.cases:
+        F, Mo = _applied(model, case)
+        R = sol.results[case].reactions
+        sF = F + sum(r["force"] for r in R)
+        sM = Mo + sum(r["force"] * r["at"] + r["moment"] for r in R)
+        s = _scale(model, case)
+        assert abs(sF) <= 1e-9 * s * 10
+        assert abs(sM) <= 1e-9 * s * model.length * 10
+
+
+def _eval(sol, case, key, x):
+    r = sol.response
+    u = r.unit_cases.index(case)
+    e = np.clip(np.searchsorted(r.x_nodes, x, side="right") - 1, 0, len(r.lengths) - 1)
+    return poly.evaluate(getattr(r, key)[0, u, e], x - r.x_nodes[e])
+
+
+@SETTINGS
+@given(beams())
+def test_fields_continuous_and_consistent(mb):
+    """v continuous everywhere, theta except at hinges; M = EI v'' and V = -dM/dx by finite differences."""
+    model, sol = mb
+    r = sol.response
+    L = model.length
+    for case in model.cases:
+        u = r.unit_cases.index(case)
+        v, th = r.v[0, u], r.theta[0, u]
+        end_v = poly.evaluate(v[:-1], r.lengths[:-1])
+        ext = sol.results[case].extremes
+        vscale = max(abs(ext["v_max"].value), abs(ext["v_min"].value)) + 1e-300
+        assert np.allclose(end_v, v[1:, 0], rtol=0, atol=1e-9 * vscale)
+        end_t = poly.evaluate(th[:-1], r.lengths[:-1])
+        hinge = np.isin(np.round(r.x_nodes[1:-1] / L, 9), np.round(np.array(model.hinges) / L, 9))
+        tscale = max(abs(ext["theta_max"].value), abs(ext["theta_min"].value)) + 1e-300
+        assert np.allclose(end_t[~hinge], th[1:, 0][~hinge], rtol=0, atol=1e-8 * tscale)
+        # finite differences at the middle of each element (fields are smooth inside)
+        xm = r.x_nodes[:-1] + r.lengths / 2
+        h = 1e-3 * r.lengths
+        ei = r.EI[0]
+        d2v = (_eval(sol, case, "v", xm + h) - 2 * _eval(sol, case, "v", xm) + _eval(sol, case, "v", xm - h)) / h**2
+        M = _eval(sol, case, "M", xm)
+        Mscale = max(abs(ext["M_max"].value), abs(ext["M_min"].value)) + 1e-9 * _scale(model, case) * L
+        assert np.allclose(ei * d2v, M, rtol=0, atol=1e-4 * Mscale)
+        h = 1e-4 * r.lengths  # M is at most cubic: the central-difference error h^2 M'''/6 stays tiny
+        dM = (_eval(sol, case, "M", xm + h) - _eval(sol, case, "M", xm - h)) / (2 * h)
+        V = _eval(sol, case, "V", xm)
+        Vscale = np.abs(V).max() + Mscale / L
+        assert np.allclose(-dM, V, rtol=0, atol=1e-6 * Vscale)
+
+
+@SETTINGS
+@given(beams(with_loads=False), st.integers(0, 40).map(lambda i: i / 40), st.integers(0, 40).map(lambda i: i / 40))
+def test_maxwell_betti(mb, fa, fb):
+    """Deflection at b from a unit load at a equals deflection at a from a unit load at b."""
+    model, _ = mb
+    L = model.length
+    a, b = fa * L, fb * L
+    m = BeamModel(L, model.supports, model.stiffness, (PointLoad("A", 1.0, a), PointLoad("B", 1.0, b)),
+                  model.hinges)
+    sol = solve(m)
+    vab = float(_eval(sol, "A", "v", np.array(b)))
+    vba = float(_eval(sol, "B", "v", np.array(a)))
+    scale = max(abs(vab), abs(vba), abs(sol.results["A"].extremes["v_min"].value), 1e-300)
+    assert abs(vab - vba) <= 1e-9 * scale
+
+
+@SETTINGS
+@given(beams(), st.floats(-3, 3), st.floats(-3, 3))
+def test_superposition(mb, fa, fb):
+    """A combination fa*A + fb*B equals one case holding the loads scaled by hand."""
+    model, sol = mb
+    assume(set(model.cases) == {"A", "B"})
+    combo = Combination("C", (("A", fa), ("B", fb)))
+    m1 = BeamModel(model.length, model.supports, model.stiffness, model.loads, model.hinges, (combo,))
+    scaled = []
+    for ld in model.loads:
+        f = fa if ld.case == "A" else fb
+        if isinstance(ld, PointLoad):
+            scaled.append(PointLoad("S", f * ld.P, ld.at))
+        elif isinstance(ld, Couple):
+            scaled.append(Couple("S", f * ld.M, ld.at))
+        else:
+            scaled.append(DistributedLoad("S", f * ld.w1, f * ld.w2, ld.start, ld.end))
+    m2 = BeamModel(model.length, model.supports, model.stiffness, tuple(scaled), model.hinges)
+    r1, r2 = solve(m1).results["C"], solve(m2).results["S"]
+    def size(r, letter):
+        return max(abs(r.extremes[k].value) for k in r.extremes if k[0] == letter)
+
+    for key in ("M_max", "M_min", "V_max", "v_min", "v_max"):
+        scale = max(abs(fa), abs(fb)) * (size(sol.results["A"], key[0]) + size(sol.results["B"], key[0])) + 1e-300
+        assert r1.extremes[key].value == pytest.approx(r2.extremes[key].value, abs=1e-9 * scale)
+    fscale = max(abs(fa), abs(fb)) * sum(max(abs(x["force"]) for x in sol.results[c].reactions) for c in "AB")
+    for a, b in zip(r1.reactions, r2.reactions):
+        assert a["force"] == pytest.approx(b["force"], abs=1e-9 * fscale + 1e-300)
