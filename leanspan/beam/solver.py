@@ -23,7 +23,7 @@ Examples
 >>> tip = float(r.v[0, 0, -1, :] @ 4.0 ** np.arange(6))       # deflection at x = 4 m
 >>> round(tip / (-1000.0 * 4.0**3 / (3 * 2.0e6)), 12)             # PL^3/(3EI), downward
 1.0
->>> r.reactions[0, 0, 0].tolist()          # upward force, counter-clockwise moment at the wall
+>>> [round(x, 9) for x in r.reactions[0, 0, 0].tolist()]   # upward force, ccw moment at the wall
 [1000.0, 4000.0]
 """
 
