@@ -1,0 +1,79 @@
+"""The screening API: respond() for many stiffness candidates, unit cases, combos; poly extremes."""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+
+from leanspan.beam import (BeamModel, Combination, DistributedLoad, PointLoad, Stiffness, Support, poly,
+                           respond, solve)
+from leanspan.errors import BeamError
+
+
+def sprung(EI=2.0e6):
+    return BeamModel(9.0, (Support(0.0, "pin"), Support(4.0, "spring", k=3.0e5), Support(9.0, "roller")),
+                     (Stiffness(0.0, 9.0, EI),),
+                     (DistributedLoad("dead", 2e3, 2e3, 0.0, 9.0), PointLoad("imposed", 5e3, 6.0)),
+                     combinations=(Combination("ULS", (("dead", 1.35), ("imposed", 1.5)), pattern="imposed"),
+                                   Combination("SLS", (("dead", 1.0), ("imposed", 1.0)), "deflection")),
+                     self_weight="dead", mass_per_length=20.0)
+
+
+def test_batched_springs_match_individual_solves():
+    EIs = np.array([5e5, 2e6, 7e6])
+    r = respond(sprung(), EI=EIs)
+    assert r.v.shape[0] == 3 and r.M.shape[0] == 3
+    for k, ei in enumerate(EIs):
+        one = respond(sprung(ei))
+        for key in ("M", "V", "v", "theta", "reactions"):
+            a, b = getattr(r, key)[k], getattr(one, key)[0]
+            assert np.allclose(a, b, rtol=0, atol=1e-10 * np.abs(b).max())
+
+
+def test_no_springs_scale_with_one_over_EI():
+    m = BeamModel(6.0, (Support(0.0, "fixed"), Support(6.0, "roller")), (Stiffness(0.0, 6.0, 1e6),),
+                  (DistributedLoad("d", 1e3, 3e3, 1.0, 5.0),))
+    r = respond(m, EI=np.array([1e6, 4e6]))
+    assert r.M.shape[0] == 1 and r.v.shape[0] == 2  # forces independent of EI
+    assert np.allclose(r.v[1], r.v[0] / 4, rtol=1e-12)
+    with pytest.raises(BeamError):
+        respond(BeamModel(6.0, m.supports, (Stiffness(0, 3, 1e6), Stiffness(3, 6, 2e6)), m.loads), EI=[1e6])
+
+
+def test_unit_cases_and_combos():
+    r = respond(sprung())
+    assert r.unit_cases[:2] == ["dead", "imposed"]
+    assert r.unit_cases[-1] == "self-weight" and r.self_weight_index == len(r.unit_cases) - 1
+    assert [s[2] for s in r.spans] == ["span", "span"]
+    uls = [c for c in r.combos if c.parent == "ULS"]
+    assert len(uls) == 4 and uls[0].name == "ULS [pattern 1,1]"
+    assert uls[0].factors[r.self_weight_index] == 1.35  # self-weight carries the dead factor
+    # the pattern sub-cases sum to the imposed case (superposition)
+    sub = [r.unit_cases.index(f"imposed [span {j}]") for j in (1, 2)]
+    assert np.allclose(r.M[0, sub].sum(axis=0), r.M[0, 1], atol=1e-9 * np.abs(r.M[0, 1]).max())
+    # the unit self-weight case is 1 N/m downward: total reaction = length
+    assert r.reactions[0, r.self_weight_index, :, 0].sum() == pytest.approx(9.0, rel=1e-12)
+
+
+def test_solve_self_weight_needs_mass():
+    m = BeamModel(5.0, (Support(0.0, "pin"), Support(5.0, "roller")), (Stiffness(0, 5, 1e6),),
+                  self_weight="dead")
+    with pytest.raises(BeamError, match="mass_per_length"):
+        solve(m)
+
+
+def test_poly_extremes_against_dense_sampling():
+    rng = np.random.default_rng(7)
+    c = rng.normal(size=(50, 6))
+    L = rng.uniform(0.2, 3.0, size=50)
+    vmax, smax, vmin, smin = poly.extremes(c, L)
+    s = np.linspace(0, 1, 20001)[None, :] * L[:, None]
+    dense = poly.evaluate(c[:, None, :], s)
+    # exact extremes are never below a dense sample, and agree with it to sampling accuracy
+    assert np.all(vmax >= dense.max(1) - 1e-12) and np.all(vmin <= dense.min(1) + 1e-12)
+    assert np.allclose(vmax, dense.max(1), rtol=1e-6, atol=1e-6)
+    assert np.allclose(poly.evaluate(c, smax), vmax) and np.all((smax >= 0) & (smax <= L))
+    # degenerate leading zeros (a cubic stored in a quintic slot) still work
+    cubic = np.array([0.0, 3.0, 0.0, -1.0, 0.0, 0.0])  # 3s - s^3: max 2 at s = 1
+    hi, at, lo, _ = poly.extremes(cubic, 1.5)
+    assert float(hi) == pytest.approx(2.0, rel=1e-15) and float(at) == pytest.approx(1.0, rel=1e-15)
