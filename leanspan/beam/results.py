@@ -25,7 +25,6 @@ Examples
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -117,7 +116,7 @@ def _member_fields(resp: Response, Fm):
     return out
 
 
-def _station_grid(resp, flds, n_regular, single):
+def _station_grid(resp, flds, n_regular, single, pre):
     """Local station positions (E, m) with NaN padding, sorted."""
     L = resp.lengths
     total = float(L.sum())
@@ -126,11 +125,11 @@ def _station_grid(resp, flds, n_regular, single):
     j = np.arange(m + 1)[None, :]
     reg = np.where(j <= nsub[:, None], j / nsub[:, None] * L[:, None], np.nan)
     if single:
-        extra = [poly.roots_in(flds["V"][0], L), poly.roots_in(flds["theta"][0], L)]
+        extra = [pre["roots_V"][0], pre["roots_theta"][0]]
     else:
         extra = []
         for key in ("M", "v"):
-            vmax, smax, vmin, smin = poly.extremes(flds[key], L)
+            vmax, smax, vmin, smin = pre[key]
             ia = np.argmax(vmax, axis=0)[None]
             ib = np.argmin(vmin, axis=0)[None]
             extra += [np.take_along_axis(smax, ia, 0)[0][:, None], np.take_along_axis(smin, ib, 0)[0][:, None]]
@@ -141,9 +140,9 @@ def _station_grid(resp, flds, n_regular, single):
     return np.sort(s, axis=1)
 
 
-def _stations(resp, flds, n_regular):
+def _stations(resp, flds, n_regular, pre):
     C = flds["M"].shape[0]
-    s = _station_grid(resp, flds, n_regular, C == 1)
+    s = _station_grid(resp, flds, n_regular, C == 1, pre)
     E = s.shape[0]
     vals = {k: poly.evaluate(flds[k][:, :, None, :], np.nan_to_num(s)[None]) for k in _FIELDS}  # (C, E, m)
     valid = ~np.isnan(s)
@@ -171,12 +170,11 @@ def _stations(resp, flds, n_regular):
     return out
 
 
-def _extremes(resp, flds, names):
+def _extremes(resp, pre, names):
     out = {}
-    L = resp.lengths
     x0 = resp.x_nodes[:-1]
     for key in ("M", "V", "theta", "v"):
-        vmax, smax, vmin, smin = poly.extremes(flds[key], L)  # (C, E)
+        vmax, smax, vmin, smin = pre[key]  # (C, E)
         i = np.unravel_index(np.argmax(vmax), vmax.shape)
         j = np.unravel_index(np.argmin(vmin), vmin.shape)
         many = len(names) > 1
@@ -201,7 +199,7 @@ def _reactions(resp, R, names):
     return out
 
 
-def _deflection_checks(resp, v, members):
+def _deflection_checks(resp, pre_v, members):
     """Worst per span over the deflection members that carry a limit."""
     rows = [(c, i) for i, c in enumerate(members) if c.check == "deflection" and c.limit is not None]
     if not rows:
@@ -210,7 +208,7 @@ def _deflection_checks(resp, v, members):
     x0 = resp.x_nodes[:-1]
     mid = x0 + L / 2
     idx = [i for _, i in rows]
-    vmax, smax, vmin, smin = poly.extremes(v[idx], L)
+    vmax, smax, vmin, smin = (a[idx] for a in pre_v)
     out = []
     for n, (a, b, kind) in enumerate(resp.spans):
         sel = np.nonzero((mid > a) & (mid < b))[0]
@@ -232,14 +230,30 @@ def _deflection_checks(resp, v, members):
     return out
 
 
-def _result(name, kind, check, resp, Fm, members, n_regular):
-    names = [m if isinstance(m, str) else m.name for m in members]
+def _precompute(resp, Fm):
+    """Fields, per-element extremes and derivative roots for all member rows at once."""
     flds = _member_fields(resp, Fm)
+    L = resp.lengths
+    pre = {key: poly.extremes(flds[key], L) for key in _FIELDS}
+    pre["roots_V"] = poly.roots_in(flds["V"], L)
+    pre["roots_theta"] = poly.roots_in(flds["theta"], L)
+    return flds, pre
+
+
+def _take(d, sl):
+    out = {}
+    for k, v in d.items():
+        out[k] = tuple(a[sl] for a in v) if isinstance(v, tuple) else v[sl]
+    return out
+
+
+def _result(name, kind, check, resp, members, n_regular, flds, pre):
+    names = [m if isinstance(m, str) else m.name for m in members]
     rs = ResultSet(name, kind, check, names, _reactions(resp, flds["R"], names),
-                   _extremes(resp, flds, names), _stations(resp, flds, n_regular))
+                   _extremes(resp, pre, names), _stations(resp, flds, n_regular, pre))
     combos = [m for m in members if not isinstance(m, str)]
     if combos:
-        rs.deflection_checks = _deflection_checks(resp, flds["v"], combos)
+        rs.deflection_checks = _deflection_checks(resp, pre["v"], combos)
     return rs
 
 
@@ -262,7 +276,7 @@ def solve(model: BeamModel, stations: int = 48) -> BeamSolution:
                         f"case {sw!r}")
     resp = respond(model, unit_self_weight=sw is not None)
     U = len(resp.unit_cases)
-    results = {}
+    specs = []  # (name, kind, check, factor rows, members)
     case_rows = {}
     for c in model.cases:
         f = np.zeros(U)
@@ -270,7 +284,7 @@ def solve(model: BeamModel, stations: int = 48) -> BeamSolution:
         if sw is not None and c == sw:
             f[resp.self_weight_index] = model.mass_per_length * G
         case_rows[c] = f
-        results[c] = _result(c, "case", None, resp, f[None], [c], stations)
+        specs.append((c, "case", None, f[None], [c]))
 
     def scaled(combo):  # the self-weight unit case carries 1 N/m: scale to the model's weight
         f = combo.factors.copy()
@@ -282,14 +296,20 @@ def solve(model: BeamModel, stations: int = 48) -> BeamSolution:
     for c in model.combinations:
         members = [k for k in resp.combos if (k.parent or k.name) == c.name]
         Fm = np.array([scaled(k) for k in members])
-        results[c.name] = _result(c.name, "combination", c.check, resp, Fm, members, stations)
+        specs.append((c.name, "combination", c.check, Fm, members))
         all_members += members
         all_rows.append(Fm)
     if all_members:
-        results["envelope"] = _result("envelope", "envelope", None, resp, np.vstack(all_rows),
-                                      all_members, stations)
+        specs.append(("envelope", "envelope", None, np.vstack(all_rows), all_members))
     else:
         cases = list(model.cases)
-        results["envelope"] = _result("envelope", "envelope", None, resp,
-                                      np.array([case_rows[c] for c in cases]), cases, stations)
+        specs.append(("envelope", "envelope", None, np.array([case_rows[c] for c in cases]), cases))
+    # one pass over every member row of every result: fields, extremes and roots at once
+    flds, pre = _precompute(resp, np.vstack([sp[3] for sp in specs]))
+    results = {}
+    start = 0
+    for name, kind, check, Fm, members in specs:
+        sl = slice(start, start + Fm.shape[0])
+        start = sl.stop
+        results[name] = _result(name, kind, check, resp, members, stations, _take(flds, sl), _take(pre, sl))
     return BeamSolution(model, resp, results)
