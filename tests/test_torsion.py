@@ -182,6 +182,20 @@ def test_parts_touching_along_part_of_an_edge_share_nodes():
     assert split.Cw == pytest.approx(whole.Cw, rel=2e-3)
 
 
+def test_edges_that_meet_only_to_rounding_are_merged():
+    # metres from arithmetic: -0.0285 + 0.0225 is not exactly -0.006; the noding must
+    # still join the timber's edge and the plate's (this once stalled the mesher)
+    import shapely
+
+    c, w = 0.0285, 0.0225
+    parts = [box(-c - w, 0.0, -c + w, 0.22), box(-0.006, 0.01, 0.006, 0.21), box(c - w, 0.0, c + w, 0.22)]
+    split = torsion(parts, shear_moduli=[0.5e9, 81e9, 0.5e9])
+    assert split.n_elements < 5000
+    same = torsion(parts)
+    whole = torsion([shapely.union_all(parts)], mesh_size=same.mesh.mesh_size)
+    assert same.J == pytest.approx(whole.J, rel=1e-3)
+
+
 def test_disconnected_parts_add_their_J():
     # parts that do not touch twist as separate pieces: J is the sum (the two meshes
     # differ slightly, hence the discretisation-level tolerance)

@@ -184,7 +184,11 @@ def default_mesh_size(polygons, max_elements: int = MAX_ELEMENTS) -> float:
 
 def _noded_segments(parts, h):
     """Boundary points and segments (index pairs) no longer than h, shared across parts."""
-    rings = shapely.union_all([p.boundary for p in parts])
+    # node on a fine grid so that edges meeting to within rounding (e.g. -0.0285 + 0.0225
+    # against -0.006) become one edge and every T-junction gets a vertex
+    zmin, ymin, zmax, ymax = shapely.total_bounds(parts)
+    grid = 1e-12 * float(np.hypot(zmax - zmin, ymax - ymin))
+    rings = shapely.union_all([p.boundary for p in parts], grid_size=grid)
     coords, which = shapely.get_coordinates(shapely.get_parts(rings), return_index=True)
     # consecutive vertices of one line form an edge
     same = which[1:] == which[:-1]
@@ -238,7 +242,7 @@ def _edge_keys(tri, n):
     return e[:, 0].astype(np.int64) * n + e[:, 1]
 
 
-def _conforming_delaunay(bpts, seg, ipts, h, max_rounds=40):
+def _conforming_delaunay(bpts, seg, ipts, h, max_rounds=30):
     """Delaunay triangulation in which every boundary segment is an edge."""
     pts = np.concatenate([bpts, ipts]) if ipts.size else bpts
     for _ in range(max_rounds):
@@ -252,11 +256,14 @@ def _conforming_delaunay(bpts, seg, ipts, h, max_rounds=40):
         if not missing.any():
             return pts, tri
         bad = seg[missing]
+        if np.min(np.hypot(*(pts[bad[:, 0]] - pts[bad[:, 1]]).T)) < 1e-4 * h:
+            break  # a vertex sits on a boundary edge: splitting cannot recover it
         mid = 0.5 * (pts[bad[:, 0]] + pts[bad[:, 1]])
         new = np.arange(n, n + bad.shape[0])
         seg = np.concatenate([seg[~missing], np.column_stack([bad[:, 0], new]), np.column_stack([new, bad[:, 1]])])
         pts = np.concatenate([pts, mid])
-    raise GeometryError("section: the mesh could not follow the boundary; try a smaller mesh_size")
+    raise GeometryError("section: the mesh could not follow the part boundaries; "
+                        "check for parts that nearly touch, or try another mesh_size")
 
 
 def mesh_section(polygons, mesh_size: float | None = None, max_elements: int = MAX_ELEMENTS) -> TriMesh:
