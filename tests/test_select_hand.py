@@ -357,3 +357,70 @@ def test_stress_factor_uses_material_strength(tmp_path, capsys):
     M = 4e3 * 16 / 8
     assert out["chosen"]["utilisation"]["bending"] == pytest.approx(M / rect_S(0.075, 0.25) / 12e6, rel=1e-9)
     assert out["chosen"]["utilisation"]["shear"] == pytest.approx(1.5 * 8e3 / (0.075 * 0.25) / 2e6, rel=1e-9)
+
+
+# --- deflection of an overhang: "span" means the overhang length ----------------------
+# Beam-formula handbook, beam overhanging one support, point load P at the free end:
+# tip deflection = P a^2 (L + a) / (3 E I) (a = overhang, L = back span); the back span's
+# largest (upward) deflection is P a L^2 / (9 sqrt(3) E I).
+# L = 3 m, a = 1.5 m, P = 2 kN, limit span/180:
+#   tip: 3.375 P / EI against a/180 = 8.33 mm -> ratio 405 P / EI;
+#   back span: 0.866 P / EI against 3/180 = 16.7 mm -> ratio 52 P / EI: the tip governs.
+# Need EI >= 405 * 2000 = 810,000 N m^2 -> I >= 73.6e6 mm^4 (C24):
+#   75 x 225: I = 71.19e6 -> ratio 1.034 FAILS; 75 x 250: I = 97.66e6 -> ratio 0.754 passes.
+# Bending: M = P a = 3 kN m -> 4.7 MPa in 75x225, well inside 10 MPa.
+BEAM_OH = """
+[beam]
+length = "4.5 m"
+
+[[support]]
+at = "0 m"
+type = "pin"
+
+[[support]]
+at = "3 m"
+type = "roller"
+
+[[load]]
+case = "imposed"
+type = "point"
+P = "2 kN"
+at = "4.5 m"
+
+[[combination]]
+name = "strength"
+factors = { imposed = 1.0 }
+
+[[combination]]
+name = "deflection"
+factors = { imposed = 1.0 }
+check = "deflection"
+limit = "span/180"
+
+[limits]
+bending_stress = "10 MPa"
+shear_stress = "2 MPa"
+"""
+
+
+def test_overhang_deflection_uses_overhang_length(tmp_path, capsys):
+    write_catalog(tmp_path, [("R75x200", 75, 200), ("R75x225", 75, 225), ("R75x250", 75, 250)])
+    job = write_job(tmp_path, BEAM_OH, 'self_weight = "none"\n')
+    status, out = run_json(capsys, job)
+    assert status == 0
+    P, L, a = 2e3, 3.0, 1.5
+
+    def tip_ratio(d):
+        EI = E_C24 * rect_I(0.075, d)
+        tip = P * a * a * (L + a) / (3 * EI)
+        back = P * a * L * L / (9 * 3 ** 0.5 * EI)
+        return max(tip / (a / 180), back / (L / 180))
+
+    assert out["chosen"]["name"] == "R75x250"
+    assert out["chosen"]["utilisation"]["deflection"] == pytest.approx(tip_ratio(0.25), rel=1e-9)
+    fail = next(c for c in out["candidates"] if not c["passes"])
+    assert fail["name"] == "R75x225" and fail["governing"] == "deflection"
+    assert fail["utilisation"]["deflection"] == pytest.approx(tip_ratio(0.225), rel=1e-9)
+    # hogging over the support M = -P a (statics)
+    assert fail["demands"]["M_min"] == pytest.approx(-P * a, rel=1e-9)
+    assert fail["utilisation"]["bending"] == pytest.approx(P * a / rect_S(0.075, 0.225) / 10e6, rel=1e-9)
