@@ -1,0 +1,131 @@
+"""Selection benchmarks (targets, not asserts: the shared runner prints the numbers).
+
+``select_10k_seconds``: 10,000 candidates x 10 combinations (6 strength, 4 deflection)
+on a three-span beam with an overhang, through the vectorised ``screen`` (target < 0.5 s).
+``select_speedup_vs_naive``: the same job through ``screen_loop`` (one solve per
+candidate) on a subset, extrapolated per candidate to 10,000 (target >= 100); the subset's
+utilisations must agree with ``screen`` to 1e-9 or the benchmark raises.
+``select_loop_max_difference``: that largest disagreement.
+``cli_demo_seconds``: ``leanspan demo`` end to end in a subprocess (target < 3 s).
+``cli_help_seconds``: ``leanspan --help`` in a subprocess (target < 0.5 s).
+Candidate values are random but realistic (invented): timber to steel stiffnesses.
+"""
+
+from __future__ import annotations
+
+import subprocess
+import sys
+import time
+from pathlib import Path
+
+import numpy as np
+
+N_CAND = 10_000
+N_LOOP = 40
+
+
+def _job():
+    from leanspan.select.job import parse_job
+
+    loads = [{"case": "dead", "type": "udl", "w": "2.5 kN/m"},
+             {"case": "imposed", "type": "udl", "w": "3 kN/m", "from": "0 m", "to": "13 m"},
+             {"case": "snow", "type": "linear", "w1": "0.5 kN/m", "w2": "2 kN/m", "from": "4 m", "to": "14.5 m"},
+             {"case": "dead", "type": "point", "P": "6 kN", "at": "2.2 m"},
+             {"case": "imposed", "type": "point", "P": "4 kN", "at": "9.1 m"},
+             {"case": "wind", "type": "udl", "w": "-0.8 kN/m"},
+             {"case": "dead", "type": "point", "P": "2 kN", "at": "14.5 m"}]
+    strength = [("ULS imposed", {"dead": 1.35, "imposed": 1.5, "snow": 0.75}),
+                ("ULS snow", {"dead": 1.35, "imposed": 1.05, "snow": 1.5}),
+                ("ULS dead only", {"dead": 1.35}),
+                ("ULS uplift", {"dead": 1.0, "wind": 1.5}),
+                ("ULS all", {"dead": 1.2, "imposed": 1.2, "snow": 1.2, "wind": 0.9}),
+                ("ULS imposed light dead", {"dead": 1.0, "imposed": 1.5})]
+    deflection = [("SLS total", {"dead": 1.0, "imposed": 1.0, "snow": 1.0}, "span/250"),
+                  ("SLS imposed", {"imposed": 1.0}, "span/360"),
+                  ("SLS snow", {"snow": 1.0}, "span/300"),
+                  ("SLS absolute", {"dead": 1.0, "imposed": 1.0}, "20 mm")]
+    combos = [{"name": n, "factors": f, "check": "strength"} for n, f in strength]
+    combos += [{"name": n, "factors": f, "check": "deflection", "limit": lim} for n, f, lim in deflection]
+    data = {"beam": {"length": "14.5 m"},
+            "support": [{"at": f"{x} m", "type": "pin" if i == 0 else "roller"} for i, x in enumerate((0, 4.5, 9, 13))],
+            "load": loads, "combination": combos,
+            "search": {"families": ["rectangle"], "self_weight": "dead"},
+            "limits": {"stress_factor": 0.6}}
+    job = parse_job(data, Path("."))
+    assert len(job.model.combinations) == 10
+    return job
+
+
+def _candidates(n, seed=1):
+    from leanspan.select.screen import Candidates
+
+    rng = np.random.default_rng(seed)
+    steel = rng.random(n) < 0.5
+    E = np.where(steel, 210e9, rng.uniform(8e9, 13e9, n))
+    I = 10 ** rng.uniform(-5.5, -3.5, n)
+    depth = rng.uniform(0.1, 0.6, n)
+    S = I / (depth / 2)
+    A = np.where(steel, rng.uniform(2e-3, 1.5e-2, n), rng.uniform(5e-3, 8e-2, n))
+    rho = np.where(steel, 7850.0, rng.uniform(350, 500, n))
+    fb = np.where(steel, 0.6 * 355e6, 0.6 * 24e6)
+    fv = np.where(steel, 0.6 * 205e6, 0.6 * 4e6)
+    return Candidates(EI=E * I, mass_per_length=rho * A, Sz_top=S, Sz_bot=S * rng.uniform(0.8, 1.2, n),
+                      shear_factor=np.where(steel, 1.0 / (0.4 * A), 1.5 / A), bending_allow=fb, shear_allow=fv)
+
+
+def _best_of(fn, repeats=3):
+    best = np.inf
+    for _ in range(repeats):
+        t0 = time.perf_counter()
+        fn()
+        best = min(best, time.perf_counter() - t0)
+    return best
+
+
+def _subprocess_seconds(args, repeats=3):
+    best = np.inf
+    for _ in range(repeats):
+        t0 = time.perf_counter()
+        r = subprocess.run([sys.executable, "-m", "leanspan", *args], capture_output=True, text=True, timeout=120)
+        dt = time.perf_counter() - t0
+        if r.returncode not in (0, 1):
+            raise RuntimeError(f"leanspan {' '.join(args)} exited {r.returncode}: {r.stderr.strip()}")
+        best = min(best, dt)
+    return best
+
+
+def run() -> dict[str, float]:
+    from leanspan.select.screen import CHECKS, screen, screen_loop
+
+    job = _job()
+    cand = _candidates(N_CAND)
+    sw = job.search.self_weight
+    screen(job.model, cand.take(slice(0, 100)), sw)  # warm imports and caches
+    fast_s = _best_of(lambda: screen(job.model, cand, sw))
+    fast = screen(job.model, cand, sw)
+
+    idx = np.linspace(0, N_CAND - 1, N_LOOP).astype(int)
+    sub = cand.take(idx)
+    t0 = time.perf_counter()
+    ref = screen_loop(job.model, sub, sw)
+    loop_per_cand = (time.perf_counter() - t0) / N_LOOP
+    diff = 0.0
+    for c in CHECKS:
+        a, b = fast.utilisation[c][idx], ref.utilisation[c]
+        if not np.array_equal(np.isnan(a), np.isnan(b)):
+            raise RuntimeError(f"screen and screen_loop disagree on which {c} checks apply")
+        ok = ~np.isnan(a)
+        diff = max(diff, float(np.max(np.abs(a[ok] - b[ok]) / np.maximum(1.0, np.abs(b[ok])), initial=0.0)))
+    if diff > 1e-9 or not np.array_equal(fast.passes[idx], ref.passes):
+        raise RuntimeError(f"screen and screen_loop disagree (largest relative difference {diff:.3g})")
+
+    return {"select_10k_seconds": fast_s,
+            "select_speedup_vs_naive": loop_per_cand * N_CAND / fast_s,
+            "select_loop_max_difference": diff,
+            "cli_demo_seconds": _subprocess_seconds(["demo"]),
+            "cli_help_seconds": _subprocess_seconds(["--help"])}
+
+
+if __name__ == "__main__":
+    for k, v in run().items():
+        print(f"{k}: {v:.6g}")
