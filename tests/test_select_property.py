@@ -13,6 +13,7 @@ from __future__ import annotations
 from pathlib import Path
 
 import numpy as np
+import pytest
 import pandas as pd
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
@@ -110,3 +111,24 @@ def test_screen_matches_loop(job, cand):
                        "name": [f"c{i}" for i in range(cand.size)]})
     for objective in ("mass", "depth"):
         assert list(rank_order(df, fast, objective)) == list(rank_order(df, ref, objective))
+
+
+@pytest.mark.xfail(strict=True, reason="reported bug: screen polishes only the element of the best grid "
+                                       "point, so a smooth peak between grid points in another element "
+                                       "is lost when a node value (here at the couple) is within the grid "
+                                       "error of it; M_max 10909.9 N m instead of 11007.9 N m")
+def test_regression_peak_in_other_element():
+    # found by the property test above; the loop value agrees with an independent force-method
+    # solve (simply supported primary beam + two redundant reactions, scipy trapezoid integration)
+    data = {"beam": {"spans": ["4.31 m", "1.5 m", "5.0 m"]},
+            "load": [{"case": "dead", "type": "udl", "w": "3 kN/m"},
+                     {"case": "imposed", "type": "udl", "w": "0.25 kN/m"},
+                     {"case": "imposed", "type": "moment", "M": "3 kN*m", "at": "2.026875 m"}],
+            "combination": [{"name": "ULS", "factors": {"dead": 1.35, "imposed": 1.5}}],
+            "search": {"families": ["rectangle"], "self_weight": "dead"},
+            "limits": {"bending_stress": "20 MPa", "shear_stress": "3 MPa"}}
+    job = parse_job(data, Path("."))
+    one = lambda v: np.array([v])  # noqa: E731
+    cand = Candidates(one(3e6), one(66.0), one(4e-5), one(4e-5), one(80.0), one(2e8), one(1e8))
+    fast, ref = screen(job.model, cand, "dead"), screen_loop(job.model, cand, "dead")
+    np.testing.assert_allclose(fast.M_max, ref.M_max, rtol=1e-9)
