@@ -1,0 +1,579 @@
+"""The calculation sheet: one self-contained HTML page that a checker can read, print and file.
+
+Three kinds of sheet share the same frame (title, date, source, the caution, what is
+assumed and what is not checked):
+
+- :func:`write_selection_sheet` for ``leanspan select`` / ``leanspan demo``: the job,
+  the loaded beam, V/M/v diagrams of the chosen member, its section and properties,
+  the checks with utilisation bars and the ranked candidates;
+- :func:`write_beam_sheet` for ``leanspan beam``: the job, diagrams, reactions,
+  extremes and deflection checks;
+- :func:`write_section_sheet` for ``leanspan section``: the drawing and the properties.
+
+The page has inline CSS and inline SVG, no scripts and no external references, and
+each part starts on a new printed page. Every number is formatted from the same SI
+values the ``--json`` output carries, in the chosen display units; numeric cells carry
+a ``data-key`` naming the value. The file is written atomically.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+import os
+from pathlib import Path
+
+from .. import CAUTION, __version__
+from ..errors import InputError
+from ..units import display_factor, fmt
+from .markup import Cell, esc, inline_svg, num, page, section, table, util_bar
+
+__all__ = ["write_selection_sheet", "write_beam_sheet", "write_section_sheet",
+           "selection_sheet_html", "beam_sheet_html", "section_sheet_html", "NOT_CHECKED"]
+
+NOT_CHECKED = [
+    "lateral-torsional buckling (the member is assumed restrained against it)",
+    "local buckling of flanges, webs or thin walls",
+    "bearing at supports and under point loads, and web crippling",
+    "connections, fixings and notches",
+    "vibration and footfall response",
+    "fire resistance",
+    "durability: moisture, decay, corrosion, creep and long-term deflection",
+    "combined actions: axial force, torsion and bending about the minor axis",
+]
+
+_DEFER = ("These results do not replace a design to the building code that applies where the "
+          "member will be built. Check the design against your local building code and have it "
+          "reviewed by a licensed or otherwise qualified engineer before anything is built.")
+
+
+# -- small helpers ---------------------------------------------------------------------------
+def _u(kind, units):
+    return display_factor(kind, units)
+
+
+def _q(value, kind, units, digits=4) -> str:
+    """``value`` (SI) in display units, without the unit label."""
+    if value is None:
+        return "-"
+    return fmt(value / _u(kind, units)[1], digits)
+
+
+def _qu(value, kind, units, digits=4) -> str:
+    """``value`` (SI) with its display unit label."""
+    return f"{_q(value, kind, units, digits)} {_u(kind, units)[0]}"
+
+
+def _util(u) -> str:
+    return "-" if u is None else f"{u:.3f}"
+
+
+def _today() -> str:
+    epoch = os.environ.get("SOURCE_DATE_EPOCH")
+    if epoch and epoch.strip().isdigit():
+        return _dt.datetime.fromtimestamp(int(epoch), _dt.timezone.utc).date().isoformat()
+    return _dt.date.today().isoformat()
+
+
+def _check_target(path) -> Path:
+    path = Path(path)
+    if path.suffix.lower() not in (".html", ".htm"):
+        raise InputError(f"--report {path}: expected a file name ending in .html")
+    folder = path.parent if str(path.parent) else Path(".")
+    if not folder.is_dir():
+        raise InputError(f"--report {path}: folder {folder} does not exist")
+    return path
+
+
+def _write(path, text: str) -> None:
+    from ..fileio import atomic_write
+
+    atomic_write(path, text)
+
+
+def _figure(fig, prefix: str, caption: str, cls: str = "") -> str:
+    from .diagrams import figure_svg
+
+    svg = inline_svg(figure_svg(fig), prefix)
+    c = f' class="{esc(cls)}"' if cls else ""
+    return f"<figure{c}>{svg}<figcaption>{esc(caption)}</figcaption></figure>"
+
+
+def _invented(*texts) -> bool:
+    return any("invented" in (t or "").lower() for t in texts)
+
+
+def _header(title: str, kind: str, source: str, units: str, invented: bool, contents) -> str:
+    rows = [("Sheet", kind), ("Date", _today()), ("Input", source or "(not given)"),
+            ("Units", "SI (mm, kN, kN·m, MPa, kg/m; positions in m)" if units == "si"
+             else "US customary (in, kip, kip·ft, ksi, lb/ft; positions in ft)"),
+            ("Program", f"leanspan {__version__}")]
+    out = [f"<h1>{esc(title)}</h1>", '<table class="meta">']
+    out += [f"<tr><td><b>{esc(k)}</b></td><td>{esc(v)}</td></tr>" for k, v in rows]
+    out.append("</table>")
+    if invented:
+        out.append('<p class="invented"><b>Invented demo data.</b> This job is an invented scenario '
+                   "for demonstration: it is not a real project, and its loads, factors and limits "
+                   "are not design values.</p>")
+    out.append(f'<p class="caution" id="caution">{esc(CAUTION)}</p>')
+    if contents:
+        items = "".join(f'<li><a href="#{esc(a)}">{esc(t)}</a></li>' for a, t in contents)
+        out.append(f'<p class="small">Parts of this sheet (each starts on a new printed page):</p><ol class="small">{items}</ol>')
+    return "\n".join(out)
+
+
+def _closing(assumptions) -> str:
+    out = ["<h3>Assumptions</h3><ul>"]
+    out += [f"<li>{esc(a)}</li>" for a in assumptions]
+    out.append("</ul><h3>Not checked</h3><p>This sheet does <b>not</b> check:</p><ul>")
+    out += [f"<li>{esc(n)}</li>" for n in NOT_CHECKED]
+    out.append("</ul>")
+    out.append(f"<p><b>{esc(_DEFER)}</b></p>")
+    out.append(f'<p class="caution">{esc(CAUTION)}</p>')
+    return "\n".join(out)
+
+
+def _footer(source) -> str:
+    return (f"<footer>Written by leanspan {esc(__version__)} on {esc(_today())} from "
+            f"{esc(source or 'an unnamed input')}. Self-contained page: no scripts, no external "
+            "resources.</footer>")
+
+
+# -- the job summary --------------------------------------------------------------------------
+def _beam_tables(model, units: str, show_ei: bool) -> str:
+    sl, _ = _u("span", units)
+    out = []
+    rows = [[str(i + 1), kind, num(_q(a, "span", units)), num(_q(b, "span", units)),
+             num(_q(b - a, "span", units), f"span{i + 1}.length")]
+            for i, (a, b, kind) in enumerate(model.spans)]
+    out.append(table(["#", "kind", f"from [{sl}]", f"to [{sl}]", f"length [{sl}]"], rows,
+                     caption=f"Spans (beam length {_qu(model.length, 'span', units)})"))
+    srows = []
+    for s in model.supports:
+        extra = []
+        if s.k:
+            extra.append(f"k = {_qu(s.k, 'spring', units)}")
+        if s.kr:
+            extra.append(f"kr = {_qu(s.kr, 'rotational spring', units)}")
+        srows.append([s.type, num(_q(s.at, "span", units)), "; ".join(extra) or "-"])
+    out.append(table(["type", f"at x [{sl}]", "springs"], srows, caption="Supports"))
+    if model.hinges:
+        out.append("<p>Internal hinges at x = " + ", ".join(_qu(h, "span", units) for h in model.hinges) + ".</p>")
+    lrows = []
+    for case in model.cases:
+        for ld in model.loads:
+            if ld.case != case:
+                continue
+            if hasattr(ld, "w1"):
+                kind = "uniform" if ld.w1 == ld.w2 else "linear"
+                mag = (_qu(ld.w1, "force/length", units) if ld.w1 == ld.w2 else
+                       f"{_q(ld.w1, 'force/length', units)} to {_qu(ld.w2, 'force/length', units)}")
+                where = f"{_q(ld.start, 'span', units)} to {_qu(ld.end, 'span', units)}"
+            elif hasattr(ld, "P"):
+                kind, mag, where = "point (down)", _qu(ld.P, "force", units), _qu(ld.at, "span", units)
+            else:
+                kind, mag, where = "couple (counter-clockwise)", _qu(ld.M, "moment", units), _qu(ld.at, "span", units)
+            lrows.append([case, kind, Cell(esc(mag), ' class="num"'), where])
+        if case == model.self_weight:
+            w = ("the member's own weight (each candidate's mass)" if model.mass_per_length is None
+                 else f"{_qu(model.mass_per_length * 9.80665, 'force/length', units)} "
+                      f"({_qu(model.mass_per_length, 'mass/length', units)} × g)")
+            lrows.append([case, "self-weight (uniform)", w, "whole beam"])
+    out.append(table(["case", "type", "magnitude", "where (x)"], lrows,
+                     caption="Loads by case (downward magnitudes; couples counter-clockwise)"))
+    crows = []
+    for c in model.combinations:
+        factors = " + ".join(f"{f:g} × {case}" for case, f in c.factors)
+        lim = "-"
+        if c.limit is not None:
+            lim = c.limit.describe()
+        crows.append([c.name, factors, c.check, lim, c.pattern or "-"])
+    if crows:
+        out.append(table(["combination", "factors", "check", "deflection limit", "pattern case"], crows,
+                         caption="Combinations"))
+    if show_ei:
+        el, _ = _u("flexural stiffness", units)
+        if model.prismatic:
+            out.append(f"<p>Flexural stiffness EI = {esc(_qu(model.stiffness[0].EI, 'flexural stiffness', units))}.</p>")
+        else:
+            rows = [[num(_q(p.start, "span", units)), num(_q(p.end, "span", units)),
+                     num(_q(p.EI, "flexural stiffness", units))] for p in model.stiffness]
+            out.append(table([f"from [{sl}]", f"to [{sl}]", f"EI [{el}]"], rows, caption="Flexural stiffness"))
+    return "\n".join(out)
+
+
+def _search_table(sel, units: str) -> str:
+    s, lim = sel.job.search, sel.job.limits
+    n_pass = int(sel.result.passes.sum())
+
+    def size(lo, hi):
+        if lo is None and hi is None:
+            return "any"
+        if lo is None:
+            return f"up to {_qu(hi, 'length', units)}"
+        if hi is None:
+            return f"at least {_qu(lo, 'length', units)}"
+        return f"{_q(lo, 'length', units)} to {_qu(hi, 'length', units)}"
+
+    rows = [["families / series", ", ".join(s.families) if s.families else "all built-in"],
+            ["materials", ", ".join(s.materials) if s.materials else "each family's own"],
+            ["user catalogue", Path(s.catalog).name if s.catalog else "-"],
+            ["depth", size(s.min_depth, s.max_depth)],
+            ["width", size(s.min_width, s.max_width)],
+            ["objective", f"least {s.objective}"],
+            ["self-weight carried by case", s.self_weight or "(none: members are weightless)"],
+            ["stress limits", lim.describe()],
+            ["candidates screened", Cell(esc(str(sel.screened)), ' class="num" data-key="screened"')],
+            ["candidates passing", Cell(esc(str(n_pass)), ' class="num" data-key="passing"')]]
+    return table(["search", "value"], rows, caption="Search space and limits")
+
+
+# -- selection sheet ---------------------------------------------------------------------------
+def _property_rows(row, cand, units):
+    """(label, key, value SI, kind) for the chosen member's property table."""
+    E, Iz = float(row["E"]), float(row["Iz"])
+    items = [("Area A", "A", "area"), ("Centroid from base yc", "yc", "length"),
+             ("Depth", "depth", "length"), ("Width", "width", "length"),
+             ("Iz (about the horizontal axis)", "Iz", "second moment"),
+             ("Iy (about the vertical axis)", "Iy", "second moment"),
+             ("Sz top fibre", "Sz_top", "section modulus"), ("Sz bottom fibre", "Sz_bot", "section modulus"),
+             ("Plastic modulus Zz", "Zz", "section modulus"),
+             ("Radius of gyration rz", "rz", "length"), ("Radius of gyration ry", "ry", "length"),
+             ("Shear factor (τ max = V × factor)", "shear_factor", "shear factor"),
+             ("Mass per length", "mass_per_length", "mass/length"),
+             ("Elastic modulus E", "E", "modulus"), ("Shear modulus G", "G", "modulus"),
+             ("Density", "density", "density"),
+             ("Bending strength (material)", "strength_bending", "pressure"),
+             ("Shear strength (material)", "strength_shear", "pressure")]
+    out = [(label, key, float(row[key]), kind) for label, key, kind in items if key in row.index]
+    out.append(("Flexural stiffness EIz", "EIz", E * Iz, "flexural stiffness"))
+    return out
+
+
+def _dims_text(cand, units):
+    return ", ".join(f"{k} = {_qu(v, 'length', units)}" for k, v in cand["dims"].items())
+
+
+def _check_rows(sel, cand, row, sol, picks, units):
+    fb, fv = sel.job.limits.allowable(float(row["strength_bending"]), float(row["strength_shear"]))
+    fb, fv = float(fb), float(fv)
+    d, u = cand["demands"], cand["utilisation"]
+    rows, classes = [], []
+
+    def two(a, b):
+        return Cell(f"{esc(a)}<br><span class=\"small\">{esc(b)}</span>")
+
+    def add(check, combo, action, demand, limit, util, key):
+        ok = util is None or util <= 1.0
+        rows.append([two(check, combo), action, demand, limit, num(_util(util), f"chosen.utilisation.{key}"),
+                     Cell(util_bar(util, width=80)),
+                     Cell("pass" if ok else "FAILS", f' class="{"pass" if ok else "fail"}"')])
+        classes.append("" if ok else "fails")
+
+    M_txt = f"M max {_qu(d['M_max'], 'moment', units)}"
+    if d["M_min"] < 0:
+        M_txt = two(M_txt, f"M min {_qu(d['M_min'], 'moment', units)}")
+    add("bending", picks["M"], M_txt,
+        num(_qu(d["sigma"], "pressure", units), "chosen.demands.sigma"),
+        num(_qu(fb, "pressure", units), "limit.bending"), u["bending"], "bending")
+    add("shear", picks["V"], f"|V| max {_qu(d['V_abs'], 'force', units)}",
+        num(_qu(d["tau"], "pressure", units), "chosen.demands.tau"),
+        num(_qu(fv, "pressure", units), "limit.shear"), u["shear"], "shear")
+    defl = [(n, c) for n, r in sol.results.items() if r.kind == "combination" for c in r.deflection_checks]
+    if defl:
+        worst = max(range(len(defl)), key=lambda i: defl[i][1]["utilisation"])
+        for i, (n, c) in enumerate(defl):
+            where = f"{c['kind']} {c['span']}"
+            key = "deflection" if i == worst else f"deflection.{i}"
+            ok = c["utilisation"] <= 1.0
+            rows.append([two(f"deflection, {where}", n),
+                         two(f"v {_qu(c['v_extreme'], 'length', units)}", f"at x = {_qu(c['at'], 'span', units)}"),
+                         num(_qu(abs(c["v_extreme"]), "length", units), "chosen.demands.v_abs" if i == worst else None),
+                         num(f"{_qu(c['allowed'], 'length', units)} ({c['limit']})"),
+                         num(_util(c["utilisation"]), f"chosen.utilisation.{key}"),
+                         Cell(util_bar(c["utilisation"], width=80)),
+                         Cell("pass" if ok else "FAILS", f' class="{"pass" if ok else "fail"}"')])
+            classes.append("" if ok else "fails")
+    return rows, classes, fb, fv
+
+
+def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10) -> str:
+    """The whole selection sheet as an HTML string (see :func:`write_selection_sheet`)."""
+    from .chosen import chosen_row, member_section, member_solution
+    from .diagrams import diagram_figure, governing, loaded_beam_figure, section_figure
+    from .tables import table_rows
+
+    job = sel.job
+    title = job.title or job.model.name or "Member selection"
+    row = chosen_row(sel)
+    cand = sel.chosen if sel.chosen is not None else sel.rows([0])[0]
+    sol = member_solution(sel, row)
+    picks = governing(sol)
+    contents = [("job", "Job"), ("beam", "Loaded beam and internal forces"), ("section", "The section"),
+                ("checks", "Checks"), ("candidates", "Ranked candidates"),
+                ("assumptions", "Assumptions and what is not checked")]
+    head = _header(title, "member selection", source, units, _invented(title, source), contents)
+    if sel.success:
+        verdict = (f'<p class="verdict"><b>Chosen: {esc(cand["name"])}</b> ({esc(cand["material"])}, '
+                   f'{esc(cand["series"])}), <span data-key="chosen.mass_per_length">'
+                   f'{esc(_qu(cand["mass_per_length"], "mass/length", units))}</span>; governing check: '
+                   f'{esc(cand["governing"])} at <span data-key="chosen.governing_utilisation">'
+                   f'{esc(_util(cand["utilisation"][cand["governing"]]))}</span> of its limit. '
+                   f'{esc(sel.message)}.</p>')
+    else:
+        verdict = (f'<p class="verdict fail"><b>No candidate passes.</b> {esc(sel.message)}. The sheet '
+                   f'shows the closest candidate, {esc(cand["name"])}, which FAILS.</p>')
+    parts = [head + verdict, section("Job", _beam_tables(job.model, units, show_ei=False)
+                                     + _search_table(sel, units), anchor="job")]
+
+    beam_fig = _figure(loaded_beam_figure(sol.model, units), "beam",
+                       "The loaded beam, to scale along x: each load case on its own lane; "
+                       "load heights to scale within a lane.")
+    diag = _figure(diagram_figure(sol, units, picks), "diagrams",
+                   f"Shear V, moment M and deflection v of {cand['name']} ({cand['material']}, "
+                   f"EI = {_qu(float(row['E']) * float(row['Iz']), 'flexural stiffness', units)}, "
+                   f"self-weight included): envelope of all combinations in grey, the governing "
+                   f"combination as a line with its extremes marked.")
+    rs = [(n, r) for n, r in sol.results.items() if r.kind != "case"]
+    rrows = []
+    for n, r in rs:
+        for s, rx in zip(sol.model.supports, r.reactions):
+            rrows.append([n, f"{s.type} at {_qu(s.at, 'span', units)}", num(_q(rx["force"], "force", units))]
+                         + ([num(_q(rx["moment"], "moment", units))] if s.rotational else ["-"]))
+    fl, ml = _u("force", units)[0], _u("moment", units)[0]
+    reactions = table(["combination", "support", f"force [{fl}] (up +)", f"moment [{ml}] (ccw +)"], rrows,
+                      caption="Support reactions of the chosen member (envelope: the larger-magnitude bound)")
+    parts.append(section("Loaded beam and internal forces", beam_fig + diag + reactions, anchor="beam"))
+
+    secn, props = member_section(cand)
+    sfig = _figure(section_figure(secn, props, units, cand["name"]), "section",
+                   f"{cand['name']} ({cand['material']}) to scale: {_dims_text(cand, units)}. "
+                   "+ centroid; dashed blue line: neutral axis; 1 and 2: principal axes.",
+                   cls="section-drawing")
+    prow = [[label, num(_q(v, kind, units), f"prop.{key}"), _u(kind, units)[0]]
+            for label, key, v, kind in _property_rows(row, cand, units)]
+    ptable = table(["property", "value", "unit"], prow,
+                   caption=f"Properties of {cand['name']} ({cand['material']}, {cand['series']})")
+    parts.append(section("The section", sfig + ptable, anchor="section"))
+
+    crow, cls, fb, fv = _check_rows(sel, cand, row, sol, picks, units)
+    ctable = table(["check / combination", "action", "demand", "limit", "utilisation", "", "result"],
+                   crow, cls="checks", row_classes=cls)
+    note = ("<p class=\"small\">Demands: bending stress σ = M / Sz, shear stress τ = V × shear factor "
+            "(the section's peak shear stress per unit shear force), deflection |v| per span. "
+            "Utilisation = demand / limit (the bar's black mark is 1.0). Stress limits: "
+            f"{esc(job.limits.describe())} → bending {esc(_qu(fb, 'pressure', units))}, shear "
+            f"{esc(_qu(fv, 'pressure', units))} for {esc(cand['material'])}. Bending stress uses the "
+            "larger of M max / Sz bottom and |M min| / Sz top; deflection is checked per span against "
+            "each deflection combination's limit.</p>")
+    parts.append(section("Checks", ctable + note, anchor="checks"))
+
+    labels, trows = table_rows(sel, units, top)
+    shown = sel.shown(top)
+    numeric = {0: "rank", 3: "mass_per_length", 4: "depth", 5: "width", 6: "bending", 7: "shear",
+               8: "deflection"}
+    cells, rcls = [], []
+    for c, r in zip(shown, trows):
+        cells.append([num(v, f"rank{c['rank']}.{numeric[i]}") if i in numeric else v for i, v in enumerate(r)])
+        rcls.append("chosen" if (sel.success and c["rank"] == 1) else ("fails" if not c["passes"] else ""))
+    rtable = table(labels, cells, cls="ranked", row_classes=rcls)
+    rnote = ("<p class=\"small\">Passing candidates in order of the objective (least "
+             f"{esc(job.search.objective)}), then the nearest failures: lighter sections that fail, "
+             "marked NO. Utilisations are demand / limit.</p>")
+    parts.append(section("Ranked candidates", rtable + rnote, anchor="candidates"))
+
+    assumptions = [
+        "Linear-elastic, small-deflection bending of a straight prismatic member (shear deformation neglected).",
+        "Loads are static and act in the vertical plane through the shear centre; no torsion.",
+        "Bending about the horizontal axis (Iz) only; the member is assumed to be restrained "
+        "laterally along its length.",
+        f"Self-weight of each candidate is added to load case '{job.search.self_weight}'."
+        if job.search.self_weight else "Self-weight of the members is not included.",
+        "Stress limits and deflection limits are the ones given in the job; their suitability "
+        "for the material, load duration and service class is the user's responsibility.",
+        "Section properties are gross-section values from the catalogue dimensions.",
+    ]
+    parts.append(section("Assumptions and what is not checked", _closing(assumptions) + _footer(source),
+                         anchor="assumptions"))
+    return page(f"{title} — leanspan calculation sheet", "\n".join(parts))
+
+
+def write_selection_sheet(sel, path, units: str = "si", source: str = "", top: int = 10) -> None:
+    """Write the calculation sheet of a selection to ``path`` (an ``.html`` file), atomically.
+
+    Parameters
+    ----------
+    sel : leanspan.select.search.Selection
+    path : str or Path
+    units : {"si", "us"}
+    source : str
+        Where the job came from (file name), shown on the sheet.
+    top : int
+        Passing candidates listed in the ranked table.
+
+    Raises
+    ------
+    InputError
+        ``path`` does not end in .html, its folder is missing, or it is an input file.
+    """
+    path = _check_target(path)
+    _write(path, selection_sheet_html(sel, units, source, top))
+
+
+# -- beam sheet --------------------------------------------------------------------------------
+def beam_sheet_html(solution, units: str = "si", source: str = "") -> str:
+    """The whole beam sheet as an HTML string (see :func:`write_beam_sheet`)."""
+    from .diagrams import diagram_figure, governing, loaded_beam_figure
+
+    model = solution.model
+    title = model.name or (Path(source).stem if source else "Beam")
+    contents = [("job", "Job"), ("beam", "Loaded beam and internal forces"), ("results", "Results"),
+                ("assumptions", "Assumptions and what is not checked")]
+    head = _header(title, "beam analysis", source, units, _invented(title, source), contents)
+    parts = [head, section("Job", _beam_tables(model, units, show_ei=True), anchor="job")]
+    picks = governing(solution)
+    parts.append(section("Loaded beam and internal forces",
+                         _figure(loaded_beam_figure(model, units), "beam",
+                                 "The loaded beam, to scale along x: each load case on its own lane.")
+                         + _figure(diagram_figure(solution, units, picks), "diagrams",
+                                   "Shear V, moment M and deflection v: envelope of all combinations "
+                                   "in grey, the governing combination as a line with its extremes marked."),
+                         anchor="beam"))
+    fl, ml, dl, sl = (_u(k, units)[0] for k in ("force", "moment", "length", "span"))
+    erows = []
+    for n, r in solution.results.items():
+        cells = [n, r.kind]
+        for key, kind in (("M_max", "moment"), ("M_min", "moment"), ("V_max", "force"), ("V_min", "force"),
+                          ("v_max", "length"), ("v_min", "length")):
+            e = r.extremes[key]
+            cells.append(num(f"{_q(e.value, kind, units)} @ {_q(e.at, 'span', units)}", f"{n}.{key}"))
+        erows.append(cells)
+    ext = table(["result", "kind", f"M max [{ml}]", f"M min [{ml}]", f"V max [{fl}]", f"V min [{fl}]",
+                 f"v max [{dl}]", f"v min [{dl}]"], erows,
+                caption=f"Extremes (value @ x in {sl}); sagging M positive, V = -dM/dx, v upward positive")
+    rrows = []
+    for n, r in solution.results.items():
+        for i, (s, rx) in enumerate(zip(model.supports, r.reactions)):
+            rrows.append([n, f"{s.type} at {_qu(s.at, 'span', units)}",
+                          num(_q(rx["force"], "force", units), f"{n}.R{i}.force"),
+                          num(_q(rx["moment"], "moment", units), f"{n}.R{i}.moment") if s.rotational else "-"])
+    rea = table(["result", "support", f"force [{fl}] (up +)", f"moment [{ml}] (ccw +)"], rrows,
+                caption="Support reactions (envelope: the larger-magnitude bound)")
+    drows, dcls = [], []
+    for n, r in solution.results.items():
+        if r.kind != "combination":
+            continue
+        for c in r.deflection_checks:
+            ok = c["utilisation"] <= 1.0
+            drows.append([n, f"{c['kind']} {c['span']} ({_q(c['from'], 'span', units)} to "
+                             f"{_qu(c['to'], 'span', units)})",
+                          num(f"{_q(c['v_extreme'], 'length', units)} @ {_q(c['at'], 'span', units)}"),
+                          num(f"{_q(c['allowed'], 'length', units)} ({c['limit']})"),
+                          num(_util(c["utilisation"]), f"{n}.defl{c['span']}"), Cell(util_bar(c["utilisation"])),
+                          Cell("pass" if ok else "FAILS", f' class="{"pass" if ok else "fail"}"')])
+            dcls.append("" if ok else "fails")
+    defl = (table(["combination", "span", f"v [{dl}] @ x [{sl}]", f"allowed [{dl}]", "utilisation", "",
+                   "result"], drows, cls="checks", row_classes=dcls,
+                  caption="Deflection checks (worst per span)") if drows else
+            "<p>No combination carries a deflection limit, so no deflection check is made.</p>")
+    stress = ("<p class=\"small\">A beam job names no allowable stresses: this sheet reports forces, "
+              "moments and deflections; stresses are not checked here (use leanspan select for that).</p>")
+    parts.append(section("Results", defl + stress + ext + rea, anchor="results"))
+    assumptions = [
+        "Linear-elastic, small-deflection bending of a straight member (shear deformation neglected).",
+        "Loads are static and act in the vertical plane; no torsion and no axial force.",
+        "The flexural stiffness EI is the one given in the job; its suitability (cracking, creep, "
+        "moisture) is the user's responsibility.",
+    ]
+    parts.append(section("Assumptions and what is not checked", _closing(assumptions) + _footer(source),
+                         anchor="assumptions"))
+    return page(f"{title} — leanspan calculation sheet", "\n".join(parts))
+
+
+def write_beam_sheet(solution, path, units: str = "si", source: str = "") -> None:
+    """Write the calculation sheet of a solved beam (:class:`leanspan.beam.BeamSolution`) atomically.
+
+    Raises
+    ------
+    InputError
+        ``path`` does not end in .html, its folder is missing, or it is an input file.
+    """
+    path = _check_target(path)
+    _write(path, beam_sheet_html(solution, units, source))
+
+
+# -- section sheet -----------------------------------------------------------------------------
+_SECTION_ROWS = [
+    ("Area A", "A", "area"), ("Centroid y from base yc", "yc", "length"), ("Centroid z zc", "zc", "length"),
+    ("Depth", "depth", "length"), ("Width", "width", "length"),
+    ("Iz (about the horizontal axis)", "Iz", "second moment"), ("Iy (about the vertical axis)", "Iy", "second moment"),
+    ("Iyz", "Iyz", "second moment"), ("I1 (major principal)", "I1", "second moment"),
+    ("I2 (minor principal)", "I2", "second moment"), ("theta (z-axis to I1, counter-clockwise)", "theta", None),
+    ("Sz top fibre", "Sz_top", "section modulus"), ("Sz bottom fibre", "Sz_bot", "section modulus"),
+    ("Sy left fibre", "Sy_left", "section modulus"), ("Sy right fibre", "Sy_right", "section modulus"),
+    ("Plastic modulus Zz", "Zz", "section modulus"), ("Plastic modulus Zy", "Zy", "section modulus"),
+    ("Radius of gyration rz", "rz", "length"), ("Radius of gyration ry", "ry", "length"),
+    ("Shear factor (τ max = V × factor)", "shear_factor", "shear factor"),
+    ("EIz (transformed)", "EIz", "flexural stiffness"), ("EA", "EA", "axial stiffness"),
+    ("Mass per length", "mass_per_length", "mass/length"),
+    ("Neutral axis y (E-weighted)", "y_neutral", "length"),
+    ("Torsion constant J", "J", "second moment"), ("Warping constant Cw", "Cw", "warping"),
+    ("Shear centre z", "zs", "length"), ("Shear centre y", "ys", "length"),
+]
+
+
+def section_sheet_html(section_obj, out: dict, units: str = "si", source: str = "") -> str:
+    """The whole section sheet as an HTML string (see :func:`write_section_sheet`)."""
+    from .diagrams import section_figure
+
+    title = f"Section {Path(source).name}" if source else "Section properties"
+    values = dict(out)
+    if section_obj.has_materials and "y_neutral" not in values:
+        from ..errors import LeanspanError
+        from ..sections.io import material_lookup
+
+        try:
+            values["y_neutral"] = section_obj.composite(material_lookup()).y_neutral
+        except LeanspanError:
+            pass
+    contents = [("section", "Drawing and properties"), ("assumptions", "Assumptions and what is not checked")]
+    head = _header(title, "section properties", source, units, _invented(title, source), contents)
+    parts_rows = []
+    for p in section_obj.parts:
+        a = p.polygon.area
+        parts_rows.append([p.label, p.material or "-", num(_q(a, "area", units))])
+    ptab = table(["part", "material", f"area [{_u('area', units)[0]}]"], parts_rows,
+                 caption=f"{len(section_obj.parts)} part(s)")
+    props = dict(values)
+    fig = _figure(section_figure(section_obj, props, units, title), "section",
+                  "The section to scale: + centroid; 1 and 2: principal axes"
+                  + ("; dashed blue line: neutral axis (E-weighted)" if "y_neutral" in props else "") + ".",
+                  cls="section-drawing")
+    rows = []
+    for label, key, kind in _SECTION_ROWS:
+        if key not in values or values[key] is None:
+            continue
+        unit, factor = _u(kind, units) if kind else ("deg", 1.0)
+        rows.append([label, num(fmt(values[key] / factor, 4), key), unit])
+    prop = table(["property", "value", "unit"], rows, caption="Properties (about the centroid unless stated)")
+    parts = [head, section("Drawing and properties", fig + ptab + prop, anchor="section")]
+    assumptions = [
+        "Gross-section, linear-elastic properties of the polygons as given (holes as drawn).",
+        "Parts with different materials are combined by their elastic moduli (transformed section); "
+        "parts act together with no slip at their interfaces.",
+        "y is up and z is horizontal; Iz is about the horizontal centroidal axis.",
+    ]
+    parts.append(section("Assumptions and what is not checked", _closing(assumptions) + _footer(source),
+                         anchor="assumptions"))
+    return page(f"{title} — leanspan calculation sheet", "\n".join(parts))
+
+
+def write_section_sheet(section, out, path, units: str = "si", source: str = "") -> None:
+    """Write the calculation sheet of a section (``out`` = the JSON-contract properties) atomically.
+
+    Raises
+    ------
+    InputError
+        ``path`` does not end in .html, its folder is missing, or it is an input file.
+    """
+    path = _check_target(path)
+    _write(path, section_sheet_html(section, out, units, source))
