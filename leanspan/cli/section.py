@@ -54,6 +54,8 @@ def add_parser(sub):
     p.add_argument("--mesh-size", default=None, help="element size for --torsion, e.g. '2 mm'")
     p.add_argument("--moment", default=None, help="a bending moment, e.g. '12 kN*m': print the stress in each material")
     p.add_argument("--plot", metavar="OUT", default=None, help="draw the section to OUT (.svg or .png)")
+    p.add_argument("--report", metavar="SHEET.html", default=None,
+                   help="write a calculation sheet (one self-contained HTML page)")
     p.set_defaults(run=run)
 
 
@@ -106,6 +108,10 @@ def run(args) -> int:
         from ..report.section_plot import plot_section
 
         plot_section(section, out, args.plot, title=Path(args.file).name, units=args.units)
+    if getattr(args, "report", None):
+        from ..report.sheet import write_section_sheet
+
+        write_section_sheet(section, out, args.report, units=args.units, source=args.file)
     if args.json:
         payload = dict(out)
         if "stresses" in extra:
@@ -130,4 +136,6 @@ def run(args) -> int:
     print("\n".join(lines))
     if args.plot:
         print(f"drawing written to {args.plot}")
+    if getattr(args, "report", None):
+        print(f"calculation sheet written to {args.report}")
     return 0

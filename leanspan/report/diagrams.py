@@ -246,8 +246,7 @@ def diagram_figure(solution, units: str = "si", picks: dict | None = None):
         ax.margins(y=0.28)
         note = {"V": " (V = -dM/dx)", "M": " (sagging +, drawn downward)", "v": " (upward +)"}[key]
         ax.set_title(f"{label}{note}", fontsize=8.5, loc="left")
-        ax.legend(fontsize=7, frameon=False, loc="lower right", bbox_to_anchor=(1.0, 1.0), ncol=3,
-                  borderaxespad=0.1)
+        ax.legend(fontsize=6.5, loc="best", framealpha=0.85, edgecolor="#cccccc")
     axes[1].invert_yaxis()
     axes[-1].set_xlabel(f"x [{sl}]")
     axes[-1].set_xlim(-0.02 * model.length / sx, 1.02 * model.length / sx)

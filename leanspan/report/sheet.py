@@ -441,14 +441,16 @@ def beam_sheet_html(solution, units: str = "si", source: str = "") -> str:
     fl, ml, dl, sl = (_u(k, units)[0] for k in ("force", "moment", "length", "span"))
     erows = []
     for n, r in solution.results.items():
-        cells = [n, r.kind]
-        for key, kind in (("M_max", "moment"), ("M_min", "moment"), ("V_max", "force"), ("V_min", "force"),
-                          ("v_max", "length"), ("v_min", "length")):
-            e = r.extremes[key]
-            cells.append(num(f"{_q(e.value, kind, units)} @ {_q(e.at, 'span', units)}", f"{n}.{key}"))
+        cells = [Cell(f"{esc(n)}<br><span class=\"small\">{esc(r.kind)}</span>")]
+        for key, kind in (("M", "moment"), ("V", "force"), ("v", "length")):
+            lines = []
+            for tag in ("max", "min"):
+                e = r.extremes[f"{key}_{tag}"]
+                lines.append(f'{tag} <span data-key="{esc(n)}.{key}_{tag}">{esc(_q(e.value, kind, units))}</span>'
+                             f" @ {esc(_q(e.at, 'span', units))}")
+            cells.append(Cell("<br>".join(lines), ' class="num"'))
         erows.append(cells)
-    ext = table(["result", "kind", f"M max [{ml}]", f"M min [{ml}]", f"V max [{fl}]", f"V min [{fl}]",
-                 f"v max [{dl}]", f"v min [{dl}]"], erows,
+    ext = table(["result", f"M [{ml}]", f"V [{fl}]", f"v [{dl}]"], erows,
                 caption=f"Extremes (value @ x in {sl}); sagging M positive, V = -dM/dx, v upward positive")
     rrows = []
     for n, r in solution.results.items():

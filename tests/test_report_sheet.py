@@ -1,0 +1,292 @@
+"""The calculation sheet: every part is there, its numbers are the JSON numbers, it is
+self-contained (no network references), and it is written atomically."""
+
+from __future__ import annotations
+
+import math
+import os
+import re
+import tomllib
+from html.parser import HTMLParser
+from pathlib import Path
+
+import pytest
+
+import leanspan
+from leanspan.cli import main
+from leanspan.cli.demo import demo_text
+from leanspan.errors import InputError
+from leanspan.report import sheet
+from leanspan.select.job import parse_job
+from leanspan.select.search import run_selection
+from leanspan.units import display_factor
+
+ROOT = Path(__file__).resolve().parents[1]
+EXAMPLES = ROOT / "data" / "examples"
+
+
+class _Keys(HTMLParser):
+    """Collect the text of every element carrying ``data-key``."""
+
+    def __init__(self):
+        super().__init__()
+        self.values, self._stack = {}, []
+
+    def handle_starttag(self, tag, attrs):
+        key = dict(attrs).get("data-key")
+        self._stack.append([tag, key, ""])
+
+    def handle_endtag(self, tag):
+        while self._stack:
+            t, key, text = self._stack.pop()
+            if key:
+                self.values[key] = text.strip()
+            if self._stack:
+                self._stack[-1][2] += text
+            if t == tag:
+                break
+
+    def handle_data(self, data):
+        if self._stack:
+            self._stack[-1][2] += data
+
+
+def keyed(html: str) -> dict:
+    p = _Keys()
+    p.feed(html)
+    return p.values
+
+
+def first_number(text: str) -> float:
+    m = re.search(r"-?\d+(?:\.\d+)?(?:e[+-]?\d+)?", text)
+    assert m, f"no number in {text!r}"
+    return float(m.group())
+
+
+def close_to_sig(shown: float, exact: float, digits: int = 4) -> bool:
+    """``shown`` is ``exact`` rounded to ``digits`` significant figures (half a unit in the last place)."""
+    if exact == 0:
+        return shown == 0
+    step = 10 ** (math.floor(math.log10(abs(exact))) - digits + 1)
+    return abs(shown - exact) <= 0.5 * step * 1.0001 + 1e-300
+
+
+@pytest.fixture(scope="module")
+def demo():
+    job = parse_job(tomllib.loads(demo_text()), Path("."), "demo: ")
+    sel = run_selection(job)
+    html = sheet.selection_sheet_html(sel, "si", "built-in demo (invented scenario)", 10)
+    return sel, html
+
+
+def test_every_part_is_on_the_sheet(demo):
+    sel, html = demo
+    for heading in ("Job", "Loaded beam and internal forces", "The section", "Checks", "Ranked candidates",
+                    "Assumptions and what is not checked"):
+        assert f"<h2>{heading}</h2>" in html
+    for caption in ("Spans", "Supports", "Loads by case", "Combinations", "Search space and limits",
+                    "Properties of", "Support reactions"):
+        assert caption in html
+    assert re.search(r"\d{4}-\d{2}-\d{2}", html)                    # the date
+    assert html.count('class="caution"') >= 2                      # prominent, top and bottom
+    assert sheet.esc(leanspan.CAUTION) in html
+    for item in ("lateral-torsional buckling", "local buckling", "bearing", "connections", "vibration",
+                 "fire", "durability"):
+        assert item in html
+    assert "local building code" in html and "licensed" in html
+    assert "Invented demo data" in html                             # the demo job says it is invented
+    assert html.count("<svg") >= 3 + 3                              # beam, diagrams, section + bars
+    assert html.count('class="bar"') == 4                           # bending, shear, two deflection checks
+    for label in ("dead", "snow", "span/360", "span/250", "1.35 × dead + 1.5 × snow"):
+        assert label in html
+    # the extremes are annotated on the diagrams (in the SVG text, fonts left to the browser)
+    assert "max 28.69 kN·m at x = 2.794 m" in html
+
+
+def test_numbers_on_the_sheet_equal_the_json(demo):
+    sel, html = demo
+    js = sel.to_json(10)
+    got = keyed(html)
+    c = js["chosen"]
+    mf = display_factor("mass/length", "si")[1]
+    pf = display_factor("pressure", "si")[1]
+    lf = display_factor("length", "si")[1]
+    assert close_to_sig(first_number(got["chosen.mass_per_length"]) * mf, c["mass_per_length"])
+    assert close_to_sig(first_number(got["chosen.demands.sigma"]) * pf, c["demands"]["sigma"])
+    assert close_to_sig(first_number(got["chosen.demands.tau"]) * pf, c["demands"]["tau"])
+    assert close_to_sig(first_number(got["chosen.demands.v_abs"]) * lf, c["demands"]["v_abs"])
+    for check in ("bending", "shear", "deflection"):
+        assert abs(float(got[f"chosen.utilisation.{check}"]) - c["utilisation"][check]) <= 5e-4
+    # utilisation = demand / limit, as printed
+    fb = first_number(got["limit.bending"]) * pf
+    assert abs(c["demands"]["sigma"] / fb - c["utilisation"]["bending"]) < 1e-3
+    assert int(got["screened"]) == js["screened"]
+    assert int(got["passing"]) == int(sel.result.passes.sum())
+    # the ranked table: every shown candidate, in order
+    for cand in js["candidates"]:
+        r = cand["rank"]
+        assert int(got[f"rank{r}.rank"]) == r
+        assert close_to_sig(float(got[f"rank{r}.mass_per_length"]) * mf, cand["mass_per_length"])
+        assert close_to_sig(float(got[f"rank{r}.depth"]) * lf, cand["depth"])
+        for check in ("bending", "shear", "deflection"):
+            assert abs(float(got[f"rank{r}.{check}"]) - cand["utilisation"][check]) <= 5e-3
+    # properties: the catalogue row screened, and the drawn section agrees with it
+    from leanspan.report.chosen import chosen_row, member_section
+
+    row = chosen_row(sel)
+    _, props = member_section(c)
+    for key, kind in (("Iz", "second moment"), ("A", "area"), ("Sz_bot", "section modulus")):
+        shown = first_number(got[f"prop.{key}"]) * display_factor(kind, "si")[1]
+        assert close_to_sig(shown, float(row[key]))
+        assert props[key] == pytest.approx(float(row[key]), rel=1e-9)
+
+
+def test_us_units(demo):
+    sel, _ = demo
+    html = sheet.selection_sheet_html(sel, "us", "demo", 5)
+    got = keyed(html)
+    mf = display_factor("mass/length", "us")[1]
+    assert "lb/ft" in html and "kip·ft" in html and "ksi" in html and "ft" in html
+    assert close_to_sig(first_number(got["chosen.mass_per_length"]), sel.chosen["mass_per_length"] / mf)
+    assert "rank6.rank" not in got                      # --top 5 shows five passing ones
+
+
+def _no_network(html: str):
+    assert "<script" not in html.lower() and "<link" not in html.lower() and "@import" not in html
+    refs = re.findall(r"""\b(?:src|href|xlink:href)\s*=\s*["']([^"']*)["']""", html)
+    assert refs, "expected the local anchors of the contents list"
+    for ref in refs:
+        assert ref.startswith("#"), ref
+    assert not re.search(r"url\(\s*['\"]?\s*(?:https?:)?//", html)
+    assert not re.search(r"""(?:src|href)\s*=\s*["']?\s*(?:https?:)?//""", html)
+
+
+def test_no_network_requests(demo):
+    _no_network(demo[1])
+
+
+def test_atomic_write_failure_leaves_no_partial_file(demo, tmp_path, monkeypatch):
+    sel, _ = demo
+    target = tmp_path / "sheet.html"
+    target.write_text("previous sheet", encoding="utf-8")
+
+    def boom(*a, **k):
+        raise RuntimeError("drawing failed half-way")
+
+    monkeypatch.setattr("leanspan.report.diagrams.section_figure", boom)
+    with pytest.raises(RuntimeError):
+        sheet.write_selection_sheet(sel, target)
+    assert target.read_text(encoding="utf-8") == "previous sheet"
+    monkeypatch.undo()
+
+    real_replace = os.replace
+
+    def failing_replace(src, dst):
+        raise OSError("disk full")
+
+    monkeypatch.setattr(os, "replace", failing_replace)
+    with pytest.raises(OSError):
+        sheet.write_selection_sheet(sel, target)
+    monkeypatch.setattr(os, "replace", real_replace)
+    assert target.read_text(encoding="utf-8") == "previous sheet"
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["sheet.html"]   # no temp file left behind
+
+
+def test_never_overwrites_an_input(demo, tmp_path):
+    from leanspan.fileio import protect_inputs
+
+    sel, _ = demo
+    inp = tmp_path / "input.html"
+    inp.write_text("an input", encoding="utf-8")
+    protect_inputs(inp)
+    with pytest.raises(InputError, match="refusing to overwrite"):
+        sheet.write_selection_sheet(sel, inp)
+    assert inp.read_text(encoding="utf-8") == "an input"
+
+
+def test_cli_errors_are_one_line(tmp_path, capsys):
+    src = EXAMPLES / "section-flitch.toml"
+    before = src.read_bytes()
+    assert main(["section", str(src), "--report", str(src)]) == 2
+    err = capsys.readouterr().err.strip()
+    assert "\n" not in err and "expected a file name ending in .html" in err
+    assert src.read_bytes() == before
+    assert main(["section", str(src), "--report", str(tmp_path / "missing" / "s.html")]) == 2
+    err = capsys.readouterr().err.strip()
+    assert "\n" not in err and "does not exist" in err and "Traceback" not in err
+
+
+def test_section_sheet_from_the_command(tmp_path, capsys):
+    out = tmp_path / "flitch.html"
+    assert main(["section", str(EXAMPLES / "section-flitch.toml"), "--report", str(out)]) == 0
+    capsys.readouterr()
+    assert main(["section", str(EXAMPLES / "section-flitch.toml"), "--json"]) == 0
+    import json
+
+    js = json.loads(capsys.readouterr().out)
+    html = out.read_text(encoding="utf-8")
+    _no_network(html)
+    got = keyed(html)
+    for key, kind in (("A", "area"), ("Iz", "second moment"), ("Sz_top", "section modulus"),
+                      ("EIz", "flexural stiffness"), ("mass_per_length", "mass/length")):
+        assert close_to_sig(first_number(got[key]) * display_factor(kind, "si")[1], js[key])
+    assert "neutral axis" in html and sheet.esc(leanspan.CAUTION) in html and "C24" in html
+
+
+def test_beam_sheet_numbers_equal_the_json(tmp_path):
+    from leanspan.beam import parse_beam, solve
+    from leanspan.fileio import load_toml
+
+    path = EXAMPLES / "beam-three-span.toml"
+    sol = solve(parse_beam(load_toml(path), path.parent, "t: "))
+    out = tmp_path / "beam.html"
+    sheet.write_beam_sheet(sol, out, units="us", source=str(path))
+    html = out.read_text(encoding="utf-8")
+    _no_network(html)
+    got = keyed(html)
+    js = sol.to_json()["results"]
+    for name, res in js.items():
+        for key, kind in (("M_max", "moment"), ("M_min", "moment"), ("V_max", "force"), ("v_min", "length")):
+            f = display_factor(kind, "us")[1]
+            assert close_to_sig(float(got[f"{name}.{key}"]), res[key]["value"] / f) or abs(res[key]["value"]) < 1e-6
+        for i, r in enumerate(res["reactions"]):
+            f = display_factor("force", "us")[1]
+            assert close_to_sig(float(got[f"{name}.R{i}.force"]), r["force"] / f)
+    for item in ("Deflection checks", "lateral-torsional buckling", "Extremes"):
+        assert item in html
+
+
+def test_plot_files(tmp_path, demo):
+    from leanspan.report.chosen import member_section, member_solution
+    from leanspan.report.diagrams import plot_job
+
+    sel, _ = demo
+    secn, props = member_section(sel.chosen)
+    plot_job(member_solution(sel), tmp_path / "demo.svg", section=secn, props=props)
+    names = sorted(p.name for p in tmp_path.iterdir())
+    assert names == ["demo-beam.svg", "demo-diagrams.svg", "demo-section.svg"]
+    assert "<svg" in (tmp_path / "demo-diagrams.svg").read_text(encoding="utf-8")
+    with pytest.raises(InputError, match=".svg, .png or .pdf"):
+        plot_job(member_solution(sel), tmp_path / "demo.txt")
+
+
+def test_committed_demo_sheet_matches_the_demo():
+    path = EXAMPLES / "demo-sheet.html"
+    html = path.read_text(encoding="utf-8")
+    job = parse_job(tomllib.loads(demo_text()), Path("."), "demo: ")
+    chosen = run_selection(job).chosen
+    got = keyed(html)
+    assert f"Chosen: {chosen['name']}" in html
+    assert close_to_sig(first_number(got["chosen.mass_per_length"]), chosen["mass_per_length"])
+    assert "Invented demo data" in html and sheet.esc(leanspan.CAUTION) in html
+    _no_network(html)
+
+
+def test_importing_the_command_does_not_load_matplotlib():
+    import subprocess
+    import sys
+
+    code = ("import sys, leanspan.cli, leanspan.cli.select, leanspan.cli.section; "
+            "import leanspan.report.sheet; print('matplotlib' in sys.modules)")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == "False"
