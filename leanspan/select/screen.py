@@ -4,9 +4,10 @@ The beam is solved once per unit case (``leanspan.beam.respond``). For a prismat
 beam without springs the internal forces do not depend on EI and deflections scale
 with 1/EI, so every combination for candidate k is ``A(x) + t_k B(x)`` where A is the
 combination of the load cases, B the unit self-weight case and ``t_k`` the
-candidate's factored weight per length. Extremes are found on a grid of points per
-element for all candidates at once and then polished by Newton steps on the exact
-element polynomial, so they equal the exact extremes to round-off. With springs the
+candidate's factored weight per length. Extremes of M (cubic per element) and V come
+in closed form from the roots of their derivatives; extremes of v (quintic) from the
+best of a grid in every element polished by Newton steps on the exact polynomial.
+Both equal the exact extremes to round-off. With springs the
 unit cases are solved for all K stiffnesses as one batch and combined the same way.
 
 :func:`screen_loop` does the same checks one candidate at a time through
@@ -75,115 +76,105 @@ def _grid(lengths):
 
 
 def _horner(coeffs, s):
-    """coeffs (..., E, n) at local points s (E, S) -> (..., E, S)."""
-    out = np.broadcast_to(coeffs[..., -1:], coeffs.shape[:-1] + (s.shape[-1],)).copy()
+    """coeffs (..., n) at points s (broadcasting with coeffs[..., 0]) by Horner's rule."""
+    out = np.broadcast_to(coeffs[..., -1], np.broadcast_shapes(coeffs.shape[:-1], s.shape)).copy()
     for k in range(coeffs.shape[-1] - 2, -1, -1):
         out *= s
-        out += coeffs[..., k:k + 1]
+        out += coeffs[..., k]
     return out
 
 
-def _polish(coef, s0, L, sign):
-    """Newton steps on d/ds of each row's polynomial (K, n) from s0, kept inside [0, L]."""
-    n = coef.shape[-1]
-    d1 = coef[:, 1:] * np.arange(1, n)
-    d2 = d1[:, 1:] * np.arange(1, n - 1)
-    s = s0.copy()
-    for _ in range(4):
-        g = _horner_rows(d1, s)
-        h = _horner_rows(d2, s)
-        ok = (sign * h) < 0  # curving the right way for a maximum of sign * f
-        with np.errstate(divide="ignore", invalid="ignore"):
-            step = np.where(ok, g / np.where(ok, h, 1.0), 0.0)
-        s = np.clip(s - step, 0.0, L)
-    return s, _horner_rows(coef, s)
-
-
-def _horner_rows(coef, s):
-    out = coef[:, -1].copy()
-    for k in range(coef.shape[-1] - 2, -1, -1):
-        out = out * s + coef[:, k]
+def _cubic_extremes(coef, L, x0):
+    """Exact max and min of cubics coef (K, E, 4) on [0, L_e]: ends and the roots of the
+    quadratic derivative (stable formula; a vanishing s^2 term leaves the linear root).
+    Returns {+1: (value, x), -1: (value, x)} over all elements."""
+    c1, c2, c3 = coef[..., 1], 2.0 * coef[..., 2], 3.0 * coef[..., 3]
+    disc = c2 * c2 - 4.0 * c3 * c1
+    root = np.sqrt(np.maximum(disc, 0.0))
+    q = -0.5 * (c2 + np.where(c2 >= 0, root, -root))
+    with np.errstate(divide="ignore", invalid="ignore"):
+        r1 = np.where(c3 != 0, q / c3, np.nan)
+        r2 = np.where(q != 0, c1 / q, np.nan)
+    ok = disc >= 0
+    Lb = np.broadcast_to(L, r1.shape)
+    cands = [np.zeros_like(r1), Lb]
+    for r in (r1, r2):
+        cands.append(np.where(ok & (r > 0) & (r < Lb), r, 0.0))
+    s = np.stack(cands, axis=-1)  # (K, E, 4)
+    vals = _horner(coef[..., None, :], s)
+    out = {}
+    K = coef.shape[0]
+    for sign in (1, -1):
+        flat = (sign * vals).reshape(K, -1)
+        j = np.argmax(flat, axis=1)
+        e = j // s.shape[-1]
+        out[sign] = (sign * flat[np.arange(K), j], x0[e] + s.reshape(K, -1)[np.arange(K), j])
     return out
 
 
-def _extreme(vals, coef_of, s_grid, lengths, x0, sign):
-    """Largest ``sign * f`` per candidate: grid argmax, then a Newton polish.
+def _polished_extremes(coef, L, x0):
+    """Max and min of higher-degree polynomials coef (K, E, n) on [0, L_e]: the best of a
+    grid in every element, polished by Newton steps on the exact derivative."""
+    K, E, n = coef.shape
+    s_grid = _grid(L)  # (E, S)
+    vals = _horner(coef[:, :, None, :], s_grid[None])  # (K, E, S)
+    d1 = coef[..., 1:] * np.arange(1, n)
+    d2 = d1[..., 1:] * np.arange(1, n - 1)
+    out = {}
+    for sign in (1, -1):
+        i = np.argmax(sign * vals, axis=2)  # best grid point of every element
+        s = np.take_along_axis(np.broadcast_to(s_grid, (K, E, s_grid.shape[1])), i[..., None], axis=2)[..., 0]
+        best = np.take_along_axis(vals, i[..., None], axis=2)[..., 0]
+        for _ in range(4):
+            g, h = _horner(d1, s), _horner(d2, s)
+            ok = sign * h < 0  # curving the right way for a peak of sign * f
+            with np.errstate(divide="ignore", invalid="ignore"):
+                s = np.clip(s - np.where(ok, g / np.where(ok, h, 1.0), 0.0), 0.0, L)
+        f = _horner(coef, s)
+        better = sign * f > sign * best
+        value = np.where(better, f, best)
+        where = np.where(better, s, np.take_along_axis(
+            np.broadcast_to(s_grid, (K, E, s_grid.shape[1])), i[..., None], axis=2)[..., 0])
+        e = np.argmax(sign * value, axis=1)
+        r = np.arange(K)
+        out[sign] = (value[r, e], x0[e] + where[r, e])
+    return out
 
-    vals : (K, E, S) grid values; coef_of(rows, elements) -> (K, n) element polynomials.
-    Returns value (signed, of f) and x.
-    """
-    K, E, S = vals.shape
-    flat = (sign * vals).reshape(K, E * S)
-    j = np.argmax(flat, axis=1)
-    best = flat[np.arange(K), j]
-    e, i = np.divmod(j, S)
-    rows = np.arange(K)
-    value, x = sign * best, x0[e] + s_grid[e, i]
-    # polish in the element of the best grid point and in its neighbours: a grid point
-    # at an element end may sit next to a peak just inside the adjacent element
-    for shift, start in ((0, None), (1, 0.0), (-1, 1.0)):
-        ee = np.clip(e + shift, 0, E - 1)
-        s0 = s_grid[ee, i] if start is None else start * lengths[ee]
-        s, f = _polish(coef_of(rows, ee), s0, lengths[ee], sign)
-        better = sign * f > sign * value
-        value = np.where(better, f, value)
-        x = np.where(better, x0[ee] + s, x)
-    return value, x
 
+def _field_extremes(field, F, sw, t, scale, lengths, x0, elems):
+    """Max and min over elements ``elems`` of one combination, per candidate.
 
-def _combine(field, F, t, sw, fixed):
-    """Coefficients of one combination for every candidate.
-
-    field : (1 or K, U, E, n); F : (U,) case factors; t : (K,) factored weight per length.
-    Returns a function (rows, elements) -> (K', n) and the grid values builder.
+    field (1 or K, U, E, n); the combined field of candidate k is
+    (sum_u F_u field_u + t_k field_sw) * scale_k (scale: None or (K,)).
+    Returns {+1: (value, x), -1: (value, x)}.
     """
     Fn = F.copy()
     if sw is not None:
         Fn[sw] = 0.0
-    if fixed:  # forces independent of the candidate: A + t B
-        A = np.tensordot(Fn, field[0], axes=(0, 0))  # (E, n)
-        B = field[0, sw] if sw is not None else np.zeros_like(A)
-        return A, B
-    Fk = np.broadcast_to(Fn, (t.size, Fn.size)).copy()
-    if sw is not None:
-        Fk[:, sw] = t
-    return np.einsum("ku,kuen->ken", Fk, field), None
-
-
-def _field_extremes(field, F, sw, t, scale, lengths, x0, elems, want):
-    """Max and/or min over elements ``elems`` of a combined field, per candidate.
-
-    field (1 or K, U, E, n); the combined field for candidate k is
-    (sum_u F_u field_u + t_k field_sw) * scale_k (scale: None or (K,)).
-    want: tuple of +1 (max) and/or -1 (min). Returns {sign: (value, x)}.
-    """
-    fixed = field.shape[0] == 1
-    A, B = _combine(field[:, :, elems], F, t, sw, fixed)
-    L = lengths[elems]
-    xs = x0[elems]
-    s_grid = _grid(L)
-    out = {sg: [] for sg in want}
+    sub = field[:, :, elems]
+    L, xs = lengths[elems], x0[elems]
     K = t.size
-    if fixed:
-        gA, gB = _horner(A, s_grid), _horner(B, s_grid)
+    fixed = sub.shape[0] == 1
+    if fixed:  # forces independent of the candidate: A + t B
+        A = np.tensordot(Fn, sub[0], axes=(0, 0))  # (E, n)
+        B = sub[0, sw] if sw is not None else np.zeros_like(A)
+    parts = {1: [], -1: []}
     for start in range(0, K, _BLOCK):
         rows = slice(start, min(K, start + _BLOCK))
         tk = t[rows]
         if fixed:
-            vals = gA[None] + tk[:, None, None] * gB[None]
-            coef_of = lambda r, e, tk=tk: A[e] + tk[r, None] * B[e]  # noqa: E731
+            coef = A[None] + tk[:, None, None] * B[None]
         else:
-            Ck = A[rows]
-            vals = _horner(Ck, s_grid)
-            coef_of = lambda r, e, Ck=Ck: Ck[r, e]  # noqa: E731
+            Fk = np.broadcast_to(Fn, (tk.size, Fn.size)).copy()
+            if sw is not None:
+                Fk[:, sw] = tk
+            coef = np.einsum("ku,kuen->ken", Fk, sub[rows])
         if scale is not None:
-            sc = scale[rows]
-            vals = vals * sc[:, None, None]
-            base = coef_of
-            coef_of = lambda r, e, base=base, sc=sc: base(r, e) * sc[r, None]  # noqa: E731
-        for sg in want:
-            out[sg].append(_extreme(vals, coef_of, s_grid, L, xs, sg))
-    return {sg: tuple(np.concatenate([p[i] for p in parts]) for i in range(2)) for sg, parts in out.items()}
+            coef = coef * scale[rows, None, None]
+        ext = _cubic_extremes(coef, L, xs) if coef.shape[-1] <= 4 else _polished_extremes(coef, L, xs)
+        for sign in (1, -1):
+            parts[sign].append(ext[sign])
+    return {sg: tuple(np.concatenate([p[i] for p in parts[sg]]) for i in range(2)) for sg in (1, -1)}
 
 
 def screen(model, cand: Candidates, self_weight_case=None) -> Screen:
@@ -224,8 +215,8 @@ def screen(model, cand: Candidates, self_weight_case=None) -> Screen:
         F = np.asarray(combo.factors, float)
         t = mass_g * (F[sw] if sw is not None else 0.0)
         if combo.check == "strength":
-            m = _field_extremes(resp.M, F, sw, t, None, lengths, x0, all_elems, (1, -1))
-            v = _field_extremes(resp.V, F, sw, t, None, lengths, x0, all_elems, (1, -1))
+            m = _field_extremes(resp.M, F, sw, t, None, lengths, x0, all_elems)
+            v = _field_extremes(resp.V, F, sw, t, None, lengths, x0, all_elems)
             M_max = np.maximum(M_max, m[1][0])
             M_min = np.minimum(M_min, m[-1][0])
             V_abs = np.maximum(V_abs, np.maximum(np.abs(v[1][0]), np.abs(v[-1][0])))
@@ -234,7 +225,7 @@ def screen(model, cand: Candidates, self_weight_case=None) -> Screen:
                 elems = np.nonzero((mids > a) & (mids < b))[0]
                 if elems.size == 0:
                     continue
-                d = _field_extremes(v_field, F, sw, t, v_scale, lengths, x0, elems, (1, -1))
+                d = _field_extremes(v_field, F, sw, t, v_scale, lengths, x0, elems)
                 mag = np.maximum(np.abs(d[1][0]), np.abs(d[-1][0]))
                 r = mag / float(combo.limit.allowed(b - a))
                 upd = ~(r <= ratio)  # NaN-aware maximum
