@@ -105,3 +105,16 @@ def test_real_process_exit_status(tmp_path):
     proc = subprocess.run([sys.executable, "-m", "leanspan", "section", path], capture_output=True, text=True)
     assert proc.returncode == 2
     assert proc.stderr.startswith("leanspan section: error:") and "Traceback" not in proc.stderr
+
+
+def test_beam_report_is_written(tmp_path, capsys):
+    """`leanspan beam --report` writes a self-contained sheet that carries the caution."""
+    from pathlib import Path
+
+
+    job = Path(__file__).resolve().parents[1] / "data" / "examples" / "beam-three-span.toml"
+    sheet = tmp_path / "beam.html"
+    status, out, _ = run_cli(capsys, "beam", str(job), "--report", str(sheet))
+    text = sheet.read_text()
+    assert status == 0 and "calculation sheet written" in out
+    assert "licensed" in text and "http://" not in text and "https://" not in text

@@ -21,6 +21,7 @@ def add_parser(subparsers):
                                           "combination, with the envelope and deflection checks.")
     p.add_argument("file", help="beam job file (TOML)")
     p.add_argument("--plot", metavar="OUT", help="draw the loaded beam and the V, M, v diagrams (.svg, .png, .pdf)")
+    p.add_argument("--report", metavar="SHEET.html", help="write the calculation sheet (one self-contained HTML page)")
     add_common(p)
     p.set_defaults(run=run)
     return p
@@ -38,12 +39,18 @@ def run(args) -> int:
         from ..report.beam_plot import plot_beam
 
         plot_beam(sol, args.plot, units=args.units)
+    if args.report:
+        from ..report.sheet import write_beam_sheet
+
+        write_beam_sheet(sol, args.report, units=args.units, source=str(path))
     if args.json:
         out = sol.to_json()
         out["caution"] = CAUTION
         emit_json(out)
     else:
         print(summary(sol, args.units, title=model.name or path.name))
+        if args.report:
+            print(f"calculation sheet written to {args.report}")
     return 0
 
 
