@@ -117,4 +117,7 @@ def test_beam_report_is_written(tmp_path, capsys):
     status, out, _ = run_cli(capsys, "beam", str(job), "--report", str(sheet))
     text = sheet.read_text()
     assert status == 0 and "calculation sheet written" in out
-    assert "licensed" in text and "http://" not in text and "https://" not in text
+    import re
+
+    assert "licensed" in text.replace("\n", " ")
+    assert not re.search(r"""(src|href)\s*=\s*["']?https?:""", text)  # no network requests

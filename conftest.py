@@ -1,0 +1,2 @@
+# Root conftest: pytest puts this folder first on sys.path, so the doctests of leanspan/ and
+# the tests import the same (checked-out) package even after a non-editable `pip install .`.
