@@ -23,26 +23,35 @@ from pathlib import Path
 
 from .errors import InputError
 
-__all__ = ["load_toml", "atomic_write", "protect_inputs"]
+__all__ = ["read_text", "load_toml", "atomic_write", "protect_inputs"]
 
 _INPUTS: set[Path] = set()
+
+
+def read_text(path, what: str = "text", error=InputError, encoding: str = "utf-8") -> str:
+    """Read a UTF-8 file; raise ``error`` naming the file on any problem.
+
+    ``what`` names the expected file in the folder message ("a TOML file").
+    """
+    path = Path(path)
+    try:
+        raw = path.read_bytes()
+    except FileNotFoundError:
+        raise error(f"{path}: file not found") from None
+    except IsADirectoryError:
+        raise error(f"{path}: is a folder, expected {what}") from None
+    except OSError as exc:
+        raise error(f"{path}: cannot read ({exc.strerror})") from None
+    try:
+        return raw.decode(encoding)
+    except UnicodeDecodeError:
+        raise error(f"{path}: not a UTF-8 text file") from None
 
 
 def load_toml(path) -> dict:
     """Read a TOML file; raise :class:`InputError` naming the file on any problem."""
     path = Path(path)
-    try:
-        raw = path.read_bytes()
-    except FileNotFoundError:
-        raise InputError(f"{path}: file not found") from None
-    except IsADirectoryError:
-        raise InputError(f"{path}: is a folder, expected a TOML file") from None
-    except OSError as exc:
-        raise InputError(f"{path}: cannot read ({exc.strerror})") from None
-    try:
-        text = raw.decode("utf-8")
-    except UnicodeDecodeError:
-        raise InputError(f"{path}: not a UTF-8 text file") from None
+    text = read_text(path, "a TOML file")
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:

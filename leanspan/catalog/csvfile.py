@@ -105,16 +105,9 @@ def read_table(path, error=CatalogError, text: str | None = None):
     """
     path = Path(path)
     if text is None:
-        try:
-            text = path.read_bytes().decode("utf-8-sig")
-        except FileNotFoundError:
-            raise error(f"{path}: file not found") from None
-        except IsADirectoryError:
-            raise error(f"{path}: is a folder, expected a CSV file") from None
-        except UnicodeDecodeError:
-            raise error(f"{path}: not a UTF-8 text file") from None
-        except OSError as exc:
-            raise error(f"{path}: cannot read ({exc.strerror})") from None
+        from ..fileio import read_text
+
+        text = read_text(path, "a CSV file", error, encoding="utf-8-sig")
     header = None
     rows = []
     reader = csv.reader(io.StringIO(text))

@@ -123,7 +123,8 @@ def _polished_extremes(coef, L, x0):
     out = {}
     for sign in (1, -1):
         i = np.argmax(sign * vals, axis=2)  # best grid point of every element
-        s = np.take_along_axis(np.broadcast_to(s_grid, (K, E, s_grid.shape[1])), i[..., None], axis=2)[..., 0]
+        s_start = s_grid[np.arange(E)[None, :], i]
+        s = s_start
         best = np.take_along_axis(vals, i[..., None], axis=2)[..., 0]
         for _ in range(4):
             g, h = _horner(d1, s), _horner(d2, s)
@@ -133,8 +134,7 @@ def _polished_extremes(coef, L, x0):
         f = _horner(coef, s)
         better = sign * f > sign * best
         value = np.where(better, f, best)
-        where = np.where(better, s, np.take_along_axis(
-            np.broadcast_to(s_grid, (K, E, s_grid.shape[1])), i[..., None], axis=2)[..., 0])
+        where = np.where(better, s, s_start)
         e = np.argmax(sign * value, axis=1)
         r = np.arange(K)
         out[sign] = (value[r, e], x0[e] + where[r, e])
