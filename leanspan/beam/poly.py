@@ -88,7 +88,7 @@ def roots_in(coeffs, lengths, imag_tol: float = 1e-6):
             # stable quadratic formula; near-zero negative discriminants count as a double root
             keep = disc >= -1e-12 * (a1 * a1 + np.abs(4 * a2 * a0))
             qq = -0.5 * (a1 + np.copysign(sq, a1))
-            with np.errstate(divide="ignore", invalid="ignore"):
+            with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
                 r1 = np.where(qq != 0, qq / a2, -a1 / (2 * a2))
                 r2 = np.where(qq != 0, a0 / qq, -a1 / (2 * a2))
             t = np.where(keep[:, None], np.stack([r1, r2], axis=1), np.nan)
