@@ -290,3 +290,16 @@ def test_importing_the_command_does_not_load_matplotlib():
             "import leanspan.report.sheet; print('matplotlib' in sys.modules)")
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip() == "False"
+
+
+def test_print_layout_rules():
+    """Short tables print whole and every part after the first starts a page (CSS paged media,
+    W3C css-break-3: break-inside / break-before)."""
+    from leanspan.report import markup
+
+    short = markup.table(["a"], [["1"]] * markup.KEEP_ROWS)
+    long = markup.table(["a"], [["1"]] * (markup.KEEP_ROWS + 1))
+    assert 'class="keep"' in short and "keep" not in long
+    assert "table.keep { break-inside: avoid" in markup.CSS
+    assert "section.part + section.part { break-before: page" in markup.CSS
+    assert "h2, h3, caption { break-after: avoid" in markup.CSS

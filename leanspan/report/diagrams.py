@@ -24,6 +24,7 @@ __all__ = ["governing", "loaded_beam_figure", "diagram_figure", "section_figure"
 # field -> (display kind, axis label)
 CURVE_KEYS = {"V": ("force", "shear V"), "M": ("moment", "moment M"), "v": ("length", "deflection v")}
 _CASE_COLOURS = ["#1f77b4", "#d62728", "#2ca02c", "#9467bd", "#8c564b", "#e377c2", "#7f7f7f", "#bcbd22"]
+_LABEL_BOX = dict(fc="w", ec="none", alpha=0.85, pad=0.3)
 _COMBO_COLOURS = ["#c0392b", "#1f618d", "#117a65", "#7d3c98", "#b9770e"]
 
 
@@ -141,7 +142,8 @@ def loaded_beam_figure(model, units: str = "si", title: str = ""):
             ax.plot(xs, ys, color=col, lw=1.0)
             txt = (f"{fmt(ld.w1 / wf, 3)} {wl}" if ld.w1 == ld.w2 else
                    f"{fmt(ld.w1 / wf, 3)} to {fmt(ld.w2 / wf, 3)} {wl}")
-            ax.text(xs.mean(), max(ys) + 0.04, txt, ha="center", va="bottom", fontsize=7.5, color=col)
+            ax.text(xs.mean(), max(ys) + 0.04, txt, ha="center", va="bottom", fontsize=7.5, color=col,
+                    bbox=_LABEL_BOX)
         if case == sw:
             txt = "+ member self-weight" if model.mass_per_length is None else (
                 f"+ self-weight {fmt(model.mass_per_length * 9.80665 / wf, 3)} {wl}")
@@ -155,8 +157,9 @@ def loaded_beam_figure(model, units: str = "si", title: str = ""):
                 top, bot = (y0 + lane_h, y0) if ld.P >= 0 else (y0, y0 + lane_h)
                 ax.annotate("", xy=(x, bot - 0.3 if ld.P >= 0 else bot), xytext=(x, top),
                             arrowprops=dict(arrowstyle="-|>", color=col, lw=1.4, mutation_scale=9))
-                ax.text(x + 0.01 * L, y0 + 0.8 * lane_h, f"{fmt(abs(ld.P) / ff, 3)} {fl}", ha="left",
-                        va="center", fontsize=7.5, color=col, fontweight="bold")
+                # above the arrow's tail, clear of the distributed-load line
+                ax.text(x, y0 + lane_h + 0.04, f"{fmt(abs(ld.P) / ff, 3)} {fl}", ha="center",
+                        va="bottom", fontsize=7.5, color=col, fontweight="bold", bbox=_LABEL_BOX)
             else:
                 ax.text(x, y0 + 0.3, "↺" if ld.M >= 0 else "↻", color=col, ha="center", fontsize=13)
                 ax.text(x + 0.012 * L, y0 + 0.75 * lane_h, f"{fmt(abs(ld.M) / mf, 3)} {ml}",
@@ -201,7 +204,7 @@ def diagram_figure(solution, units: str = "si", picks: dict | None = None):
     sl, sx = display_factor("span", units)
     model = solution.model
     env = solution.results["envelope"]
-    fig, axes = plt.subplots(3, 1, figsize=(7.2, 6.6), sharex=True)
+    fig, axes = plt.subplots(3, 1, figsize=(7.2, 5.6), sharex=True)
     names = []
     for key in ("V", "M", "v"):
         if picks.get(key) not in names:
@@ -246,11 +249,17 @@ def diagram_figure(solution, units: str = "si", picks: dict | None = None):
         ax.margins(y=0.28)
         note = {"V": " (V = -dM/dx)", "M": " (sagging +, drawn downward)", "v": " (upward +)"}[key]
         ax.set_title(f"{label}{note}", fontsize=8.5, loc="left")
-        ax.legend(fontsize=6.5, loc="best", framealpha=0.85, edgecolor="#cccccc")
     axes[1].invert_yaxis()
     axes[-1].set_xlabel(f"x [{sl}]")
     axes[-1].set_xlim(-0.02 * model.length / sx, 1.02 * model.length / sx)
     fig.tight_layout()
+    # one legend for the three panels, above them, where it hides no curve or label
+    legend = {}
+    for ax in axes:
+        for handle, text in zip(*ax.get_legend_handles_labels()):
+            legend.setdefault(text, handle)
+    fig.legend(legend.values(), legend.keys(), loc="lower center", bbox_to_anchor=(0.5, 1.0),
+               ncol=min(3, len(legend)), fontsize=7, frameon=False)
     return fig
 
 
@@ -260,7 +269,7 @@ def section_figure(section, props, units: str = "si", title: str = ""):
     from .section_plot import draw_section
 
     plt = _mpl()
-    fig, ax = plt.subplots(figsize=(4.6, 4.6))
+    fig, ax = plt.subplots(figsize=(4.2, 4.2))
     draw_section(ax, section, props, units)
     if title:
         ax.set_title(title, fontsize=9, loc="left")

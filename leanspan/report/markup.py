@@ -8,7 +8,7 @@ Examples
 >>> esc("a < b & c")
 'a &lt; b &amp; c'
 >>> table(["x", "y"], [["1", "2"]])
-'<table><thead><tr><th>x</th><th>y</th></tr></thead><tbody><tr><td>1</td><td>2</td></tr></tbody></table>'
+'<table class="keep"><thead><tr><th>x</th><th>y</th></tr></thead><tbody><tr><td>1</td><td>2</td></tr></tbody></table>'
 >>> util_bar(0.5).count("<rect")
 3
 """
@@ -53,8 +53,13 @@ def _cell(tag: str, value) -> str:
     return f"<{tag}>{esc(value)}</{tag}>"
 
 
+KEEP_ROWS = 30  # about a printed page of rows
+
+
 def table(header, rows, cls: str = "", row_classes=None, caption: str = "") -> str:
     """An HTML table; plain strings are escaped, :class:`Cell` values are used as they are."""
+    if len(rows) <= KEEP_ROWS:  # a short table is printed whole, never split over two pages
+        cls = f"{cls} keep".strip()
     open_ = f'<table class="{esc(cls)}">' if cls else "<table>"
     out = [open_]
     if caption:
@@ -140,13 +145,15 @@ table.ranked th, table.ranked td { padding: 0.6mm 1.2mm; }
 table.ranked { font-size: 8pt; }
 td.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
 tr { break-inside: avoid; page-break-inside: avoid; }
+table.keep { break-inside: avoid; page-break-inside: avoid; }
+h2, h3, caption { break-after: avoid; page-break-after: avoid; }
 tr.chosen td { font-weight: bold; background: #eef7f1; -webkit-print-color-adjust: exact; print-color-adjust: exact; }
 tr.fails td { color: #8a1f11; }
 td.pass { color: #1e6b3a; font-weight: bold; }
 td.fail { color: #b03a2e; font-weight: bold; }
 figure { margin: 2mm 0 4mm 0; break-inside: avoid; page-break-inside: avoid; }
 figure svg { width: 100%; height: auto; display: block; }
-figure.section-drawing svg { width: 70%; margin: 0 auto; }
+figure.section-drawing svg { width: auto; height: 100mm; max-width: 100%; margin: 0 auto; }
 figcaption { font-size: 8.5pt; color: #333; margin-top: 1mm; }
 svg.bar { vertical-align: middle; }
 ul { margin: 1mm 0 2mm 0; padding-left: 6mm; }
