@@ -17,6 +17,7 @@ Examples
 from __future__ import annotations
 
 import os
+import stat
 import tempfile
 import tomllib
 from pathlib import Path
@@ -66,8 +67,20 @@ def protect_inputs(*paths) -> None:
         _INPUTS.add(Path(p).resolve())
 
 
+def _target_mode(path: Path) -> int:
+    try:
+        return stat.S_IMODE(path.stat().st_mode)
+    except OSError:
+        umask = os.umask(0)
+        os.umask(umask)
+        return 0o666 & ~umask
+
+
 def atomic_write(path, data: str | bytes) -> None:
     """Write ``data`` to ``path`` through a temporary file and a rename.
+
+    The file gets the permissions a plain ``open(path, "w")`` would give: those of the
+    file it replaces, else 0666 less the user's umask.
 
     Raises
     ------
@@ -85,6 +98,7 @@ def atomic_write(path, data: str | bytes) -> None:
     try:
         with os.fdopen(fd, mode, **({} if mode == "wb" else {"encoding": "utf-8", "newline": ""})) as fh:
             fh.write(data)
+        os.chmod(tmp, _target_mode(path))  # mkstemp makes 0600 files
         os.replace(tmp, path)
     except BaseException:
         try:

@@ -1,4 +1,4 @@
-"""`leanspan beam`: readable output, JSON contract, plots and one-line errors with exit 2."""
+"""`leanspan beam`: readable output, JSON contract, plot files and one-line errors with exit 2."""
 
 from __future__ import annotations
 
@@ -61,10 +61,12 @@ def test_json_contract(capsys):
     assert len(res["ULS"]["members"]) == 8  # 2^3 on/off patterns of the imposed case
 
 
-def test_plot_writes_file(tmp_path):
+def test_plot_writes_files(tmp_path):
     out = tmp_path / "beam.svg"
     assert main(["beam", str(EXAMPLES / "beam-gerber.toml"), "--plot", str(out)]) == 0
-    assert out.read_text().lstrip().startswith("<?xml")
+    names = sorted(p.name for p in tmp_path.iterdir())
+    assert names == ["beam-beam.svg", "beam-diagrams.svg"]  # the sheet's two beam drawings
+    assert (tmp_path / "beam-diagrams.svg").read_text().lstrip().startswith("<?xml")
 
 
 def test_us_units(capsys):

@@ -41,7 +41,9 @@ def beams(draw, with_loads=True):
         if not any(abs(s.at - h) < 1e-9 and s.rotational for s in sups):
             hinges = (h,)
     if draw(st.booleans()):
-        cut = draw(st.floats(0.2, 0.8)) * L
+        # midway between the 1/40 grid of supports and loads: features stay >= L/80 apart (the
+        # solver's round-off grows like (L / shortest element)^2, see README "Known limits")
+        cut = (draw(st.integers(8, 31)) + 0.5) / 40 * L
         stiff = (Stiffness(0, cut, draw(st.floats(1e5, 1e7))), Stiffness(cut, L, draw(st.floats(1e5, 1e7))))
     else:
         stiff = (Stiffness(0, L, draw(st.floats(1e5, 1e7))),)
@@ -179,7 +181,9 @@ def test_maxwell_betti(mb, fa, fb):
     sol = solve(m)
     vab = float(_eval(sol, "A", "v", np.array(b)))
     vba = float(_eval(sol, "B", "v", np.array(a)))
-    scale = max(abs(vab), abs(vba), abs(sol.results["A"].extremes["v_min"].value), 1e-300)
+    # floor: round-off of a unit load's deflection, for loads that sit on a support
+    scale = max(abs(vab), abs(vba), abs(sol.results["A"].extremes["v_min"].value),
+                1e-4 * L**3 / min(s.EI for s in model.stiffness))
     assert abs(vab - vba) <= 1e-9 * scale
 
 

@@ -125,3 +125,29 @@ def test_demo_runs(capsys):
     out = json.loads(capsys.readouterr().out)
     assert status == 0
     check_contract(out)
+
+
+def test_select_plot_files(tmp_path, capsys):
+    """--plot writes the sheet's three drawings of the chosen member, readable by others (0644 under
+    the usual umask 022: POSIX open(2) creates files with mode 0666 & ~umask)."""
+    import os
+
+    old = os.umask(0o022)
+    try:
+        status = main(["select", str(EXAMPLES / "select-floor-joist.toml"), "--plot", str(tmp_path / "joist.svg")])
+    finally:
+        os.umask(old)
+    out = capsys.readouterr().out
+    names = sorted(p.name for p in tmp_path.iterdir())
+    assert status == 0 and names == ["joist-beam.svg", "joist-diagrams.svg", "joist-section.svg"]
+    assert "drawings written to" in out
+    for p in tmp_path.iterdir():
+        assert p.read_text(encoding="utf-8").lstrip().startswith(("<?xml", "<svg"))
+        assert p.stat().st_mode & 0o777 == 0o644
+
+
+def test_select_plot_bad_suffix_is_one_line(tmp_path, capsys):
+    status = main(["select", str(EXAMPLES / "select-floor-joist.toml"), "--plot", str(tmp_path / "joist.txt")])
+    err = capsys.readouterr().err.strip().splitlines()
+    assert status == 2 and len(err) == 1 and ".svg, .png or .pdf" in err[0]
+    assert list(tmp_path.iterdir()) == []

@@ -1,4 +1,4 @@
-"""``leanspan beam FILE.toml [--json] [--units si|us] [--plot OUT.svg|png]``.
+"""``leanspan beam FILE.toml [--json] [--units si|us] [--plot OUT.svg] [--report SHEET.html]``.
 
 Solves a beam job exactly and prints reactions, extremes with positions and the
 deflection checks (or the JSON contract of GUIDE section 4 with ``--json``).
@@ -20,7 +20,8 @@ def add_parser(subparsers):
                               description="Solve a beam job (TOML) exactly for every load case and "
                                           "combination, with the envelope and deflection checks.")
     p.add_argument("file", help="beam job file (TOML)")
-    p.add_argument("--plot", metavar="OUT", help="draw the loaded beam and the V, M, v diagrams (.svg, .png, .pdf)")
+    p.add_argument("--plot", metavar="OUT.svg", help="draw the sheet's loaded beam and V, M, v diagrams to "
+                                                      "OUT-beam and OUT-diagrams (.svg, .png or .pdf)")
     p.add_argument("--report", metavar="SHEET.html", help="write the calculation sheet (one self-contained HTML page)")
     add_common(p)
     p.set_defaults(run=run)
@@ -35,10 +36,11 @@ def run(args) -> int:
     data = load_toml(path)
     model = parse_beam(data, path.parent, field_prefix=f"{path.name}: ")
     sol = solve(model)
+    plots = []
     if args.plot:
-        from ..report.beam_plot import plot_beam
+        from ..report.diagrams import plot_job
 
-        plot_beam(sol, args.plot, units=args.units)
+        plots = plot_job(sol, args.plot, units=args.units, title=model.name)
     if args.report:
         from ..report.sheet import write_beam_sheet
 
@@ -51,6 +53,8 @@ def run(args) -> int:
         print(summary(sol, args.units, title=model.name or path.name))
         if args.report:
             print(f"calculation sheet written to {args.report}")
+        if plots:
+            print("drawings written to " + ", ".join(str(p) for p in plots))
     return 0
 
 

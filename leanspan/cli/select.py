@@ -22,6 +22,9 @@ def add_options(p):
     p.add_argument("--report", metavar="SHEET.html", default=None, help="write the calculation sheet")
     p.add_argument("--csv", metavar="OUT.csv", default=None, help="write the ranked table as CSV")
     p.add_argument("--markdown", metavar="OUT.md", default=None, help="write the ranked table as Markdown")
+    p.add_argument("--plot", metavar="OUT.svg", default=None,
+                   help="draw the sheet's figures for the chosen member to OUT-beam, OUT-diagrams and "
+                        "OUT-section (.svg, .png or .pdf)")
 
 
 def load_job(path):
@@ -57,12 +60,28 @@ def finish(args, job, source) -> int:
         from ..report.sheet import write_selection_sheet
 
         write_selection_sheet(sel, args.report, units=args.units, source=source, top=args.top)
+    if getattr(args, "plot", None):
+        plots = write_plots(sel, args.plot, args.units)
     if args.json:
         emit_json(sel.to_json(args.top))
     else:
         print(ranked_table_text(sel, args.units, args.top))
         if getattr(args, "report", None):
             print(f"calculation sheet written to {args.report}")
+        if getattr(args, "plot", None):
+            print("drawings written to " + ", ".join(str(p) for p in plots))
         print()
         print(CAUTION)
     return 0 if sel.success else 1
+
+
+def write_plots(sel, path, units):
+    """The loaded beam, V/M/v diagrams and section of the chosen (else closest) member, as
+    ``--plot`` files; returns their paths."""
+    from ..report.chosen import chosen_row, member_section, member_solution
+    from ..report.diagrams import plot_job
+
+    cand = sel.chosen if sel.chosen is not None else sel.rows([0])[0]
+    section, props = member_section(cand)
+    return plot_job(member_solution(sel, chosen_row(sel)), path, units, section=section, props=props,
+                    title=cand["name"])

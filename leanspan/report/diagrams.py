@@ -280,10 +280,10 @@ def section_figure(section, props, units: str = "si", title: str = ""):
 _FORMATS = {".svg": "svg", ".png": "png", ".pdf": "pdf"}
 
 
-def plot_job(solution, path, units: str = "si", section=None, props=None, title: str = "") -> None:
+def plot_job(solution, path, units: str = "si", section=None, props=None, title: str = "") -> list:
     """Write the sheet's drawings (loaded beam, V/M/v diagrams, and the section when given)
     to ``path``: one file per drawing, ``NAME-beam.EXT``, ``NAME-diagrams.EXT`` and
-    ``NAME-section.EXT`` beside ``path`` (atomically).
+    ``NAME-section.EXT`` beside ``path`` (atomically). Returns the paths written.
 
     Raises
     ------
@@ -315,3 +315,4 @@ def plot_job(solution, path, units: str = "si", section=None, props=None, title:
             plt.close(fig)
     for target, data in blobs:
         atomic_write(target, data)
+    return [target for target, _ in blobs]
