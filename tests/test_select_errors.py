@@ -136,9 +136,7 @@ def test_job_file_untouched(tmp_path, capsys):
     assert (p.read_bytes(), (tmp_path / "cat.csv").read_bytes()) == before  # GUIDE 3: inputs never modified
 
 
-# Known gaps reported to the lead (library code): these say what the line should contain.
-@pytest.mark.xfail(strict=True, reason="reported: unknown family/material lines do not name the field "
-                                       "search.families / search.materials nor the job file")
+# The line names the field and the job file.
 @pytest.mark.parametrize("search, field", [('families = ["oak_logs"]', "search.families"),
                                            ('families = ["sawn_metric"]\nmaterials = ["C99"]', "search.materials")])
 def test_unknown_name_line_names_field(tmp_path, capsys, search, field):
@@ -146,8 +144,6 @@ def test_unknown_name_line_names_field(tmp_path, capsys, search, field):
     assert status == 2 and field in err and "job.toml" in err
 
 
-@pytest.mark.xfail(strict=True, reason="reported: negative catalogue dimension shows a numpy repr "
-                                       "(np.float64(-0.2)) in metres, not the value the user wrote")
 def test_negative_row_message_plain(tmp_path, capsys):
     p = write(tmp_path, ROW_CSV + "rectangle,75,-200,C24\n", search='catalog = "cat.csv"\nself_weight = "none"')
     status, err = run_bad(capsys, p)

@@ -18,12 +18,14 @@ Examples
 >>> get_material("S356")
 Traceback (most recent call last):
 ...
-leanspan.errors.MaterialError: unknown material 'S356'; near names: S355, S235, C35
+leanspan.errors.MaterialError: unknown material 'S356'; near names: S355, S235, S355J2H, S235JRH, S275
 """
 
 from __future__ import annotations
 
 import difflib
+import os
+import re
 import math
 from dataclasses import dataclass, fields, replace
 from functools import lru_cache
@@ -315,7 +317,14 @@ def get_material(name: str, extra=None) -> Material:
     hit = keys.get(_key(name))
     if hit is not None:
         return table[hit]
-    near = difflib.get_close_matches(_key(name), list(keys), n=3, cutoff=0.5)
+    # the same grade letters first (C99 -> C14, C16 ...), then spelling neighbours
+    letters = re.match(r"[a-z]*", _key(name)).group()
+    same = {k for k in keys if letters and re.fullmatch(rf"{letters}\d.*", k)}
+    pool = same | set(difflib.get_close_matches(_key(name), list(keys), n=3, cutoff=0.5))
+    likeness = {k: difflib.SequenceMatcher(None, _key(name), k).ratio() for k in pool}
+    prefix = {k: len(os.path.commonprefix([_key(name), k])) for k in pool}
+    order = {k: i for i, k in enumerate(keys)}  # last tie-break: the table's order
+    near = sorted(pool, key=lambda k: (k not in same, -likeness[k], -prefix[k], order[k]))[:5]
     hint = f"; near names: {', '.join(keys[k] for k in near)}" if near else \
         "; see 'leanspan materials' for the list"
     raise MaterialError(f"unknown material {name!r}{hint}")

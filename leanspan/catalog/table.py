@@ -224,6 +224,21 @@ def _expand_names(names, what, known_series, known_families):
     return out
 
 
+def check_shape_names(names, what: str = "family") -> None:
+    """Raise CatalogError for a name that is neither a shape family nor a series (nor "user").
+
+    >>> check_shape_names(["glulam", "tube"])
+    >>> check_shape_names(["oak_logs"])
+    Traceback (most recent call last):
+    ...
+    leanspan.errors.CatalogError: unknown family 'oak_logs'; expected a shape family (...) or a series (...)
+    """
+    from ..sections.families import FAMILIES
+    from .series import SERIES
+
+    _expand_names(names, what, SERIES, FAMILIES)
+
+
 def catalog_table(series=None, families=None, materials=None, user_csv=None, max_depth=None,
                   min_width=None, max_width=None, min_depth=None, builtin=None,
                   material_table=None):

@@ -243,10 +243,14 @@ class Family:
         where = where or (lambda i: f"section {i}")
         for k in self.all_keys:
             v = dims[k]
-            bad = ~np.isfinite(v) | (v < 0) | ((v == 0) & (k in self.keys))
+            # zero is allowed only for an optional size with a numeric default (a root radius);
+            # an optional size that defaults to another one (tf_top -> tf) must be positive too
+            zero_ok = k in self.optional and not isinstance(self.optional[k], str)
+            bad = ~np.isfinite(v) | (v < 0) | ((v == 0) & (not zero_ok))
             if bad.any():
                 i = int(np.flatnonzero(bad)[0])
-                raise GeometryError(f"{where(i)}: {self.name} dimension {k} = {v[i]!r}; expected a positive length")
+                raise GeometryError(f"{where(i)}: {self.name} dimension {k} = {float(v[i]):g} m "
+                                    f"({_mm(v[i])} mm); expected a positive length")
         for bad, text in self.rules(dims):
             if np.any(bad):
                 i = int(np.flatnonzero(bad)[0])

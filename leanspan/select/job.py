@@ -147,8 +147,6 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
 
     families = _names(search_t.get("families"), f"{p}search.families")
     series = _names(search_t.get("series"), f"{p}search.series")
-    if series:
-        families = (families or ()) + series
     materials = _names(search_t.get("materials"), f"{p}search.materials")
     catalog = search_t.get("catalog")
     if catalog is not None:
@@ -162,6 +160,7 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
         mat_file = Path(base_dir) / str(mat_file)
         if not mat_file.is_file():
             raise SelectionError(f"{p}search.materials_file: file {mat_file} not found")
+    _check_names(families, series, materials, mat_file, p)
     sizes = {k: parse(search_t[k], "length", f"{p}search.{k}", units) if k in search_t else None
              for k in ("max_depth", "min_depth", "max_width", "min_width")}
     for k, v in sizes.items():
@@ -206,6 +205,8 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
         if "shear_stress" in limits_t else None,
         stress_factor=_factor(limits_t.get("stress_factor"), f"{p}limits.stress_factor"),
     )
+    if series:
+        families = (families or ()) + series
     search = SearchSpec(families, materials, catalog, sizes["max_depth"], sizes["min_depth"],
                         sizes["max_width"], sizes["min_width"], objective, sw, mat_file)
     title = data["beam"].get("title") or data["beam"].get("name") or ""
@@ -218,3 +219,23 @@ def _factor(value, field):
     if isinstance(value, bool) or not isinstance(value, (int, float)):
         raise SelectionError(f"{field}: expected a number such as 0.6, got {value!r}")
     return float(value)
+
+
+def _check_names(families, series, materials, mat_file, p):
+    """Fail early, naming the field, on a series, family or material nobody knows."""
+    from ..catalog.materials import get_material, materials_table
+    from ..catalog.table import check_shape_names
+    from ..errors import LeanspanError
+
+    for field, names in (("families", families), ("series", series)):
+        try:
+            check_shape_names(names, "family" if field == "families" else "series")
+        except LeanspanError as e:
+            raise SelectionError(f"{p}search.{field}: {e}") from None
+    if materials:
+        mats = materials_table(mat_file)
+        for name in materials:
+            try:
+                get_material(name, mats)
+            except LeanspanError as e:
+                raise SelectionError(f"{p}search.materials: {e}") from None
