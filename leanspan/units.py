@@ -239,8 +239,8 @@ def display_factor(kind: str, system: str = "si") -> tuple[str, float]:
 def fmt(value: float, digits: int = 4) -> str:
     """Format a number with ``digits`` significant figures, plain where readable.
 
-    >>> fmt(1234567.0), fmt(0.000123456), fmt(12.5), fmt(0.0)
-    ('1.235e+06', '0.0001235', '12.5', '0')
+    >>> fmt(1234567.0), fmt(798727.0), fmt(0.000123456), fmt(12.5), fmt(0.0)
+    ('1.235e+06', '798700', '0.0001235', '12.5', '0')
     """
     if value is None or (isinstance(value, float) and math.isnan(value)):
         return "-"
@@ -250,8 +250,10 @@ def fmt(value: float, digits: int = 4) -> str:
         return "inf" if value > 0 else "-inf"
     mag = abs(value)
     if 1e-4 <= mag < 1e6:
-        decimals = max(0, digits - 1 - int(math.floor(math.log10(mag))))
-        text = f"{value:.{decimals}f}"
+        exp = int(math.floor(math.log10(mag)))
+        decimals = max(0, digits - 1 - exp)
+        # large values keep ``digits`` significant figures too: 798727 -> 798700
+        text = f"{value:.{decimals}f}" if exp < digits else f"{round(value, digits - 1 - exp):.0f}"
         if "." in text:
             text = text.rstrip("0").rstrip(".")
         return text
