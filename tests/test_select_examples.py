@@ -39,14 +39,16 @@ def check_contract(out):
         assert c["utilisation"][c["governing"]] == max(used)
     ranks = [c["rank"] for c in out["candidates"]]
     if out["chosen"]:
-        # passing rows first (ranks 1..n), then the nearest failures: failing rows lighter
-        # than the winner, the heaviest first
+        # passing rows first (ranks 1..n), then the nearest failures: the heaviest failing rows
+        # lighter than the winner, listed in rank order (smallest governing utilisation first)
         n = sum(c["passes"] for c in out["candidates"])
         assert ranks[:n] == list(range(1, n + 1))
         fails = out["candidates"][n:]
         assert not any(c["passes"] for c in fails)
         masses = [c["mass_per_length"] for c in fails]
-        assert masses == sorted(masses, reverse=True)
+        assert [c["rank"] for c in fails] == sorted(c["rank"] for c in fails)
+        worst = [max(u for u in c["utilisation"].values() if u is not None) for c in fails]
+        assert worst == sorted(worst)
         assert all(m < out["chosen"]["mass_per_length"] for m in masses)
         assert out["chosen"] == out["candidates"][0] and out["chosen"]["rank"] == 1 and out["chosen"]["passes"]
 

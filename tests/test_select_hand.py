@@ -107,7 +107,7 @@ def test_bending_governs_winner_and_nearest_failure(tmp_path, capsys):
     assert chosen["utilisation"]["deflection"] is None  # no deflection combination given
     # mass: area x C24 mean density 420 kg/m^3 (EN 338, from memory)
     assert chosen["mass_per_length"] == pytest.approx(0.075 * 0.275 * 420.0, rel=1e-9)
-    # the listed failures: the heaviest lighter one first, 75x250, failing in bending at 1.024
+    # the listed failures, closest to passing first: 75x250, failing in bending at 1.024
     fails = [c for c in out["candidates"] if not c["passes"]]
     assert fails[0]["name"] == "R75x250"
     assert fails[0]["governing"] == "bending"

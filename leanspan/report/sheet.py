@@ -377,8 +377,8 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
         rcls.append("chosen" if (sel.success and c["rank"] == 1) else ("fails" if not c["passes"] else ""))
     rtable = table(labels, cells, cls="ranked", row_classes=rcls)
     rnote = ("<p class=\"small\">Passing candidates in order of the objective (least "
-             f"{esc(job.search.objective)}), then the nearest failures: lighter sections that fail, "
-             "marked NO. Utilisations are demand / limit.</p>")
+             f"{esc(job.search.objective)}), then the nearest failures: the heaviest lighter "
+             "sections that fail, marked NO, closest to passing first (by rank). Utilisations are demand / limit.</p>")
     parts.append(section("Ranked candidates", rtable + rnote, anchor="candidates"))
 
     assumptions = [

@@ -62,8 +62,8 @@ def ranked_table_text(sel, units: str = "si", top: int = 10) -> str:
 
     out = _summary(sel, units) + ["", line(labels), line(["-" * w for w in widths])]
     out += [line(r) for r in rows]
-    out.append("Utilisation = demand / limit; rows marked NO fail (lighter sections that fail are "
-               "listed after the passing ones).")
+    out.append("Utilisation = demand / limit; rows marked NO fail (the heaviest lighter sections "
+               "that fail, closest to passing first).")
     return "\n".join(out)
 
 

@@ -63,7 +63,8 @@ class Selection:
         """Rank positions for the table: ``top`` passing plus the nearest failures.
 
         With a winner the nearest failures are the heaviest failing candidates lighter
-        (or, for objective depth, shallower) than it; with none, the ``top`` closest.
+        (or, for objective depth, shallower) than it, in rank order; with none, the ``top``
+        closest.
         """
         passes = self.result.passes[self.order]
         n_pass = int(passes.sum())
@@ -74,7 +75,8 @@ class Selection:
         fail_pos = np.flatnonzero(~passes)
         lighter = fail_pos[value[fail_pos] < value[0]]
         lighter = lighter[np.argsort(-value[lighter], kind="stable")][:failures]
-        return list(range(min(top, n_pass))) + [int(p) for p in lighter]
+        # listed in rank order (closest to passing first), so the rank column reads downwards
+        return list(range(min(top, n_pass))) + [int(p) for p in np.sort(lighter)]
 
     def shown(self, top: int = 10, failures: int = 3) -> list:
         return self.rows(self.shown_positions(top, failures))
