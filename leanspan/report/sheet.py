@@ -320,7 +320,8 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
                    f'{esc(_util(cand["utilisation"][cand["governing"]]))}</span> of its limit. '
                    f'{esc(sel.message)}.</p>')
     else:
-        verdict = (f'<p class="verdict fail"><b>No candidate passes.</b> {esc(sel.message)}. The sheet '
+        detail = sel.message.removeprefix("no candidate passes").lstrip()
+        verdict = (f'<p class="verdict fail"><b>No candidate passes</b> {esc(detail)}. The sheet '
                    f'shows the closest candidate, {esc(cand["name"])}, which FAILS.</p>')
     parts = [head + verdict, section("Job", _beam_tables(job.model, units, show_ei=False)
                                      + _search_table(sel, units), anchor="job")]
