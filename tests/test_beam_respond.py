@@ -30,6 +30,23 @@ def test_batched_springs_match_individual_solves():
             assert np.allclose(a, b, rtol=0, atol=1e-10 * np.abs(b).max())
 
 
+def test_batched_several_springs_over_a_wide_stiffness_range():
+    """The batched (low-rank update) solve against one direct solve per candidate, with a
+    translational + rotational spring and a second translational spring, EI over five decades."""
+    def model(EI):
+        return BeamModel(10.0, (Support(0.0, "spring", k=1e5, kr=2e6), Support(5.0, "pin"),
+                                Support(8.0, "spring", k=4e4)),
+                         (Stiffness(0.0, 10.0, EI),),
+                         (DistributedLoad("dead", 1e3, 3e3, 0.0, 10.0), PointLoad("imposed", 4e3, 9.5)))
+    EIs = np.geomspace(1e4, 1e9, 7)
+    r = respond(model(1e6), EI=EIs)
+    for k, ei in enumerate(EIs):
+        one = respond(model(ei))
+        for key in ("M", "V", "v", "reactions"):
+            a, b = getattr(r, key)[k], getattr(one, key)[0]
+            assert np.allclose(a, b, rtol=0, atol=1e-10 * np.abs(b).max())
+
+
 def test_no_springs_scale_with_one_over_EI():
     m = BeamModel(6.0, (Support(0.0, "fixed"), Support(6.0, "roller")), (Stiffness(0.0, 6.0, 1e6),),
                   (DistributedLoad("d", 1e3, 3e3, 1.0, 5.0),))

@@ -368,6 +368,34 @@ def _refined_solve(A, b, steps: int = 2):
     return x
 
 
+def _spring_batch_solve(K, springs, F, ratio):
+    """Solve ``(r K + diag(springs)) d = F`` for every stiffness ratio ``r`` in ``ratio``.
+
+    Only the few spring terms differ from a reference system ``A0 = r0 K + S`` (``r0`` the
+    geometric mean of the ratios): ``r K + S = (r / r0) (A0 + c S)`` with ``c = r0 / r - 1``,
+    a low-rank change, so the Woodbury identity gives every candidate from one refined solve
+    of ``A0`` and an m x m solve per candidate (m = number of spring terms):
+    ``(A0 + E C E^T)^-1 F = u0 - G C (I + H C)^-1 E^T u0`` with ``u0 = A0^-1 F``,
+    ``G = A0^-1 E`` and ``H = E^T G``.
+
+    Returns (R, n, U) displacements.
+    """
+    sp = np.flatnonzero(springs)
+    m, n, U = sp.size, K.shape[0], F.shape[1]
+    r0 = float(np.exp(np.mean(np.log(ratio))))
+    A0 = r0 * K + np.diag(springs).astype(K.dtype)
+    E = np.zeros((n, m))
+    E[sp, np.arange(m)] = 1.0
+    sol = _refined_solve(A0[None], np.concatenate([F, E], axis=1)[None])[0]
+    u0, G = sol[:, :U], sol[:, U:]
+    H = G[sp]  # (m, m) flexibility of the reference system at the spring terms
+    C = (r0 / ratio - 1.0)[:, None] * springs[sp][None, :]  # (R, m): diagonal of c S
+    Msys = np.eye(m)[None] + H[None] * C[:, None, :]  # I + H diag(C)
+    y = np.linalg.solve(Msys, np.broadcast_to(u0[sp], (ratio.size, m, U)))
+    corr = np.einsum("nm,rmu->rnu", G, C[:, :, None] * y)
+    return (r0 / ratio)[:, None, None] * (u0[None] - corr)
+
+
 def respond(model: BeamModel, EI=None, unit_self_weight: bool = True, self_weight_case: str | None = None,
             ) -> Response:
     """Solve every unit case exactly, for the model's stiffness or for K candidates at once.
@@ -439,14 +467,11 @@ def respond(model: BeamModel, EI=None, unit_self_weight: bool = True, self_weigh
     batched = ratio is not None and bool(springs)
     Sff = np.diag(S[free]).astype(LD)
     if batched:
-        A = ratio.astype(LD)[:, None, None] * Kff[None] + Sff[None]
-        b = np.broadcast_to(F[free], (ratio.size,) + F[free].shape)
+        d_free = _spring_batch_solve(Kff, S[free], F[free], ratio)
         kfac = ratio
     else:
-        A = (Kff + Sff)[None]
-        b = F[free][None]
+        d_free = _refined_solve((Kff + Sff)[None], F[free][None])
         kfac = np.ones(1)
-    d_free = _refined_solve(A, b)
     nk = d_free.shape[0]
     d = np.zeros((nk, mesh.ndof, len(names)))
     d[:, free] = d_free
