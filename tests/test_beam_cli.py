@@ -64,9 +64,9 @@ def test_json_contract(capsys):
 def test_plot_writes_files(tmp_path):
     out = tmp_path / "beam.svg"
     assert main(["beam", str(EXAMPLES / "beam-gerber.toml"), "--plot", str(out)]) == 0
-    names = sorted(p.name for p in tmp_path.iterdir())
-    assert names == ["beam-beam.svg", "beam-diagrams.svg"]  # the sheet's two beam drawings
-    assert (tmp_path / "beam-diagrams.svg").read_text().lstrip().startswith("<?xml")
+    # GUIDE section 4: --plot OUT.svg writes OUT.svg (the loaded beam above its V, M, v diagrams)
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["beam.svg"]
+    assert out.read_text().lstrip().startswith("<?xml")
 
 
 def test_us_units(capsys):

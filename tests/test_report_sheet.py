@@ -264,8 +264,8 @@ def test_plot_files(tmp_path, demo):
     secn, props = member_section(sel.chosen)
     plot_job(member_solution(sel), tmp_path / "demo.svg", section=secn, props=props)
     names = sorted(p.name for p in tmp_path.iterdir())
-    assert names == ["demo-beam.svg", "demo-diagrams.svg", "demo-section.svg"]
-    assert "<svg" in (tmp_path / "demo-diagrams.svg").read_text(encoding="utf-8")
+    assert names == ["demo-section.svg", "demo.svg"]  # GUIDE section 4: the beam drawing at OUT itself
+    assert "<svg" in (tmp_path / "demo.svg").read_text(encoding="utf-8")
     with pytest.raises(InputError, match=".svg, .png or .pdf"):
         plot_job(member_solution(sel), tmp_path / "demo.txt")
 

@@ -130,7 +130,7 @@ def test_demo_runs(capsys):
 
 
 def test_select_plot_files(tmp_path, capsys):
-    """--plot writes the sheet's three drawings of the chosen member, readable by others (0644 under
+    """--plot writes the chosen member's beam drawing at OUT and its section beside it, readable by others (0644 under
     the usual umask 022: POSIX open(2) creates files with mode 0666 & ~umask)."""
     import os
 
@@ -141,7 +141,7 @@ def test_select_plot_files(tmp_path, capsys):
         os.umask(old)
     out = capsys.readouterr().out
     names = sorted(p.name for p in tmp_path.iterdir())
-    assert status == 0 and names == ["joist-beam.svg", "joist-diagrams.svg", "joist-section.svg"]
+    assert status == 0 and names == ["joist-section.svg", "joist.svg"]
     assert "drawings written to" in out
     for p in tmp_path.iterdir():
         assert p.read_text(encoding="utf-8").lstrip().startswith(("<?xml", "<svg"))

@@ -20,8 +20,8 @@ def add_parser(subparsers):
                               description="Solve a beam job (TOML) exactly for every load case and "
                                           "combination, with the envelope and deflection checks.")
     p.add_argument("file", help="beam job file (TOML)")
-    p.add_argument("--plot", metavar="OUT.svg", help="draw the sheet's loaded beam and V, M, v diagrams to "
-                                                      "OUT-beam and OUT-diagrams (.svg, .png or .pdf)")
+    p.add_argument("--plot", metavar="OUT.svg", help="draw the loaded beam above its V, M, v diagrams "
+                                                      "(.svg, .png or .pdf)")
     p.add_argument("--report", metavar="SHEET.html", help="write the calculation sheet (one self-contained HTML page)")
     add_common(p)
     p.set_defaults(run=run)

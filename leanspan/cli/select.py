@@ -23,8 +23,8 @@ def add_options(p):
     p.add_argument("--csv", metavar="OUT.csv", default=None, help="write the ranked table as CSV")
     p.add_argument("--markdown", metavar="OUT.md", default=None, help="write the ranked table as Markdown")
     p.add_argument("--plot", metavar="OUT.svg", default=None,
-                   help="draw the sheet's figures for the chosen member to OUT-beam, OUT-diagrams and "
-                        "OUT-section (.svg, .png or .pdf)")
+                   help="draw the chosen member's loaded beam and V, M, v diagrams to OUT and its "
+                        "section to OUT-section (.svg, .png or .pdf)")
 
 
 def load_job(path):

@@ -18,8 +18,8 @@ import numpy as np
 from ..errors import InputError
 from ..units import display_factor, fmt
 
-__all__ = ["governing", "loaded_beam_figure", "diagram_figure", "section_figure", "figure_svg",
-           "plot_job", "CURVE_KEYS"]
+__all__ = ["governing", "loaded_beam_figure", "diagram_figure", "beam_and_diagrams_figure",
+           "section_figure", "figure_svg", "plot_job", "CURVE_KEYS"]
 
 # field -> (display kind, axis label)
 CURVE_KEYS = {"V": ("force", "shear V"), "M": ("moment", "moment M"), "v": ("length", "deflection v")}
@@ -100,13 +100,19 @@ def _draw_support(ax, s, x, h, sx):
         ax.plot([x - 0.4 * h, x + 0.4 * h], [-1.3 * h, -1.3 * h], color="k", lw=1.2)
 
 
-def loaded_beam_figure(model, units: str = "si", title: str = ""):
+def loaded_beam_height(model) -> float:
+    """Height in inches of the loaded-beam drawing: a lane per loaded case (and self-weight)."""
+    lanes = {ld.case for ld in model.loads} | ({model.self_weight} if model.self_weight else set())
+    return 1.3 + 0.62 * max(1, len(lanes))
+
+
+def loaded_beam_figure(model, units: str = "si", title: str = "", fig=None):
     """A matplotlib figure of the beam: supports, hinges, and each load case on its own lane.
 
     Distributed loads are drawn to scale along x with a height proportional to the
     intensity (one scale per lane); point loads are arrows; every load is labelled
     with its magnitude in display units. A dimension chain under the beam gives the
-    spans and overhangs.
+    spans and overhangs. ``fig``: draw into this (sub)figure instead of a new one.
     """
     plt = _mpl()
     sl, sx = display_factor("span", units)
@@ -119,8 +125,9 @@ def loaded_beam_figure(model, units: str = "si", title: str = ""):
     sw = model.self_weight
     lanes = loaded + ([sw] if sw and sw not in loaded else [])
     lane_h, gap = 1.0, 0.55
-    fig_h = 1.3 + 0.62 * max(1, len(lanes))
-    fig, ax = plt.subplots(figsize=(7.2, fig_h))
+    if fig is None:
+        fig = plt.figure(figsize=(7.2, loaded_beam_height(model)))
+    ax = fig.subplots()
     h = 0.42  # support symbol size in y units
     ax.set_xlim(-0.06 * L, 1.06 * L)
     ax.plot([0, L], [0, 0], color="k", lw=3.2, solid_capstyle="butt", zorder=2)
@@ -193,18 +200,24 @@ def _annotate(ax, x, y, text, colour, below=False, left=False):
                 bbox=dict(fc="w", ec="none", alpha=0.8, pad=0.4), zorder=7)
 
 
-def diagram_figure(solution, units: str = "si", picks: dict | None = None):
+DIAGRAM_HEIGHT = 5.6  # inches, the three V, M, v panels
+
+
+def diagram_figure(solution, units: str = "si", picks: dict | None = None, fig=None):
     """V, M and v along the beam: the envelope of every combination as a grey band and the
     governing combination (see :func:`governing`) as a line, with its extremes annotated.
 
     Sagging moment is drawn below the axis (on the tension side); deflection upward-positive.
+    ``fig``: draw into this (sub)figure of a constrained-layout figure instead of a new one.
     """
     plt = _mpl()
     picks = picks or governing(solution)
     sl, sx = display_factor("span", units)
     model = solution.model
     env = solution.results["envelope"]
-    fig, axes = plt.subplots(3, 1, figsize=(7.2, 5.6), sharex=True)
+    if fig is None:
+        fig = plt.figure(figsize=(7.2, DIAGRAM_HEIGHT), layout="constrained")
+    axes = fig.subplots(3, 1, sharex=True)
     names = []
     for key in ("V", "M", "v"):
         if picks.get(key) not in names:
@@ -252,14 +265,13 @@ def diagram_figure(solution, units: str = "si", picks: dict | None = None):
     axes[1].invert_yaxis()
     axes[-1].set_xlabel(f"x [{sl}]")
     axes[-1].set_xlim(-0.02 * model.length / sx, 1.02 * model.length / sx)
-    fig.tight_layout()
     # one legend for the three panels, above them, where it hides no curve or label
     legend = {}
     for ax in axes:
         for handle, text in zip(*ax.get_legend_handles_labels()):
             legend.setdefault(text, handle)
-    fig.legend(legend.values(), legend.keys(), loc="lower center", bbox_to_anchor=(0.5, 1.0),
-               ncol=min(3, len(legend)), fontsize=7, frameon=False)
+    fig.legend(legend.values(), legend.keys(), loc="outside upper center", ncol=min(3, len(legend)),
+               fontsize=7, frameon=False)
     return fig
 
 
@@ -280,10 +292,21 @@ def section_figure(section, props, units: str = "si", title: str = ""):
 _FORMATS = {".svg": "svg", ".png": "png", ".pdf": "pdf"}
 
 
+def beam_and_diagrams_figure(solution, units: str = "si", title: str = ""):
+    """The loaded beam above its V, M and v diagrams, in one figure."""
+    plt = _mpl()
+    top = loaded_beam_height(solution.model)
+    fig = plt.figure(figsize=(7.2, top + DIAGRAM_HEIGHT), layout="constrained")
+    beam_part, diagram_part = fig.subfigures(2, 1, height_ratios=[top, DIAGRAM_HEIGHT])
+    loaded_beam_figure(solution.model, units, title, fig=beam_part)
+    diagram_figure(solution, units, fig=diagram_part)
+    return fig
+
+
 def plot_job(solution, path, units: str = "si", section=None, props=None, title: str = "") -> list:
-    """Write the sheet's drawings (loaded beam, V/M/v diagrams, and the section when given)
-    to ``path``: one file per drawing, ``NAME-beam.EXT``, ``NAME-diagrams.EXT`` and
-    ``NAME-section.EXT`` beside ``path`` (atomically). Returns the paths written.
+    """Write the sheet's drawings to ``path`` (atomically): the loaded beam above its V, M
+    and v diagrams at ``path`` itself, and the section, when given, at ``NAME-section.EXT``
+    beside it. Returns the paths written.
 
     Raises
     ------
@@ -299,17 +322,17 @@ def plot_job(solution, path, units: str = "si", section=None, props=None, title:
     if not (path.parent if str(path.parent) else Path(".")).is_dir():
         raise InputError(f"--plot {path}: folder {path.parent} does not exist")
     plt = _mpl()
-    figs = [("beam", loaded_beam_figure(solution.model, units, title)),
-            ("diagrams", diagram_figure(solution, units))]
+    figs = [(path, beam_and_diagrams_figure(solution, units, title))]
     if section is not None:
-        figs.append(("section", section_figure(section, props, units, title)))
+        figs.append((path.with_name(f"{path.stem}-section{path.suffix}"),
+                     section_figure(section, props, units, title)))
     blobs = []
     try:
         for tag, fig in figs:
             buf = io.BytesIO()
             fig.savefig(buf, format=kind, bbox_inches="tight", dpi=150,
                         metadata={"Date": None} if kind == "svg" else None)
-            blobs.append((path.with_name(f"{path.stem}-{tag}{path.suffix}"), buf.getvalue()))
+            blobs.append((tag, buf.getvalue()))
     finally:
         for _, fig in figs:
             plt.close(fig)
