@@ -30,7 +30,6 @@ KEYS = ("A yc zc Iz Iy Iyz I1 I2 theta Sz_top Sz_bot Sy_left Sy_right Zz Zy rz r
         "depth width shear_factor").split()
 
 _CHUNK = 4096  # sections per chunk: keeps the (sections x levels x edges) work in cache
-_GOLDEN_STEPS = 14
 
 
 def elastic_properties(e: Edges) -> dict[str, np.ndarray]:
@@ -64,45 +63,100 @@ def elastic_properties(e: Edges) -> dict[str, np.ndarray]:
     }
 
 
+def _largest_cubic_root(alpha, c):
+    """Largest real root w of ``4 w^3 - 3 alpha w^2 + c = 0``, elementwise.
+
+    With w = alpha/4 + t the cubic becomes t^3 + p t + q = 0, p = -3 alpha^2/16,
+    q = (c - alpha^3/8)/4. It has one real root when |q| > |alpha|^3/32 (Cardano,
+    the larger cube root taken first so nothing cancels), else three
+    (trigonometric form; rare here, so computed only where needed).
+    """
+    q = (c - alpha * alpha * alpha / 8.0) / 4.0
+    half_q, half = np.abs(q) / 2.0, np.abs(alpha) ** 3 / 64.0  # |q|/2 and sqrt(-p^3/27)
+    big = np.cbrt(half_q + np.sqrt(np.maximum((half_q - half) * (half_q + half), 0.0)))
+    big = np.where(q > 0.0, -big, big)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        # Cardano's two cube roots multiply to -p/3 = alpha^2/16
+        t = big + np.where(big != 0.0, alpha * alpha / 16.0 / big, 0.0)
+    three = half_q < half
+    if three.any():
+        m = np.clip(-q[three] / (2.0 * half[three]), -1.0, 1.0)
+        t[three] = np.abs(alpha[three]) / 2.0 * np.cos(np.arccos(m) / 3.0)
+    return alpha / 4.0 + t
+
+
+def _snapped_levels(u0):
+    """Sort the vertex levels of each section, merging levels closer than 1e-9 of the depth.
+
+    Returns ``(sort, levels, u0)``: a function that sorts an (N, V) array the same
+    way (row by row, through one flat index: faster than ``take_along_axis``), the
+    sorted levels and the levels in edge order. Each run of levels with gaps up to
+    the tolerance takes the level of its lowest member, so an edge tilted by less
+    than that becomes exactly horizontal and every band is either empty or thicker
+    than the tolerance.
+    """
+    n, v = u0.shape
+    rows = v * np.arange(n)[:, None]
+    flat = (np.argsort(u0, axis=1) + rows).ravel()
+    sort = lambda a: a.ravel().take(flat).reshape(n, v)  # noqa: E731
+    s = sort(u0)
+    gap = np.diff(s, axis=1, prepend=-np.inf)
+    close = gap <= 1e-9 * (s[:, -1] - s[:, 0])[:, None]
+    if (close & (gap > 0.0)).any():  # else the levels are already merged (or distinct)
+        run_start = np.maximum.accumulate(np.where(close, 0, np.arange(v)), axis=1)
+        s = s.ravel().take(run_start + rows)
+        u0 = np.empty(n * v)
+        u0[flat] = s.ravel()
+        u0 = u0.reshape(n, v)
+    return sort, s, u0
+
+
 class _WidthProfile:
     """Exact width b(u), area and first moment above level u, as piecewise polynomials.
 
     Each non-horizontal edge adds a linear term ±z(u) to the width over its own
     range of u (u = y - yc, measured from the centroid). Sorting the edge ends per
-    section and taking cumulative sums gives b = alpha + beta u on every band
-    between consecutive levels; integrating band by band from the top gives the
-    area and first moment above each band start. Plastic axes and the shear factor
-    then follow without iteration over the edges.
+    section and taking cumulative sums of the width's jumps and slope changes at
+    the vertices gives, on every band between consecutive levels, the width at the
+    band's foot and its slope (also held as b = alpha + beta u); integrating band by
+    band from the top gives the area and first moment above each band start.
+    Plastic axes and the shear factor then follow without iteration over the edges.
+
+    Levels closer than 1e-9 of the depth are merged first (:func:`_snapped_levels`),
+    so round-off in the vertex coordinates leaves no sliver bands. The widths are
+    summed from vertex z values, never from slope x level products, so the huge
+    slopes of nearly horizontal edges just above that tolerance cancel exactly.
     """
 
     def __init__(self, e: Edges, yc):
-        z0, y0, z1, y1 = e
-        u0, u1 = y0 - yc[:, None], y1 - yc[:, None]
-        du = u1 - u0
-        # Edges flatter than this are horizontal: round-off in the vertex coordinates
-        # would otherwise give them huge slopes that spoil the cumulative sums.
-        sloped = np.abs(du) > 1e-9 * (u0.max(axis=1) - u0.min(axis=1))[:, None]
-        with np.errstate(divide="ignore", invalid="ignore"):
-            slope = np.where(sloped, (z1 - z0) / np.where(sloped, du, 1.0), 0.0)
-        # edge k adds sign(du) * (a + b u) to the width between its ends; at each
-        # vertex the width coefficients change by (a, b) of the edge leaving it
-        # minus (a, b) of the edge arriving at it (zero for horizontal edges)
-        a = np.where(sloped, z0 - slope * u0, 0.0)
-        d_alpha = a - a[:, e.prev]
-        d_beta = slope - slope[:, e.prev]
-        order = np.argsort(u0, axis=1)
-        self.u = np.take_along_axis(u0, order, axis=1)
-        self.alpha = np.cumsum(np.take_along_axis(d_alpha, order, axis=1), axis=1)[:, :-1]
-        self.beta = np.cumsum(np.take_along_axis(d_beta, order, axis=1), axis=1)[:, :-1]
+        z0, y0, z1, _ = e
+        sort, self.u, u0 = _snapped_levels(y0 - yc[:, None])
+        succ = np.empty_like(e.prev)
+        succ[e.prev] = np.arange(e.prev.size)
+        du = u0[:, succ] - u0  # each edge ends where its successor starts
+        sloped = du != 0.0
+        slope = np.divide(z1 - z0, du, out=np.zeros_like(du), where=sloped)
+        # edge k adds sign(du) z_k(u) to the width between its ends. Sweeping up through
+        # the vertices, the width jumps by z of the sloped edge leaving a vertex minus z
+        # of the sloped edge arriving there (the same point: no slopes involved), and the
+        # width slope changes by the leaving edge's slope minus the arriving one's.
+        jump = z0 * (sloped.astype(float) - sloped[:, e.prev])
+        self.beta = np.cumsum(sort(slope - slope[:, e.prev])[:, :-1], axis=1)
         lo, hi = self.u[:, :-1], self.u[:, 1:]
-        band_area = self.alpha * (hi - lo) + self.beta * (hi * hi - lo * lo) / 2.0
-        band_first = self.alpha * (hi * hi - lo * lo) / 2.0 + self.beta * (hi * hi * hi - lo * lo * lo) / 3.0
+        h = hi - lo
+        rise = self.beta * h  # width gained across each band
+        self.width_lo = w = np.cumsum(sort(jump)[:, :-1] + np.concatenate([np.zeros_like(h[:, :1]),
+                                                                            rise[:, :-1]], axis=1), axis=1)
+        self.alpha = w - self.beta * lo  # b = alpha + beta u in the band
+        band_area = h * (w + rise / 2.0)
+        band_first = lo * band_area + h * h * (w / 2.0 + self.beta * h / 3.0)
         # area / first moment above the top of each band (reverse cumulative sums)
         rev = lambda a: np.concatenate([np.cumsum(a[:, ::-1], axis=1)[:, ::-1][:, 1:],  # noqa: E731
                                         np.zeros((a.shape[0], 1))], axis=1)
         self.area_top = rev(band_area)
         self.first_top = rev(band_first)
         self.area_start = self.area_top + band_area
+        self.first_start = self.first_top + band_first
 
     def _in_band(self, band, c):
         """Width, area and first moment above level c, for c inside band ``band`` (one per row)."""
@@ -133,44 +187,37 @@ class _WidthProfile:
         return Z, c
 
     def shear_peak(self, depth):
-        """max over u of Q(u) / b(u): band ends and the centroid, then golden sections."""
+        """max over u of Q(u) / b(u), exact: every band's ends and its interior maximum.
+
+        In a band Q(u) = k - alpha u^2/2 - beta u^3/3 and Q'(u) = -u b(u). As a
+        function of the width w = alpha + beta u, d(Q/w)/dw = -h(w) / (6 beta^2 w^2)
+        with h(w) = 4 w^3 - 3 alpha w^2 + 6 beta^2 k - alpha^3, which rises wherever
+        w > max(0, alpha/2). So Q/b has at most one interior maximum, at the largest
+        root of h; there s = w - alpha solves (2/3) s^3 + (3/2) alpha s^2 + alpha^2 s
+        = -beta^2 k, which gives u = s/beta without dividing by a small beta.
+        """
         lo, hi = self.u[:, :-1], self.u[:, 1:]
-        live = (hi - lo) > 1e-12 * depth[:, None]
-        tiny = 1e-9 * depth[:, None]
+        live = np.flatnonzero(hi > lo)  # merged levels leave empty bands
+        lo, hi, w_lo, b, q_lo, q_hi = (np.ravel(x).take(live) for x in (lo, hi, self.width_lo, self.beta,
+                                                                      self.first_start, self.first_top))
+        a = w_lo - b * lo
+        k = q_hi + a * hi * hi / 2.0 + b * hi * hi * hi / 3.0
+        s = _largest_cubic_root(a, 6.0 * b * b * k - a * a * a) - a
+        denom = a * a + 1.5 * a * s + (2.0 / 3.0) * s * s  # > 0 unless a = s = 0
+        with np.errstate(divide="ignore", invalid="ignore"):
+            v = np.clip(np.where(denom > 0.0, -b * k / denom, lo), lo, hi) - lo  # from the band's foot
+        tiny = 1e-9 * depth[live // self.beta.shape[1]]
 
-        def ratio_at(c, a, b, area_top, first_top, top):
-            width = a + b * c
-            first = first_top + a * (top * top - c * c) / 2.0 + b * (top * top * top - c * c * c) / 3.0
-            q = first  # about the centroid (u = 0): Q = ∫_above u dA
-            with np.errstate(divide="ignore", invalid="ignore"):
-                return np.where(width > tiny if np.ndim(width) == 2 else width > tiny[:, 0], q / width, 0.0)
+        def ratio(q, width):
+            return np.divide(q, width, out=np.zeros_like(q), where=width > tiny)
 
-        args = (self.alpha, self.beta, self.area_top, self.first_top, hi)
-        # in each band Q is largest at the point nearest the centroid
-        g = np.where(live, ratio_at(np.clip(0.0, lo, hi), *args), -np.inf)
-        best = np.argmax(g, axis=1)
-        peak = g[np.arange(g.shape[0]), best]
-        inv_phi = (np.sqrt(5.0) - 1.0) / 2.0
-        nb = g.shape[1]
-        for shift in (-1, 0, 1):
-            band = np.clip(best + shift, 0, nb - 1)
-            take = lambda arr: np.take_along_axis(arr, band[:, None], axis=1)[:, 0]  # noqa: E731
-            a_, b_, at_, ft_, top_ = (take(x) for x in args)
-            x_lo, x_hi = take(lo), top_
-            ok = take(live)
-            f = lambda c: ratio_at(c, a_, b_, at_, ft_, top_)  # noqa: E731
-            x1, x2 = x_hi - inv_phi * (x_hi - x_lo), x_lo + inv_phi * (x_hi - x_lo)
-            f1, f2 = f(x1), f(x2)
-            for _ in range(_GOLDEN_STEPS):
-                left = f1 >= f2
-                x_lo, x_hi = np.where(left, x_lo, x1), np.where(left, x2, x_hi)
-                x1n = np.where(left, x_hi - inv_phi * (x_hi - x_lo), x2)
-                x2n = np.where(left, x1, x_lo + inv_phi * (x_hi - x_lo))
-                fn = f(np.where(left, x1n, x2n))
-                f1, f2 = np.where(left, fn, f2), np.where(left, f1, fn)
-                x1, x2 = x1n, x2n
-            peak = np.where(ok, np.maximum(peak, np.maximum(f1, f2)), peak)
-        return peak
+        # widths and Q measured from the band's foot: no large alpha in thin steep bands
+        q_v = q_lo - (lo * (w_lo * v + b * v * v / 2.0) + v * v * (w_lo / 2.0 + b * v / 3.0))
+        best = np.maximum(ratio(q_lo, w_lo), ratio(q_hi, w_lo + b * (hi - lo)))
+        best = np.maximum(best, ratio(q_v, w_lo + b * v))
+        peak = np.zeros(self.beta.size)
+        peak[live] = best
+        return peak.reshape(self.beta.shape).max(axis=1)
 
 
 def _properties_chunk(e: Edges) -> dict[str, np.ndarray]:
