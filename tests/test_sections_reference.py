@@ -104,8 +104,8 @@ def test_triangle_shear_peak_at_mid_height():
     s = Section.from_polygons([triangle(b, h)])
     p = s.properties()
     A = b * h / 2
-    # the peak lies inside a band, where the library searches by golden sections (~1e-8)
-    assert p["shear_factor"] * A == pytest.approx(1.5, rel=1e-6)
+    # the peak lies inside a band, where the library solves for it in closed form
+    assert p["shear_factor"] * A == pytest.approx(1.5, rel=1e-12)
     # the profile itself, from the library's simple clipping path: peak at h/2
     e = s.edges()
     levels = np.linspace(0.0, h, 601)[1:-1]
@@ -452,6 +452,19 @@ def test_unequal_angle_theta_matches_mohr_circle():
     assert I_at(th) == pytest.approx(p["I1"], rel=1e-12)
     assert I_at(th + math.pi / 2) == pytest.approx(p["I2"], rel=1e-12)
     assert all(I_at(a) <= p["I1"] * (1 + 1e-12) for a in np.linspace(0, math.pi, 181))
+
+
+@pytest.mark.parametrize("family, dims, theta", [
+    ("rectangle", dict(b=0.3, d=0.1), 90.0),   # wide: I1 about the vertical axis, bd^3/12 < db^3/12
+    ("rectangle", dict(b=0.1, d=0.3), 0.0),    # deep: I1 about the horizontal axis
+    ("circle", dict(d=0.1), 0.0),              # Iz = Iy: every axis is principal; reported as 0
+    ("box", dict(b=0.12, d=0.12, t=0.01), 0.0),  # square: Iz = Iy likewise
+])
+def test_theta_range_for_symmetric_sections(family, dims, theta):
+    """theta lies in (-90, 90] (GUIDE section 3 convention; Mohr's circle gives it modulo 180)."""
+    p = fam(family, **dims)
+    assert p["theta"] == pytest.approx(theta, abs=1e-9)
+    assert -90.0 < p["theta"] <= 90.0
 
 
 # --------------------------------------------------------- built-up: parallel-axis theorem

@@ -49,12 +49,15 @@ def elastic_properties(e: Edges) -> dict[str, np.ndarray]:
     Iyz = np.where(np.abs(Iyz) < 1e-12 * (Iz + Iy), 0.0, Iyz)
     mean = (Iz + Iy) / 2.0
     radius = np.hypot((Iz - Iy) / 2.0, Iyz)
+    # for theta: equal Iz and Iy (a circle, a square) leave the axes free: say 0; "+ 0.0"
+    # turns -0.0 into +0.0 so a wide section gets +90, keeping theta in (-90, 90]
+    spread = np.where(np.abs(Iz - Iy) < 1e-12 * (Iz + Iy), 0.0, Iz - Iy)
     yc, zc = oy + dy, oz + dz
     return {
         "A": A, "yc": yc, "zc": zc, "Iz": Iz, "Iy": Iy, "Iyz": Iyz,
         "I1": mean + radius, "I2": mean - radius,
         # angle from the z-axis to the I1 axis, counter-clockwise
-        "theta": np.degrees(0.5 * np.arctan2(-2.0 * Iyz, Iz - Iy)) + 0.0,
+        "theta": np.degrees(0.5 * np.arctan2(-2.0 * Iyz + 0.0, spread)) + 0.0,
         "Sz_top": Iz / (ymax - yc), "Sz_bot": Iz / (yc - ymin),
         "Sy_left": Iy / (zc - zmin), "Sy_right": Iy / (zmax - zc),
         "rz": np.sqrt(Iz / A), "ry": np.sqrt(Iy / A),
