@@ -121,3 +121,28 @@ def test_beam_report_is_written(tmp_path, capsys):
 
     assert "licensed" in text.replace("\n", " ")
     assert not re.search(r"""(src|href)\s*=\s*["']?https?:""", text)  # no network requests
+
+
+def test_torsion_uses_the_gross_section(tmp_path, capsys):
+    """Bolt holes that cut the flanges into strips are ignored for J, Cw and the shear centre
+    (common practice: torsion and warping constants are gross-section values)."""
+    from pathlib import Path
+
+    src = Path(__file__).resolve().parents[1] / "data" / "examples" / "section-bolted-girder.toml"
+    text = src.read_text()
+    no_holes = write(tmp_path, text.split("[[hole]]")[0], "gross.toml")
+    status, out, _ = run_cli(capsys, "section", str(src), "--torsion", "--json")
+    holed = json.loads(out)
+    status2, out2, _ = run_cli(capsys, "section", no_holes, "--torsion", "--json")
+    gross = json.loads(out2)
+    assert status == status2 == 0
+    for key in ("J", "Cw", "ys", "zs"):
+        assert holed[key] == pytest.approx(gross[key], rel=1e-12, abs=1e-12)
+    assert holed["A"] < gross["A"]  # bending properties keep the holes
+    # shear centre of a mono-symmetric I (thin-walled theory, e.g. Timoshenko & Gere, Theory of
+    # elastic stability): e = h I_top / (I_top + I_bot) from the bottom flange, I of each flange
+    # about the web axis; top = 200x16 flange (centre y 492) + 240x12 cover plate (centre 506)
+    i_f, i_p, i_b = 16 * 200**3 / 12, 12 * 240**3 / 12, 20 * 260**3 / 12
+    y_top = (i_f * 492 + i_p * 506) / (i_f + i_p)
+    ys = 10 + (y_top - 10) * (i_f + i_p) / (i_f + i_p + i_b)
+    assert holed["ys"] * 1000 == pytest.approx(ys, rel=0.02)  # the web and fillets shift it slightly

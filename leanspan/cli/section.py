@@ -61,10 +61,10 @@ def add_parser(sub):
 
 def compute(path, torsion=False, mesh_size=None, moment=None):
     """Everything the command reports, as a dict of SI values (JSON contract keys)."""
-    from ..sections.io import load_section_file, material_lookup
+    from ..sections.io import load_section_file, material_lookup, section_from_spec
     from ..units import parse
 
-    section, _ = load_section_file(path)
+    section, data = load_section_file(path)
     props = section.properties(private=True)
     out = {k: v for k, v in props.items() if not k.startswith("_")}
     extra = {"pna_y": props["_pna_y"], "pna_z": props["_pna_z"]}
@@ -87,14 +87,20 @@ def compute(path, torsion=False, mesh_size=None, moment=None):
         from ..sections.torsion import torsion as solve_torsion
 
         size = parse(mesh_size, "length", "--mesh-size") if mesh_size is not None else None
+        # torsion and warping on the gross section, as is common practice: a bolt hole seen in
+        # the cross-section would cut a flange into strips free to slip along each other
+        gross = section
+        if data.get("hole"):
+            gross = section_from_spec({k: v for k, v in data.items() if k != "hole"})
+            extra["torsion_gross"] = True
         G = None
-        if section.has_materials:
+        if gross.has_materials:
             lookup = material_lookup()
-            G = [lookup(p.material).G for p in section.parts]
-            E = [lookup(p.material).E for p in section.parts]
-            tors = solve_torsion([p.polygon for p in section.parts], G, size, elastic_moduli=E)
+            G = [lookup(p.material).G for p in gross.parts]
+            E = [lookup(p.material).E for p in gross.parts]
+            tors = solve_torsion([p.polygon for p in gross.parts], G, size, elastic_moduli=E)
         else:
-            tors = solve_torsion([p.polygon for p in section.parts], None, size)
+            tors = solve_torsion([p.polygon for p in gross.parts], None, size)
         out.update(J=tors.J, Cw=tors.Cw, ys=tors.ys, zs=tors.zs)
         extra["torsion_elements"] = int(tors.mesh.triangles.shape[0]) if hasattr(tors.mesh, "triangles") else None
     return section, out, extra, tors
@@ -133,6 +139,8 @@ def run(args) -> int:
         for name, s in extra["stresses"].items():
             lines.append(f"  {name:<12} top {fmt(s['top'] / factor):>10} {unit}   "
                          f"bottom {fmt(s['bottom'] / factor):>10} {unit}")
+    if extra.get("torsion_gross"):
+        lines.append("  (J, Cw and the shear centre are for the gross section: holes ignored)")
     print("\n".join(lines))
     if args.plot:
         print(f"drawing written to {args.plot}")
