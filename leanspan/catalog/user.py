@@ -100,6 +100,7 @@ def read_user_catalog(path, materials: dict | None = None) -> UserCatalog:
     dim_keys = {k for f in FAMILIES.values() for k in f.all_keys}
     col = {}
     warnings = []
+    defaulted = {}  # "C24 (rectangle)" -> file lines that got it by default
     ignored = []
     for j, (name, unit) in enumerate(header):
         if name in dim_keys:
@@ -159,9 +160,14 @@ def read_user_catalog(path, materials: dict | None = None) -> UserCatalog:
                 raise CatalogError(f"{where}: {exc}") from None
         else:
             material = DEFAULT_MATERIAL[fam_name]
+            defaulted.setdefault(f"{material} ({fam_name})", []).append(line)
         block.materials.append(material)
         block.names.append(cells[col["name"][0]] if "name" in col else "")
         block.lines.append(line)
+    for assumed, lines in defaulted.items():  # a grade nobody chose must not pass unnoticed
+        shown = ", ".join(str(n) for n in lines[:8]) + (" ..." if len(lines) > 8 else "")
+        warnings.append(f"{path}: no material given in row(s) {shown}: assumed {assumed}; "
+                        "fill in the material column to be sure")
     for fam_name, block in blocks.items():
         fam = FAMILIES[fam_name]
         given = {k: np.array(v) for k, v in raw[fam_name].items() if k in fam.all_keys}

@@ -25,7 +25,9 @@ _KINDS = {"d": "length", "b": "length", "tw": "length", "tf": "length", "t": "le
           "shear_factor": "shear factor", "E": "modulus", "G": "modulus", "density": "density",
           "strength_bending": "pressure", "strength_shear": "pressure",
           "mass_per_length": "mass/length"}
-_TABLE = ("depth", "width", "A", "Iz", "Zz", "Iy", "mass_per_length")
+_TABLE = ("depth", "width", "A", "Iz", "Sz_top", "Sz_bot", "Zz", "Iy", "mass_per_length")
+_KEY_LINE = ("Iz: about the horizontal axis (bending under vertical load); Sz_top, Sz_bot: elastic section moduli to the top "
+             "and bottom fibres; Zz: plastic modulus; Iy: about the vertical axis.")
 _ASCII = str.maketrans({"²": "^2", "³": "^3", "⁴": "^4", "·": "*"})
 
 
@@ -145,6 +147,6 @@ def run(args) -> int:
     out = ["  ".join(h.ljust(w) for h, w in zip(heads, widths)).rstrip()]
     for i in range(len(df)):
         out.append("  ".join(str(col[i]).ljust(w) for col, w in zip(cols, widths)).rstrip())
-    out.append(f"{len(df)} sections")
+    out.append(f"{len(df)} sections. {_KEY_LINE}")
     print("\n".join(out))
     return 0
