@@ -236,11 +236,12 @@ def display_factor(kind: str, system: str = "si") -> tuple[str, float]:
     return DISPLAY[system][kind]
 
 
-def fmt(value: float, digits: int = 4) -> str:
-    """Format a number with ``digits`` significant figures, plain where readable.
+def fmt(value: float, digits: int = 4, strip: bool = True) -> str:
+    """Format a number with ``digits`` significant figures, plain where readable;
+    ``strip=False`` keeps trailing zeros (for columns of like values).
 
-    >>> fmt(1234567.0), fmt(798727.0), fmt(0.000123456), fmt(12.5), fmt(0.0)
-    ('1.235e+06', '798700', '0.0001235', '12.5', '0')
+    >>> fmt(1234567.0), fmt(798727.0), fmt(0.000123456), fmt(12.5), fmt(0.0), fmt(18.9, strip=False)
+    ('1.235e+06', '798700', '0.0001235', '12.5', '0', '18.90')
     """
     if value is None or (isinstance(value, float) and math.isnan(value)):
         return "-"
@@ -254,7 +255,7 @@ def fmt(value: float, digits: int = 4) -> str:
         decimals = max(0, digits - 1 - exp)
         # large values keep ``digits`` significant figures too: 798727 -> 798700
         text = f"{value:.{decimals}f}" if exp < digits else f"{round(value, digits - 1 - exp):.0f}"
-        if "." in text:
+        if "." in text and strip:
             text = text.rstrip("0").rstrip(".")
         return text
     return f"{value:.{digits - 1}e}"

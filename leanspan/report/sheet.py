@@ -64,7 +64,9 @@ def _qu(value, kind, units, digits=4) -> str:
 
 
 def _util(u) -> str:
-    return "-" if u is None else f"{u:.3f}"
+    from .tables import utilisation_text
+
+    return utilisation_text(u)
 
 
 def _today() -> str:
@@ -221,7 +223,7 @@ def _search_table(sel, units: str) -> str:
             ["width", size(s.min_width, s.max_width)],
             ["objective", f"least {s.objective}"],
             ["self-weight carried by case", s.self_weight or "(none: members are weightless)"],
-            ["stress limits", lim.describe()],
+            ["stress limits", lim.describe(units)],
             ["candidates screened", Cell(esc(str(sel.screened)), ' class="num" data-key="screened"')],
             ["candidates passing", Cell(esc(str(n_pass)), ' class="num" data-key="passing"')]]
     return table(["search", "value"], rows, caption="Search space and limits")
@@ -362,7 +364,7 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
     note = ("<p class=\"small\">Demands: bending stress σ = M / Sz, shear stress τ = V × shear factor "
             "(the section's peak shear stress per unit shear force), deflection |v| per span. "
             "Utilisation = demand / limit (the bar's black mark is 1.0). Stress limits: "
-            f"{esc(job.limits.describe())} → bending {esc(_qu(fb, 'pressure', units))}, shear "
+            f"{esc(job.limits.describe(units))} → bending {esc(_qu(fb, 'pressure', units))}, shear "
             f"{esc(_qu(fv, 'pressure', units))} for {esc(cand['material'])}. Bending stress uses the "
             "larger of M max / Sz bottom and |M min| / Sz top; deflection is checked per span against "
             "each deflection combination's limit.</p>")

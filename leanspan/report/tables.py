@@ -2,15 +2,24 @@
 
 from __future__ import annotations
 
-__all__ = ["table_rows", "ranked_table_text", "ranked_table_markdown", "ranked_table_csv",
+__all__ = ["utilisation_text", "table_rows", "ranked_table_text", "ranked_table_markdown", "ranked_table_csv",
            "write_table_exports", "HEADERS"]
 
 HEADERS = ["rank", "name", "material", "mass", "depth", "width", "bending", "shear", "deflection",
            "governing", "pass"]
 
 
-def _util(u):
-    return "-" if u is None else f"{u:.2f}"
+def utilisation_text(u) -> str:
+    """A utilisation to 3 decimals, rounded up, so a failure never reads as within the limit.
+
+    >>> utilisation_text(1.0003), utilisation_text(0.9335), utilisation_text(1.0), utilisation_text(None)
+    ('1.001', '0.934', '1.000', '-')
+    """
+    import math
+
+    if u is None:
+        return "-"
+    return f"{math.ceil(round(float(u) * 1000.0, 6)) / 1000.0:.3f}"
 
 
 def table_rows(sel, units: str = "si", top: int = 10):
@@ -24,9 +33,9 @@ def table_rows(sel, units: str = "si", top: int = 10):
     rows = []
     for c in sel.shown(top):
         u = c["utilisation"]
-        rows.append([str(c["rank"]), c["name"], c["material"], fmt(c["mass_per_length"] / mf, 4),
-                     fmt(c["depth"] / lf, 4), fmt(c["width"] / lf, 4), _util(u["bending"]),
-                     _util(u["shear"]), _util(u["deflection"]), c["governing"],
+        rows.append([str(c["rank"]), c["name"], c["material"], fmt(c["mass_per_length"] / mf, 4, strip=False),
+                     fmt(c["depth"] / lf, 4), fmt(c["width"] / lf, 4), utilisation_text(u["bending"]),
+                     utilisation_text(u["shear"]), utilisation_text(u["deflection"]), c["governing"],
                      "yes" if c["passes"] else "NO"])
     return labels, rows
 
@@ -44,7 +53,7 @@ def _summary(sel, units):
     combos = ", ".join(f"{c.name} ({c.check}{', ' + c.limit.describe() if c.limit else ''})"
                        for c in job.model.combinations)
     lines.append(f"Beam: {spans}; combinations: {combos}")
-    lines.append(f"Limits: {job.limits.describe()}; self-weight in case "
+    lines.append(f"Limits: {job.limits.describe(units)}; self-weight in case "
                  f"{job.search.self_weight or '(none)'}; objective: least {job.search.objective}")
     lines.append(sel.message)
     return lines
@@ -74,6 +83,9 @@ def ranked_table_markdown(sel, units: str = "si", top: int = 10) -> str:
     out.append("| " + " | ".join(labels) + " |")
     out.append("|" + "|".join("---:" if i in (0, 3, 4, 5, 6, 7, 8) else "---" for i in range(len(labels))) + "|")
     out += ["| " + " | ".join(r) + " |" for r in rows]
+    from .. import CAUTION
+
+    out += ["", f"> {CAUTION}"]
     return "\n".join(out) + "\n"
 
 

@@ -90,14 +90,18 @@ class Limits:
               else self.stress_factor * np.asarray(strength_shear, float))
         return fb, fv
 
-    def describe(self) -> str:
+    def describe(self, units: str = "si") -> str:
+        """The limits in words, stresses in the display unit system."""
+        from ..units import display_factor, fmt
+
+        label, factor = display_factor("pressure", units)
         parts = []
         if self.stress_factor is not None:
             parts.append(f"{self.stress_factor:g} x material strengths")
         if self.bending_stress is not None:
-            parts.append(f"bending {self.bending_stress / 1e6:g} MPa")
+            parts.append(f"bending {fmt(self.bending_stress / factor)} {label}")
         if self.shear_stress is not None:
-            parts.append(f"shear {self.shear_stress / 1e6:g} MPa")
+            parts.append(f"shear {fmt(self.shear_stress / factor)} {label}")
         return ", ".join(parts)
 
 
