@@ -127,3 +127,16 @@ def test_section_and_material(tmp_path):
     m = parse_beam(data, tmp_path)
     EI, mass = io.beam_stiffness(spec, "C24", tmp_path, "beam.section")
     assert m.stiffness[0].EI == pytest.approx(EI) and m.mass_per_length == pytest.approx(mass)
+
+
+def test_round_off_prints_as_zero(tmp_path, capsys):
+    """A tip-loaded cantilever: R = P and M = -PL at the wall, M = 0 at the free end exactly
+    (statics); the solver's ~1e-15 round-off must not be printed as a value."""
+    p = tmp_path / "cant.toml"
+    p.write_text('[beam]\nlength = "3 m"\nEI = "1000 kN*m^2"\n[[support]]\nat = "0 m"\ntype = "fixed"\n'
+                 '[[load]]\ncase = "live"\ntype = "point"\nP = "5 kN"\nat = "3 m"\n')
+    assert main(["beam", str(p)]) == 0
+    out = capsys.readouterr().out
+    assert "e-1" not in out  # no 1e-15-style noise anywhere
+    assert "5 / 15" in out  # R = P = 5 kN, M = PL = 15 kN·m at the wall
+    assert "-45 at 3" in out  # v = -PL^3 / 3EI = -45 mm at the tip (beam-formula handbook)

@@ -146,3 +146,21 @@ def test_torsion_uses_the_gross_section(tmp_path, capsys):
     y_top = (i_f * 492 + i_p * 506) / (i_f + i_p)
     ys = 10 + (y_top - 10) * (i_f + i_p) / (i_f + i_p + i_b)
     assert holed["ys"] * 1000 == pytest.approx(ys, rel=0.02)  # the web and fillets shift it slightly
+
+
+def test_composite_torsion_reports_gj_and_its_reference(capsys):
+    """The flitch beam: J is GJ / G of part 1 (C24); GJ is printed and the reference named."""
+    from pathlib import Path
+
+    src = Path(__file__).resolve().parents[1] / "data" / "examples" / "section-flitch.toml"
+    status, out, _ = run_cli(capsys, "section", str(src), "--torsion")
+    assert status == 0
+    assert "Torsional stiffness GJ" in out and "transformed to part 1's material, C24" in out
+    assert "shear factor is from the geometry alone" in out
+    status, js, _ = run_cli(capsys, "section", str(src), "--torsion", "--json")
+    # C24 shear modulus 690 MPa (EN 338 mean G, from memory): GJ = 690e6 * J
+    from leanspan.catalog.materials import get_material
+
+    G = get_material("C24").G
+    line = [ln for ln in out.splitlines() if "Torsional stiffness GJ" in ln][0]
+    assert float(line.split()[-2]) == pytest.approx(G * json.loads(js)["J"] / 1e3, rel=1e-3)  # kN·m²

@@ -63,13 +63,25 @@ def _u(kind, system):
     return label, (lambda v: fmt(v / factor))
 
 
+def _u_snapped(kind, system, scale):
+    """Like ``_u``, but values below 1e-10 of ``scale`` (round-off of the solve) print as 0."""
+    label, factor = display_factor(kind, system)
+    return label, (lambda v: fmt((0.0 if abs(v) < 1e-10 * scale else v) / factor))
+
+
 def summary(sol, system: str = "si", title: str = "") -> str:
     """The readable report: model line, reactions, extremes, deflection checks and the caution."""
     m = sol.model
+    res = sol.results.values()
+    ext = lambda *keys: max([abs(r.extremes[k].value) for r in res for k in keys] + [0.0])  # noqa: E731
+    react = lambda *keys: max([abs(row[k]) for r in res for row in r.reactions for k in keys if k in row]  # noqa: E731
+                              + [0.0])
+    fscale = max(ext("V_max", "V_min"), react("force", "force_max", "force_min"))
+    mscale = max(ext("M_max", "M_min"), react("moment", "moment_max", "moment_min"), fscale * m.length)
     sl, sp = _u("span", system)
-    fl, ff = _u("force", system)
-    ml, mf = _u("moment", system)
-    dl, df = _u("length", system)
+    fl, ff = _u_snapped("force", system, fscale)
+    ml, mf = _u_snapped("moment", system, mscale)
+    dl, df = _u_snapped("length", system, ext("v_max", "v_min"))
     el, ef = _u("flexural stiffness", system)
     lines = [f"Beam {title}".rstrip(), ""]
     sup = ", ".join(f"{s.type} at {sp(s.at)} {sl}" + (f" (k {fmt(s.k / display_factor('spring', system)[1])}"

@@ -37,6 +37,7 @@ COMPOSITE_ROWS = [
 ]
 TORSION_ROWS = [
     ("Torsion constant J", "J", "second moment"),
+    ("Torsional stiffness GJ", "GJ", "flexural stiffness"),
     ("Warping constant Cw", "Cw", "warping"),
     ("Shear centre z", "zs", "length"),
     ("Shear centre y", "ys", "length"),
@@ -99,6 +100,9 @@ def compute(path, torsion=False, mesh_size=None, moment=None):
             G = [lookup(p.material).G for p in gross.parts]
             E = [lookup(p.material).E for p in gross.parts]
             tors = solve_torsion([p.polygon for p in gross.parts], G, size, elastic_moduli=E)
+            extra["GJ"] = tors.J * tors.G_ref
+            if len(set(G)) > 1:  # J and Cw are transformed to the first part's material
+                extra["torsion_reference"] = gross.parts[0].material
         else:
             tors = solve_torsion([p.polygon for p in gross.parts], None, size)
         out.update(J=tors.J, Cw=tors.Cw, ys=tors.ys, zs=tors.zs)
@@ -126,6 +130,12 @@ def run(args) -> int:
         return 0
     rows = ROWS + (COMPOSITE_ROWS if "EIz" in out else []) + (TORSION_ROWS if tors is not None else [])
     values = dict(out, **extra)
+    size = max(out["depth"], out["width"])
+    for s_key, c_key in (("zs", "zc"), ("ys", "yc")):
+        # the finite-element shear centre is good to about 1e-3 of the size: a shift below 1e-4
+        # of it from the centroid is mesh noise (a symmetric section's lies on the axis)
+        if s_key in values and abs(values[s_key] - values[c_key]) < 1e-4 * size:
+            values[s_key] = values[c_key]
     lines = [f"Section {args.file}: {len(section.parts)} part(s)"]
     for label, key, kind in rows:
         if key not in values:
@@ -139,6 +149,12 @@ def run(args) -> int:
         for name, s in extra["stresses"].items():
             lines.append(f"  {name:<12} top {fmt(s['top'] / factor):>10} {unit}   "
                          f"bottom {fmt(s['bottom'] / factor):>10} {unit}")
+    if "EIz" in out and len({p.material for p in section.parts}) > 1:
+        lines.append("  (the shear factor is from the geometry alone: with several materials the shear "
+                     "stress in each part differs)")
+    if extra.get("torsion_reference"):
+        lines.append(f"  (J and Cw are transformed to part 1's material, {extra['torsion_reference']}: "
+                     f"J = GJ / G of {extra['torsion_reference']})")
     if extra.get("torsion_gross"):
         lines.append("  (J, Cw and the shear centre are for the gross section: holes ignored)")
     print("\n".join(lines))
