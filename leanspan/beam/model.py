@@ -64,6 +64,10 @@ def _num(value, where: str, positive=False, nonneg=False) -> float:
     return x
 
 
+
+FEATURE_GAP = 1e-6
+"""Supports, hinges and load ends closer than FEATURE_GAP * length share one solver node."""
+
 @dataclass(frozen=True)
 class Support:
     """A support at ``at``: pin | roller | fixed | guided | spring (``k`` N/m and/or ``kr`` N m/rad).
@@ -280,10 +284,11 @@ class BeamModel:
         L = _num(self.length, "beam.length", positive=True)
         object.__setattr__(self, "length", L)
         tol = 1e-9 * L
+        gap = FEATURE_GAP * L  # the solver gives features closer than this one node
 
         def on_beam(x, where, inside=False):
             if x < -tol or x > L + tol:
-                raise BeamError(f"{where}: x = {x:g} m is off the beam (0 to {L:g} m)")
+                raise BeamError(f"{where}: x = {x:.10g} m is off the beam (0 to {L:.10g} m)")
             if inside and (x <= tol or x >= L - tol):
                 raise BeamError(f"{where}: x = {x:g} m must be strictly inside the beam (0 to {L:g} m)")
 
@@ -291,8 +296,9 @@ class BeamModel:
             on_beam(s.at, f"{s.where}.at")
         xs = sorted(s.at for s in self.supports)
         for a, b in zip(xs, xs[1:]):
-            if b - a <= tol:
-                raise BeamError(f"support: two supports at x = {a:g} m; give one support per position")
+            if b - a <= gap:
+                raise BeamError(f"support: two supports at x = {a:.10g} and {b:.10g} m, closer than "
+                                f"{FEATURE_GAP:g} of the length; give one support per position")
         if not self.supports:
             raise BeamError("beam: no supports; add [[support]] tables or use spans = [...]")
         # stiffness pieces must tile [0, L]
@@ -311,8 +317,9 @@ class BeamModel:
         for i, h in enumerate(hinges):
             on_beam(h, f"hinge[{i + 1}].at", inside=True)
         for a, b in zip(hinges, hinges[1:]):
-            if b - a <= tol:
-                raise BeamError(f"hinge: two hinges at x = {a:g} m")
+            if b - a <= gap:
+                raise BeamError(f"hinge: two hinges at x = {a:.10g} and {b:.10g} m, closer than "
+                                f"{FEATURE_GAP:g} of the length; give one")
         for h in hinges:
             for s in self.supports:
                 if abs(s.at - h) <= tol and s.rotational:
@@ -326,6 +333,11 @@ class BeamModel:
             if isinstance(ld, DistributedLoad):
                 on_beam(ld.start, f"{ld.where}.from")
                 on_beam(ld.end, f"{ld.where}.to")
+                if ld.end - ld.start <= gap:
+                    total = (ld.w1 + ld.w2) / 2 * (ld.end - ld.start)
+                    raise BeamError(f"{ld.where}: 'from' and 'to' are {ld.end - ld.start:.3g} m apart, closer "
+                                    f"than {FEATURE_GAP:g} of the length; give it as a point load "
+                                    f"(P = {total:.4g} N at x = {(ld.start + ld.end) / 2:g} m)")
             else:
                 on_beam(ld.at, f"{ld.where}.at")
             if isinstance(ld, Couple) and any(abs(ld.at - h) <= tol for h in hinges):

@@ -35,7 +35,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..errors import BeamError, MechanismError
-from .model import BeamModel, Couple, DeflectionLimit, DistributedLoad, PointLoad
+from .model import FEATURE_GAP, BeamModel, Couple, DeflectionLimit, DistributedLoad, PointLoad
 
 __all__ = ["Response", "ConcreteCombo", "respond", "check_mechanism", "MAX_PATTERN_SPANS"]
 
@@ -131,7 +131,7 @@ def _node_index(x, value):
     return int(np.argmin(np.abs(x - value)))
 
 
-SNAP = 1e-6
+SNAP = FEATURE_GAP
 """Feature positions closer than SNAP * length share a node (short elements are ill-conditioned)."""
 
 
