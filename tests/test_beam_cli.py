@@ -79,7 +79,7 @@ BAD = {
     "udl too short": ("[[support]]\nat = 0\ntype = \"pin\"\n[[support]]\nat = 6\ntype = \"roller\"\n"
                       "[[load]]\ncase = \"a\"\ntype = \"udl\"\nw = 1000\nfrom = 3\nto = 3.000001\n",
                       "give it as a point load"),
-    "supports too close": ("[[support]]\nat = 0\ntype = \"pin\"\n[[support]]\nat = 6\ntype = \"roller\"\n"
+    "supports too close": ("[[support]]\nat = 0\ntype = \"pin\"\n[[support]]\nat = 3\ntype = \"roller\"\n"
                            "[[support]]\nat = 3.000001\ntype = \"roller\"\n[[load]]\ncase = \"a\"\n"
                            "type = \"point\"\nP = 1\nat = 3\n", "closer than"),
     "single pin": ("[[support]]\nat = 0\ntype = \"pin\"\n[[load]]\ncase = \"a\"\ntype = \"point\"\nP = 1\nat = 3\n",
