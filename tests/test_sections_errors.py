@@ -270,3 +270,13 @@ def test_every_error_is_a_value_error():
     # GUIDE section 3 / leanspan.errors: each project error is also a ValueError
     for cls in (GeometryError, InputError, UnitsError, MaterialError):
         assert issubclass(cls, LeanspanError) and issubclass(cls, ValueError)
+
+
+def test_unknown_part_material_names_file_and_part(tmp_path, capsys):
+    from leanspan.cli import main
+
+    p = tmp_path / "s.toml"
+    p.write_text('units = "mm"\n[[part]]\nshape = "rectangle"\nb = 100\nd = 200\nmaterial = "C99"\n')
+    assert main(["section", str(p)]) == 2
+    err = capsys.readouterr().err.strip()
+    assert len(err.splitlines()) == 1 and "s.toml" in err and "part[1].material" in err and "C99" in err

@@ -48,6 +48,10 @@ ROW_CSV = "family,b,d,material\nrectangle,75,200,C24\n"
 CASES = [
     # (id, job pieces, user CSV, words the one line must contain)
     ("unknown family", dict(search='families = ["oak_logs"]'), None, ["oak_logs"]),
+    ("sizes exclude all", dict(search='families = ["glulam"]\nmin_depth = "400 mm"\nmax_depth = "300 mm"'), None,
+     ["job.toml", "size limits", "min_depth 400 mm"]),
+    ("materials do not pair", dict(search='families = ["glulam"]\nmaterials = ["S355"]'), None,
+     ["job.toml", "materials S355", "none of them suits"]),
     ("unknown material", dict(search='families = ["sawn_metric"]\nmaterials = ["C99"]'), None, ["C99"]),
     ("missing catalogue file", dict(search='catalog = "nope.csv"'), None, ["search.catalog", "nope.csv"]),
     ("bad limit text", dict(limits='bending_stress = "lots"\nshear_stress = "2 MPa"'), None,

@@ -304,8 +304,10 @@ def check_mechanism(model: BeamModel) -> None:
     if abs(b) > 1e-8 * scale:
         pivot = -a / b * L
         if lo - 1e-9 * L <= pivot <= hi + 1e-9 * L:
-            what = ("the hinge" if any(abs(h - pivot) <= 1e-9 * L for h in model.hinges) else
-                    "the support" if any(abs(s.at - pivot) <= 1e-9 * L for s in model.supports) else "")
+            near = [h for h in model.hinges if abs(h - pivot) <= 1e-9 * L]
+            near_s = [s.at for s in model.supports if abs(s.at - pivot) <= 1e-9 * L]
+            what = "the hinge" if near else "the support" if near_s else ""
+            pivot = (near or near_s or [pivot])[0]  # the feature's own position, free of round-off
             hint = f" (it can rotate about {what + ' at ' if what else ''}x = {pivot + 0.0:.4g} m)"
     else:
         hint = " (it can slide up and down)"

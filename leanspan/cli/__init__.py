@@ -55,7 +55,7 @@ def main(argv=None) -> int:
     try:
         status = args.run(args)
     except LeanspanError as exc:
-        print(f"leanspan {args.command}: error: {exc}", file=sys.stderr)
+        print(f"leanspan {args.command}: error: {_with_file(exc, args)}", file=sys.stderr)
         return 2
     except BrokenPipeError:
         return 0
@@ -63,6 +63,18 @@ def main(argv=None) -> int:
         print("leanspan: interrupted", file=sys.stderr)
         return 130
     return int(status or 0)
+
+
+def _with_file(exc, args) -> str:
+    """The error line, led by the input file's name when the message does not name it yet
+    (option errors, which start with "--", stay as they are)."""
+    from pathlib import Path
+
+    msg = str(exc)
+    source = getattr(args, "file", None) or getattr(args, "job", None)
+    if isinstance(source, str) and Path(source).name not in msg and not msg.startswith("--"):
+        return f"{source}: {msg}"
+    return msg
 
 
 def add_common(p, units=True):

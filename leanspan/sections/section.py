@@ -219,7 +219,12 @@ class Section:
         groups: dict[str, list] = {}
         for p in self.parts:
             groups.setdefault(p.material, []).append(p)
-        mats = {name: lookup(name) for name in groups}
+        mats = {}
+        for name, members in groups.items():
+            try:
+                mats[name] = lookup(name)
+            except MaterialError as exc:  # name the first part that asks for it
+                raise MaterialError(f"{members[0].label}.material: {exc}") from None
         ref = np.asarray([[0.0, 0.0]])
         EA = ES_y = ES_z = 0.0
         mass = 0.0

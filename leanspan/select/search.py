@@ -97,6 +97,21 @@ def candidate_table(search):
     return df
 
 
+def _why_empty(search) -> str:
+    """Which part of the search leaves no rows: the size limits or the materials."""
+    import dataclasses
+
+    no_sizes = dataclasses.replace(search, max_depth=None, min_depth=None, max_width=None, min_width=None)
+    if len(candidate_table(no_sizes)):
+        return ("the size limits (" + ", ".join(f"{k} {v * 1000:g} mm" for k in
+                ("min_depth", "max_depth", "min_width", "max_width") if (v := getattr(search, k)) is not None)
+                + ")")
+    if search.materials and len(candidate_table(dataclasses.replace(no_sizes, materials=None))):
+        return (f"the materials {', '.join(search.materials)}: none of them suits these families "
+                "(timber series take timber grades, steel series steel grades)")
+    return "the families, materials and size limits"
+
+
 def candidates_from_table(df, limits) -> Candidates:
     """Arrays for :func:`screen` from catalogue rows (E x Iz, allowable stresses ...)."""
     col = lambda k: df[k].to_numpy(float)  # noqa: E731
@@ -164,8 +179,8 @@ def run_selection(job, table=None) -> Selection:
     df = candidate_table(job.search) if table is None else table
     warnings = list(df.attrs.get("warnings", [])) if hasattr(df, "attrs") else []
     if len(df) == 0:
-        raise SelectionError("search: no catalogue rows match the families, materials and size limits; "
-                             "widen the search")
+        why = _why_empty(job.search) if table is None else "the given table"
+        raise SelectionError(f"search: no catalogue rows match {why}; widen the search")
     cand = candidates_from_table(df, job.limits)
     res = screen(job.model, cand, job.search.self_weight)
     order = rank_order(df, res, job.search.objective)
