@@ -96,7 +96,7 @@ def test_plot_is_written_atomically_and_refuses_input(tmp_path, capsys):
     status, _, _ = run_cli(capsys, "section", path, "--plot", str(out_svg))
     assert status == 0 and out_svg.read_text().startswith("<?xml")
     status, _, err = run_cli(capsys, "section", path, "--plot", path.replace(".toml", ".txt"))
-    assert status == 2 and ".svg or .png" in err
+    assert status == 2 and ".svg, .png or .pdf" in err
     assert sorted(p.name for p in tmp_path.iterdir()) == ["s.svg", "s.toml"]  # no temporary left
 
 

@@ -69,6 +69,9 @@ def compute(path, torsion=False, mesh_size=None, moment=None):
     props = section.properties(private=True)
     out = {k: v for k, v in props.items() if not k.startswith("_")}
     extra = {"pna_y": props["_pna_y"], "pna_z": props["_pna_z"]}
+    n_tables = len(data.get("part", []))
+    if data.get("hole") and len(section.parts) > n_tables:
+        extra["pieces_from_holes"] = n_tables
     comp = None
     if section.has_materials:
         lookup = material_lookup()
@@ -114,6 +117,13 @@ def run(args) -> int:
     from ..units import display_factor, fmt
 
     section, out, extra, tors = compute(args.file, args.torsion, args.mesh_size, args.moment)
+    if extra.get("pieces_from_holes"):
+        import sys
+
+        print(f"leanspan section: warning: {args.file}: the holes cut the section into {len(section.parts)} "
+              f"separate pieces ({extra['pieces_from_holes']} part table(s)); bending properties treat "
+              "them as acting together, which holds only where they are joined along the member",
+              file=sys.stderr)
     if args.plot:
         from ..report.section_plot import plot_section
 

@@ -78,7 +78,7 @@ def draw_section(ax, section, props, units: str = "si"):
 
 
 def plot_section(section, props, path, title: str = "", units: str = "si"):
-    """Draw the section to ``path`` (.svg or .png), written atomically."""
+    """Draw the section to ``path`` (.svg, .png or .pdf), written atomically."""
     import io
 
     import matplotlib
@@ -90,8 +90,8 @@ def plot_section(section, props, path, title: str = "", units: str = "si"):
     from ..fileio import atomic_write
 
     fmt_ = str(path).rsplit(".", 1)[-1].lower()
-    if fmt_ not in ("svg", "png"):
-        raise InputError(f"--plot {path}: expected a file name ending in .svg or .png")
+    if fmt_ not in ("svg", "png", "pdf"):
+        raise InputError(f"--plot {path}: expected a file name ending in .svg, .png or .pdf")
     fig, ax = plt.subplots(figsize=(5.5, 5.5))
     try:
         draw_section(ax, section, props, units)
