@@ -153,3 +153,16 @@ def test_select_plot_bad_suffix_is_one_line(tmp_path, capsys):
     err = capsys.readouterr().err.strip().splitlines()
     assert status == 2 and len(err) == 1 and ".svg, .png or .pdf" in err[0]
     assert list(tmp_path.iterdir()) == []
+
+
+def test_tilted_principal_axes_get_a_note(tmp_path, capsys):
+    """An unequal angle's principal axes are tilted (tan 2 theta = -2 Iyz / (Iz - Iy), mechanics of
+    materials): the output must remind that the checks assume bending about the horizontal axis."""
+    p = tmp_path / "lintel.toml"
+    p.write_text('[beam]\nlength = "1.2 m"\n[[support]]\nat = "0 m"\ntype = "pin"\n[[support]]\nat = "1.2 m"\n'
+                 'type = "roller"\n[[load]]\ncase = "dead"\ntype = "udl"\nw = "1 kN/m"\n'
+                 '[search]\nfamilies = ["angle_unequal"]\n[limits]\nstress_factor = 0.6\n')
+    assert main(["select", str(p)]) == 0
+    assert "principal axes at" in capsys.readouterr().out
+    assert main(["select", str(EXAMPLES / "select-floor-joist.toml")]) == 0
+    assert "principal axes at" not in capsys.readouterr().out  # rectangles: theta = 0

@@ -70,6 +70,9 @@ def finish(args, job, source) -> int:
             print(f"calculation sheet written to {args.report}")
         if getattr(args, "plot", None):
             print("drawings written to " + ", ".join(str(p) for p in plots))
+        note = principal_axis_note(sel)
+        if note:
+            print(note)
         print()
         print(CAUTION)
     return 0 if sel.success else 1
@@ -85,3 +88,17 @@ def write_plots(sel, path, units):
     section, props = member_section(cand)
     return plot_job(member_solution(sel, chosen_row(sel)), path, units, section=section, props=props,
                     title=cand["name"])
+
+
+def principal_axis_note(sel) -> str:
+    """A reminder when the chosen section's principal axes are tilted (angles): the checks use
+    Iz, which holds only if the member is restrained to bend in the vertical plane."""
+    from ..report.chosen import chosen_row
+
+    row = chosen_row(sel)
+    theta = float(row.get("theta", 0.0))
+    if abs(theta) < 1e-6 or abs(abs(theta) - 90.0) < 1e-6:
+        return ""
+    return (f"note: {row['name']} has principal axes at {theta:.1f} deg: the checks use Iz about the "
+            "horizontal axis, which holds only where the member is restrained to bend vertically; "
+            "unrestrained, it bends about its principal axes and deflects sideways too")
