@@ -306,3 +306,182 @@ def test_print_layout_rules():
     assert "table.keep { break-inside: avoid" in markup.CSS
     assert "section.part + section.part { break-before: page" in markup.CSS
     assert "h2, h3, caption { break-after: avoid" in markup.CSS
+
+
+# Invented test beam (not a real project): a linear load that changes sign, an upward point
+# load and a clockwise couple in one case; three loads in another.
+_MIXED_BEAM = """
+units = {length = "m", force = "kN"}
+[beam]
+name = "invented check beam"
+length = 8.0
+EI = "5000 kN*m^2"
+[[support]]
+at = 0
+type = "fixed"
+[[support]]
+at = 5.0
+type = "roller"
+[[load]]
+case = "dead"
+type = "linear"
+w1 = 2.0
+w2 = -1.0
+from = 0
+to = 6.0
+[[load]]
+case = "dead"
+type = "point"
+P = -3.0
+at = 2.5
+[[load]]
+case = "dead"
+type = "moment"
+M = -1.5
+at = 4.0
+[[load]]
+case = "live"
+type = "udl"
+w = 1.0
+from = 0
+to = 3.0
+[[load]]
+case = "live"
+type = "udl"
+w = 0.4
+from = 1.0
+to = 8.0
+[[load]]
+case = "live"
+type = "point"
+P = 2.0
+at = 8.0
+"""
+
+
+def _drawn(model, **kw):
+    """The loaded-beam figure, drawn, with its axes and renderer."""
+    from leanspan.report.diagrams import loaded_beam_figure
+
+    fig = loaded_beam_figure(model, **kw)
+    fig.canvas.draw()
+    return fig, fig.axes[0], fig.canvas.get_renderer()
+
+
+def _by_gid(ax, prefix, kind="any"):
+    """The patches whose id starts with ``prefix``: ``kind`` "block" (load areas), "arrow" or "any"."""
+    from matplotlib.patches import FancyArrowPatch, Polygon
+
+    want = {"block": Polygon, "arrow": FancyArrowPatch, "any": object}[kind]
+    return [p for p in ax.patches if (p.get_gid() or "").startswith(prefix) and isinstance(p, want)]
+
+
+def _baseline(ax, case):
+    (line,) = [ln for ln in ax.lines if ln.get_gid() == f"baseline:{case}"]
+    return line.get_ydata()[0]
+
+
+def _lane_text_problems(fig, ax, renderer) -> list:
+    """Text outside the figure, labels overlapping each other, labels crossing a drawn line."""
+    from matplotlib.text import Text
+
+    problems = []
+    fb = fig.bbox
+    for t in fig.findobj(Text):
+        if t.get_visible() and t.get_text():
+            b = t.get_window_extent(renderer)
+            if b.x0 < fb.x0 - 0.5 or b.x1 > fb.x1 + 0.5 or b.y0 < fb.y0 - 0.5 or b.y1 > fb.y1 + 0.5:
+                problems.append(f"outside the figure: {t.get_text()!r}")
+    boxes = []
+    for t in ax.texts:
+        patch = t.get_bbox_patch()
+        boxes.append((t.get_text(), patch.get_window_extent(renderer) if patch else t.get_window_extent(renderer)))
+    for i, (a, ba) in enumerate(boxes):
+        for b, bb in boxes[i + 1:]:
+            if ba.overlaps(bb):
+                problems.append(f"labels overlap: {a!r} and {b!r}")
+    for line in ax.lines:
+        path = line.get_transform().transform_path(line.get_path())
+        for text, box in boxes:
+            if path.intersects_bbox(box, filled=False):
+                problems.append(f"{text!r} crosses a line through {line.get_xydata()[0].tolist()}")
+    return problems
+
+
+def test_upward_load_drawn_above_its_own_baseline_with_upward_arrows():
+    from leanspan.beam import parse_beam
+    from leanspan.fileio import load_toml
+
+    path = EXAMPLES / "beam-gerber.toml"
+    model = parse_beam(load_toml(path), path.parent, "t: ")
+    fig, ax, r = _drawn(model)
+    y_dead, y_wind = _baseline(ax, "dead"), _baseline(ax, "wind")
+    lane = y_wind - y_dead
+    assert lane > 0
+    (wind,) = _by_gid(ax, "load:wind:", "block")  # w = -1.1 kN/m: one piece, upward
+    assert wind.get_gid().endswith(":up")
+    y = wind.get_xy()[:, 1]
+    assert y.min() == pytest.approx(y_wind) and y_wind < y.max() < y_wind + lane
+    assert wind.get_xy()[:, 0].min() == pytest.approx(2.0)  # from 2000 mm, x in m
+    (dead,) = _by_gid(ax, "load:dead:", "block")
+    yd = dead.get_xy()[:, 1]
+    assert yd.min() == pytest.approx(y_dead) and yd.max() < y_wind
+    up, down = _by_gid(ax, "load:wind:", "arrow"), _by_gid(ax, "load:dead:0:", "arrow")
+    assert len(up) >= 5 and len(down) >= 5
+    for a in up:
+        (x0, y0), (x1, y1) = a._posA_posB
+        assert x0 == x1 and 2.0 - 1e-9 <= x0 <= 12.0 + 1e-9 and y0 == pytest.approx(y_wind) and y1 > y0
+    for a in down:
+        (x0, y0), (x1, y1) = a._posA_posB
+        assert y1 == pytest.approx(y_dead) and y0 > y1
+    labels = [t.get_text() for t in ax.texts]
+    assert "1.1 kN/m upward" in labels and "0.8 kN/m" in labels and "0.6 kN·m" in labels
+    assert _lane_text_problems(fig, ax, r) == []
+
+
+def test_sign_changing_load_is_drawn_to_scale_on_both_sides_of_its_zero():
+    from leanspan.beam import parse_beam
+
+    model = parse_beam(tomllib.loads(_MIXED_BEAM), Path("."), "t: ")
+    for units in ("si", "us"):
+        fig, ax, r = _drawn(model, units=units, title="invented check beam")
+        y0 = _baseline(ax, "dead")
+        pieces = {p.get_gid(): p.get_xy() for p in _by_gid(ax, "load:dead:0:", "block")}
+        assert set(pieces) == {"load:dead:0:down", "load:dead:0:up"}
+        sx = display_factor("span", units)[1]
+        down, up = pieces["load:dead:0:down"], pieces["load:dead:0:up"]
+        # w = 2 -> -1 kN/m over 0..6 m: zero at 4 m; the upward end is half as tall
+        assert down[:, 0].min() == pytest.approx(0.0, abs=1e-12) and down[:, 0].max() == pytest.approx(4.0 / sx)
+        assert up[:, 0].min() == pytest.approx(4.0 / sx) and up[:, 0].max() == pytest.approx(6.0 / sx)
+        assert down[:, 1].min() == pytest.approx(y0) and up[:, 1].min() == pytest.approx(y0)
+        assert (up[:, 1].max() - y0) == pytest.approx(0.5 * (down[:, 1].max() - y0))
+        assert up[:, 1].max() < _baseline(ax, "live")
+        (point,) = _by_gid(ax, "load:dead:1:")
+        assert point.get_gid().endswith(":up") and point._posA_posB[1][1] > point._posA_posB[0][1]
+        assert [a.get_gid() for a in _by_gid(ax, "load:dead:2:")] == ["load:dead:2:cw"]
+        assert any(t.get_text().endswith("upward") and "downward" in t.get_text() for t in ax.texts)
+        assert _lane_text_problems(fig, ax, r) == []
+
+
+@pytest.mark.parametrize("name", ["beam-overhang-spring.toml", "beam-three-span.toml"])
+def test_loaded_beam_text_stays_inside_and_apart(name):
+    from leanspan.beam import parse_beam
+    from leanspan.fileio import load_toml
+
+    model = parse_beam(load_toml(EXAMPLES / name), EXAMPLES, "t: ")
+    for units in ("si", "us"):
+        assert _lane_text_problems(*_drawn(model, units=units)) == []
+
+
+@pytest.mark.parametrize("job", ["demo", "select-steel-overhang.toml"])
+def test_selection_beam_drawing_keeps_the_self_weight_note_inside(job, demo):
+    """The note sits in the dead-load lane beside the 5 kN tip load of the overhang job."""
+    from leanspan.fileio import load_toml
+    from leanspan.report.chosen import member_solution
+
+    sel = demo[0] if job == "demo" else run_selection(parse_job(load_toml(EXAMPLES / job), EXAMPLES, "t: "))
+    model = member_solution(sel).model
+    for units in ("si", "us"):
+        fig, ax, r = _drawn(model, units=units)
+        assert any(t.get_text().startswith("+ self-weight") for t in ax.texts)
+        assert _lane_text_problems(fig, ax, r) == []
