@@ -47,6 +47,9 @@ _DEFER = ("These results do not replace a design to the building code that appli
 
 
 # -- small helpers ---------------------------------------------------------------------------
+BEAM_CAPTION = ("The loaded beam, to scale along x: each load case on its own lane, load heights to scale "
+                "within a lane; arrows show the direction (down: gravity, up: upward loads).")
+
 def _u(kind, units):
     return display_factor(kind, units)
 
@@ -329,8 +332,7 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
                                      + _search_table(sel, units), anchor="job")]
 
     beam_fig = _figure(loaded_beam_figure(sol.model, units), "beam",
-                       "The loaded beam, to scale along x: each load case on its own lane; "
-                       "load heights to scale within a lane.")
+                       BEAM_CAPTION)
     diag = _figure(diagram_figure(sol, units, picks), "diagrams",
                    f"Shear V, moment M and deflection v of {cand['name']} ({cand['material']}, "
                    f"EI = {_qu(float(row['E']) * float(row['Iz']), 'flexural stiffness', units)}, "
@@ -436,7 +438,7 @@ def beam_sheet_html(solution, units: str = "si", source: str = "") -> str:
     picks = governing(solution)
     parts.append(section("Loaded beam and internal forces",
                          _figure(loaded_beam_figure(model, units), "beam",
-                                 "The loaded beam, to scale along x: each load case on its own lane.")
+                                 BEAM_CAPTION)
                          + _figure(diagram_figure(solution, units, picks), "diagrams",
                                    "Shear V, moment M and deflection v: envelope of all combinations "
                                    "in grey, the governing combination as a line with its extremes marked."),
