@@ -467,12 +467,11 @@ def respond(model: BeamModel, EI=None, unit_self_weight: bool = True, self_weigh
     free = np.setdiff1d(np.arange(mesh.ndof), fixed_dofs)
     Kff = Kl[np.ix_(free, free)]
     batched = ratio is not None and bool(springs)
-    Sff = np.diag(S[free]).astype(LD)
     if batched:
         d_free = _spring_batch_solve(Kff, S[free], F[free], ratio)
         kfac = ratio
     else:
-        d_free = _refined_solve((Kff + Sff)[None], F[free][None])
+        d_free = _refined_solve((Kff + np.diag(S[free]).astype(LD))[None], F[free][None])
         kfac = np.ones(1)
     nk = d_free.shape[0]
     d = np.zeros((nk, mesh.ndof, len(names)))

@@ -58,13 +58,8 @@ def run(args) -> int:
     return 0
 
 
-def _u(kind, system):
-    label, factor = display_factor(kind, system)
-    return label, (lambda v: fmt(v / factor))
-
-
-def _u_snapped(kind, system, scale):
-    """Like ``_u``, but values below 1e-10 of ``scale`` (round-off of the solve) print as 0."""
+def _u(kind, system, scale=0.0):
+    """Display label and formatter; values below 1e-10 of ``scale`` (round-off) print as 0."""
     label, factor = display_factor(kind, system)
     return label, (lambda v: fmt((0.0 if abs(v) < 1e-10 * scale else v) / factor))
 
@@ -79,9 +74,9 @@ def summary(sol, system: str = "si", title: str = "") -> str:
     fscale = max(ext("V_max", "V_min"), react("force", "force_max", "force_min"))
     mscale = max(ext("M_max", "M_min"), react("moment", "moment_max", "moment_min"), fscale * m.length)
     sl, sp = _u("span", system)
-    fl, ff = _u_snapped("force", system, fscale)
-    ml, mf = _u_snapped("moment", system, mscale)
-    dl, df = _u_snapped("length", system, ext("v_max", "v_min"))
+    fl, ff = _u("force", system, fscale)
+    ml, mf = _u("moment", system, mscale)
+    dl, df = _u("length", system, ext("v_max", "v_min"))
     el, ef = _u("flexural stiffness", system)
     lines = [f"Beam {title}".rstrip(), ""]
     sup = ", ".join(f"{s.type} at {sp(s.at)} {sl}" + (f" (k {fmt(s.k / display_factor('spring', system)[1])}"
