@@ -64,9 +64,9 @@ def _num(value, where: str, positive=False, nonneg=False) -> float:
     return x
 
 
-
 FEATURE_GAP = 1e-6
 """Supports, hinges and load ends closer than FEATURE_GAP * length share one solver node."""
+
 
 @dataclass(frozen=True)
 class Support:

@@ -73,8 +73,8 @@ def compute(path, torsion=False, mesh_size=None, moment=None):
     if data.get("hole") and len(section.parts) > n_tables:
         extra["pieces_from_holes"] = n_tables
     comp = None
+    lookup = material_lookup() if section.has_materials else None
     if section.has_materials:
-        lookup = material_lookup()
         comp = section.composite(lookup)
         out.update(EIz=comp.EIz, EA=comp.EA, mass_per_length=comp.mass_per_length)
         extra["y_neutral"] = comp.y_neutral
@@ -99,7 +99,6 @@ def compute(path, torsion=False, mesh_size=None, moment=None):
             extra["torsion_gross"] = True
         G = None
         if gross.has_materials:
-            lookup = material_lookup()
             G = [lookup(p.material).G for p in gross.parts]
             E = [lookup(p.material).E for p in gross.parts]
             tors = solve_torsion([p.polygon for p in gross.parts], G, size, elastic_moduli=E)

@@ -26,6 +26,7 @@ from .. import CAUTION, __version__
 from ..errors import InputError
 from ..units import display_factor, fmt
 from .markup import Cell, esc, inline_svg, num, page, section, table, util_bar
+from .tables import utilisation_text as _util
 
 __all__ = ["write_selection_sheet", "write_beam_sheet", "write_section_sheet",
            "selection_sheet_html", "beam_sheet_html", "section_sheet_html", "NOT_CHECKED"]
@@ -46,10 +47,11 @@ _DEFER = ("These results do not replace a design to the building code that appli
           "reviewed by a licensed or otherwise qualified engineer before anything is built.")
 
 
-# -- small helpers ---------------------------------------------------------------------------
 BEAM_CAPTION = ("The loaded beam, to scale along x: each load case on its own lane, load heights to scale "
                 "within a lane; arrows show the direction (down: gravity, up: upward loads).")
 
+
+# -- small helpers ---------------------------------------------------------------------------
 def _u(kind, units):
     return display_factor(kind, units)
 
@@ -64,12 +66,6 @@ def _q(value, kind, units, digits=4) -> str:
 def _qu(value, kind, units, digits=4) -> str:
     """``value`` (SI) with its display unit label."""
     return f"{_q(value, kind, units, digits)} {_u(kind, units)[0]}"
-
-
-def _util(u) -> str:
-    from .tables import utilisation_text
-
-    return utilisation_text(u)
 
 
 def _today() -> str:
@@ -383,7 +379,8 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
     rtable = table(labels, cells, cls="ranked", row_classes=rcls)
     rnote = ("<p class=\"small\">Passing candidates in order of the objective (least "
              f"{esc(job.search.objective)}), then the nearest failures: the heaviest lighter "
-             "sections that fail, marked NO, closest to passing first (by rank). Utilisations are demand / limit.</p>")
+             "sections that fail, marked NO, closest to passing first (by rank). "
+             "Utilisations are demand / limit.</p>")
     parts.append(section("Ranked candidates", rtable + rnote, anchor="candidates"))
 
     assumptions = [

@@ -77,14 +77,14 @@ def ranked_table_text(sel, units: str = "si", top: int = 10) -> str:
 
 
 def ranked_table_markdown(sel, units: str = "si", top: int = 10) -> str:
-    """The ranked table as a Markdown (pipe) table, with the summary above it."""
+    """The ranked table as a Markdown (pipe) table, with the summary above it and the caution below."""
+    from .. import CAUTION
+
     labels, rows = table_rows(sel, units, top)
     out = [f"- {s}" for s in _summary(sel, units)] + [""]
     out.append("| " + " | ".join(labels) + " |")
     out.append("|" + "|".join("---:" if i in (0, 3, 4, 5, 6, 7, 8) else "---" for i in range(len(labels))) + "|")
     out += ["| " + " | ".join(r) + " |" for r in rows]
-    from .. import CAUTION
-
     out += ["", f"> {CAUTION}"]
     return "\n".join(out) + "\n"
 
