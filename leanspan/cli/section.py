@@ -124,7 +124,7 @@ def run(args) -> int:
               "them as acting together, which holds only where they are joined along the member",
               file=sys.stderr)
     if args.plot:
-        from ..report.section_plot import plot_section
+        from ..report.diagrams import plot_section
 
         plot_section(section, out, args.plot, title=Path(args.file).name, units=args.units)
     if getattr(args, "report", None):

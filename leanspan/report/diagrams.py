@@ -19,7 +19,7 @@ from ..errors import InputError
 from ..units import display_factor, fmt
 
 __all__ = ["governing", "loaded_beam_figure", "diagram_figure", "beam_and_diagrams_figure",
-           "section_figure", "figure_svg", "plot_job", "CURVE_KEYS"]
+           "section_figure", "figure_svg", "plot_job", "plot_section", "CURVE_KEYS"]
 
 # field -> (display kind, axis label)
 CURVE_KEYS = {"V": ("force", "shear V"), "M": ("moment", "moment M"), "v": ("length", "deflection v")}
@@ -500,12 +500,13 @@ def diagram_figure(solution, units: str = "si", picks: dict | None = None, fig=N
 
 
 # -- the section ------------------------------------------------------------------------
-def section_figure(section, props, units: str = "si", title: str = ""):
-    """The section to scale (equal axes) with its sizes, centroid and neutral axis."""
+def section_figure(section, props, units: str = "si", title: str = "", size: float = 4.2):
+    """The section to scale (equal axes) with its sizes, centroid and neutral axis;
+    ``size``: the figure's width and height in inches."""
     from .section_plot import draw_section
 
     plt = _mpl()
-    fig, ax = plt.subplots(figsize=(4.2, 4.2))
+    fig, ax = plt.subplots(figsize=(size, size))
     draw_section(ax, section, props, units)
     if title:
         ax.set_title(title, fontsize=9, loc="left")
@@ -527,6 +528,37 @@ def beam_and_diagrams_figure(solution, units: str = "si", title: str = ""):
     return fig
 
 
+def _plot_kind(path: Path) -> str:
+    """The file type of a ``--plot`` target; raises InputError for an unknown one or a missing folder."""
+    kind = _FORMATS.get(path.suffix.lower())
+    if kind is None:
+        raise InputError(f"--plot {path}: expected a file name ending in .svg, .png or .pdf")
+    if not (path.parent if str(path.parent) else Path(".")).is_dir():
+        raise InputError(f"--plot {path}: folder {path.parent} does not exist")
+    return kind
+
+
+def _write_figures(figs, kind: str) -> list:
+    """Render ``(path, figure)`` pairs as ``kind`` and write them atomically; returns the paths.
+    Every figure is rendered (and closed) before any file is written."""
+    from ..fileio import atomic_write
+
+    plt = _mpl()
+    blobs = []
+    try:
+        for target, fig in figs:
+            buf = io.BytesIO()
+            fig.savefig(buf, format=kind, bbox_inches="tight", dpi=150,
+                        metadata={"Date": None} if kind == "svg" else None)
+            blobs.append((target, buf.getvalue()))
+    finally:
+        for _, fig in figs:
+            plt.close(fig)
+    for target, data in blobs:
+        atomic_write(target, data)
+    return [target for target, _ in blobs]
+
+
 def plot_job(solution, path, units: str = "si", section=None, props=None, title: str = "") -> list:
     """Write the sheet's drawings to ``path`` (atomically): the loaded beam above its V, M
     and v diagrams at ``path`` itself, and the section, when given, at ``NAME-section.EXT``
@@ -537,29 +569,17 @@ def plot_job(solution, path, units: str = "si", section=None, props=None, title:
     InputError
         Unknown file type, a missing folder, or a target that is an input file.
     """
-    from ..fileio import atomic_write
-
     path = Path(path)
-    kind = _FORMATS.get(path.suffix.lower())
-    if kind is None:
-        raise InputError(f"--plot {path}: expected a file name ending in .svg, .png or .pdf")
-    if not (path.parent if str(path.parent) else Path(".")).is_dir():
-        raise InputError(f"--plot {path}: folder {path.parent} does not exist")
-    plt = _mpl()
+    kind = _plot_kind(path)
     figs = [(path, beam_and_diagrams_figure(solution, units, title))]
     if section is not None:
         figs.append((path.with_name(f"{path.stem}-section{path.suffix}"),
                      section_figure(section, props, units, title)))
-    blobs = []
-    try:
-        for tag, fig in figs:
-            buf = io.BytesIO()
-            fig.savefig(buf, format=kind, bbox_inches="tight", dpi=150,
-                        metadata={"Date": None} if kind == "svg" else None)
-            blobs.append((tag, buf.getvalue()))
-    finally:
-        for _, fig in figs:
-            plt.close(fig)
-    for target, data in blobs:
-        atomic_write(target, data)
-    return [target for target, _ in blobs]
+    return _write_figures(figs, kind)
+
+
+def plot_section(section, props, path, title: str = "", units: str = "si") -> list:
+    """Write the section drawing alone to ``path`` (.svg, .png or .pdf, atomically)."""
+    path = Path(path)
+    kind = _plot_kind(path)
+    return _write_figures([(path, section_figure(section, props, units, title, size=5.5))], kind)

@@ -7,7 +7,7 @@ from __future__ import annotations
 
 import math
 
-__all__ = ["draw_section", "plot_section"]
+__all__ = ["draw_section"]
 
 _COLOURS = ["#9bb7d4", "#d9b38c", "#a8c8a0", "#d4a5a5", "#c4b7d9", "#e0d38a"]
 
@@ -75,30 +75,3 @@ def draw_section(ax, section, props, units: str = "si"):
         ax.legend(handles.values(), handles.keys(), fontsize=8, loc="upper center", bbox_to_anchor=(0.5, -0.14),
                   ncol=min(3, len(handles)), frameon=False)
     return ax
-
-
-def plot_section(section, props, path, title: str = "", units: str = "si"):
-    """Draw the section to ``path`` (.svg, .png or .pdf), written atomically."""
-    import io
-
-    import matplotlib
-
-    matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
-
-    from ..errors import InputError
-    from ..fileio import atomic_write
-
-    fmt_ = str(path).rsplit(".", 1)[-1].lower()
-    if fmt_ not in ("svg", "png", "pdf"):
-        raise InputError(f"--plot {path}: expected a file name ending in .svg, .png or .pdf")
-    fig, ax = plt.subplots(figsize=(5.5, 5.5))
-    try:
-        draw_section(ax, section, props, units)
-        if title:
-            ax.set_title(title, fontsize=10)
-        buf = io.BytesIO()
-        fig.savefig(buf, format=fmt_, bbox_inches="tight", dpi=150)
-    finally:
-        plt.close(fig)
-    atomic_write(path, buf.getvalue())
