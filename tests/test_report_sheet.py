@@ -134,10 +134,8 @@ def test_numbers_on_the_sheet_equal_the_json(demo):
             if cand["utilisation"][check] is not None:
                 assert 0 <= float(got[f"rank{r}.{check}"]) - cand["utilisation"][check] <= 1e-3 + 1e-12
     # properties: the catalogue row screened, and the drawn section agrees with it
-    from leanspan.report.chosen import chosen_row, member_section
-
-    row = chosen_row(sel)
-    _, props = member_section(c)
+    row = sel.chosen_member.row
+    props = sel.chosen_member.properties
     for key, kind in (("Iz", "second moment"), ("A", "area"), ("Sz_bot", "section modulus")):
         shown = first_number(got[f"prop.{key}"]) * display_factor(kind, "si")[1]
         assert close_to_sig(shown, float(row[key]))
@@ -260,17 +258,16 @@ def test_beam_sheet_numbers_equal_the_json(tmp_path):
 
 
 def test_plot_files(tmp_path, demo):
-    from leanspan.report.chosen import member_section, member_solution
     from leanspan.report.diagrams import plot_job
 
     sel, _ = demo
-    secn, props = member_section(sel.chosen)
-    plot_job(member_solution(sel), tmp_path / "demo.svg", section=secn, props=props)
+    chosen = sel.chosen_member
+    plot_job(chosen.solution, tmp_path / "demo.svg", section=chosen.section, props=chosen.properties)
     names = sorted(p.name for p in tmp_path.iterdir())
     assert names == ["demo-section.svg", "demo.svg"]  # GUIDE section 4: the beam drawing at OUT itself
     assert "<svg" in (tmp_path / "demo.svg").read_text(encoding="utf-8")
     with pytest.raises(InputError, match=".svg, .png or .pdf"):
-        plot_job(member_solution(sel), tmp_path / "demo.txt")
+        plot_job(chosen.solution, tmp_path / "demo.txt")
 
 
 def test_committed_demo_sheet_matches_the_demo():
@@ -477,10 +474,8 @@ def test_loaded_beam_text_stays_inside_and_apart(name):
 def test_selection_beam_drawing_keeps_the_self_weight_note_inside(job, demo):
     """The note sits in the dead-load lane beside the 5 kN tip load of the overhang job."""
     from leanspan.fileio import load_toml
-    from leanspan.report.chosen import member_solution
-
     sel = demo[0] if job == "demo" else run_selection(parse_job(load_toml(EXAMPLES / job), EXAMPLES, "t: "))
-    model = member_solution(sel).model
+    model = sel.chosen_member.solution.model
     for units in ("si", "us"):
         fig, ax, r = _drawn(model, units=units)
         assert any(t.get_text().startswith("+ self-weight") for t in ax.texts)

@@ -11,7 +11,8 @@ import pytest
 from shapely.geometry import MultiPolygon, Polygon, box
 
 from leanspan.errors import GeometryError, InputError, LeanspanError, MaterialError, UnitsError
-from leanspan.sections.io import material_lookup, section_from_spec
+from leanspan.catalog.materials import material_lookup
+from leanspan.sections.io import section_from_spec
 from leanspan.sections.properties import family_properties
 from leanspan.sections.section import Part, Section, polygon_from_family
 

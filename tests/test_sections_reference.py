@@ -25,7 +25,8 @@ from shapely.geometry import Polygon, box
 from common import (FAMILY_CASES, NAMED_SHAPES, channel_plates, family_of, hollow_rectangle,
                     i_plates, rectangle, rel, triangle)
 from leanspan.sections.geometry import area_above, width_at
-from leanspan.sections.io import material_lookup, section_from_spec
+from leanspan.catalog.materials import material_lookup
+from leanspan.sections.io import section_from_spec
 from leanspan.sections.properties import family_properties
 from leanspan.sections.section import Section, polygon_from_family
 

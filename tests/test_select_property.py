@@ -19,7 +19,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from leanspan.select.job import parse_job
-from leanspan.select.screen import CHECKS, Candidates, screen, screen_loop
+from leanspan.select.screen import Candidates, check_names, screen, screen_loop
 from leanspan.select.search import rank_order
 
 CASES = ("dead", "imposed")
@@ -89,9 +89,10 @@ def catalogues(draw):
     rng = np.random.default_rng(draw(st.integers(0, 2 ** 32 - 1)))
     EI = 10 ** rng.uniform(5, 7.3, K)  # 0.1 .. 20 MN m^2
     S = 10 ** rng.uniform(-4.5, -3, K)
-    return Candidates(EI=EI, mass_per_length=rng.uniform(5, 80, K), Sz_top=S, Sz_bot=S * rng.uniform(0.6, 1.4, K),
-                      shear_factor=1.0 / rng.uniform(2e-3, 2e-2, K), bending_allow=rng.uniform(10e6, 300e6, K),
-                      shear_allow=rng.uniform(2e6, 150e6, K))
+    return Candidates.with_allowables(
+        EI=EI, mass_per_length=rng.uniform(5, 80, K), Sz_top=S, Sz_bot=S * rng.uniform(0.6, 1.4, K),
+        shear_factor=1.0 / rng.uniform(2e-3, 2e-2, K), bending_allow=rng.uniform(10e6, 300e6, K),
+        shear_allow=rng.uniform(2e6, 150e6, K))
 
 
 @settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.too_slow])
@@ -100,7 +101,7 @@ def test_screen_matches_loop(job, cand):
     sw = job.search.self_weight
     fast = screen(job.model, cand, sw)
     ref = screen_loop(job.model, cand, sw)
-    for c in CHECKS:
+    for c in check_names():
         a, b = fast.utilisation[c], ref.utilisation[c]
         assert np.array_equal(np.isnan(a), np.isnan(b)), c
         ok = ~np.isnan(a)
@@ -109,7 +110,7 @@ def test_screen_matches_loop(job, cand):
     np.testing.assert_allclose(fast.M_min, ref.M_min, rtol=1e-9, atol=1e-9 * np.abs(ref.M_min).max() + 1e-6)
     np.testing.assert_allclose(fast.V_abs, ref.V_abs, rtol=1e-9, atol=1e-6)
     assert list(fast.passes) == list(ref.passes)
-    df = pd.DataFrame({"mass_per_length": cand.mass_per_length, "depth": np.sqrt(cand.Sz_top),
+    df = pd.DataFrame({"mass_per_length": cand.mass_per_length, "depth": np.sqrt(cand.props["Sz_top"]),
                        "name": [f"c{i}" for i in range(cand.size)]})
     for objective in ("mass", "depth"):
         assert list(rank_order(df, fast, objective)) == list(rank_order(df, ref, objective))
@@ -128,6 +129,7 @@ def test_regression_peak_in_other_element():
             "limits": {"bending_stress": "20 MPa", "shear_stress": "3 MPa"}}
     job = parse_job(data, Path("."))
     one = lambda v: np.array([v])  # noqa: E731
-    cand = Candidates(one(3e6), one(66.0), one(4e-5), one(4e-5), one(80.0), one(2e8), one(1e8))
+    cand = Candidates.with_allowables(one(3e6), one(66.0), one(2e8), one(1e8), Sz_top=one(4e-5),
+                                      Sz_bot=one(4e-5), shear_factor=one(80.0))
     fast, ref = screen(job.model, cand, "dead"), screen_loop(job.model, cand, "dead")
     np.testing.assert_allclose(fast.M_max, ref.M_max, rtol=1e-9)

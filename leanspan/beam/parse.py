@@ -98,20 +98,18 @@ def parse_limit(value, where: str = "limit", units: UnitSystem | None = None) ->
     return DeflectionLimit(absolute=length, text=str(value))
 
 
-def _stiffness_from_section(beam, base_dir, prefix, units):
+def _stiffness_from_section(beam, base_dir, prefix, units, section_stiffness):
     spec, material = beam["section"], beam.get("material")
     if material is None:
         raise BeamError(f"{prefix}beam.material: a section needs a material to give EI")
-    try:
-        from ..sections.io import beam_stiffness
-    except ImportError:
-        raise BeamError(f"{prefix}beam.section: reading sections needs leanspan.sections.io, "
-                        f"which is not available in this installation") from None
-    EI, mass = beam_stiffness(spec, material, Path(base_dir), f"{prefix}beam.section")
+    if section_stiffness is None:
+        raise BeamError(f"{prefix}beam.section: this reader takes EI only; a section needs a "
+                        "stiffness maker (leanspan.select.member.section_stiffness)")
+    EI, mass = section_stiffness(spec, material, Path(base_dir), f"{prefix}beam.section", units)
     return float(EI), float(mass)
 
 
-def parse_beam(data: dict, base_dir: Path, field_prefix: str = "") -> BeamModel:
+def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiffness=None) -> BeamModel:
     """Build a :class:`BeamModel` from a job-file dict.
 
     Parameters
@@ -122,6 +120,11 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "") -> BeamModel:
         Folder of the job file (section files are relative to it).
     field_prefix : str
         Prepended to every field name in error messages (e.g. ``"job.toml: "``).
+    section_stiffness : callable, optional
+        ``(spec, material, base_dir, field, units) -> (EI, mass_per_length)`` for a beam that
+        names a ``section`` (this package knows no sections; the caller passes
+        :func:`leanspan.select.member.section_stiffness`). ``units`` is the file's
+        :class:`~leanspan.units.UnitSystem`, so an inline section reads bare numbers alike.
 
     Raises
     ------
@@ -188,7 +191,7 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "") -> BeamModel:
         pieces = (Stiffness(0.0, length, parse(beam["EI"], "flexural stiffness", f"{p}beam.EI", units),
                             where=f"{p}beam"),)
     elif "section" in beam:
-        EI, mass = _stiffness_from_section(beam, base_dir, p, units)
+        EI, mass = _stiffness_from_section(beam, base_dir, p, units, section_stiffness)
         pieces = (Stiffness(0.0, length, EI, where=f"{p}beam.section"),)
     else:
         pieces = []

@@ -35,7 +35,7 @@ from pathlib import Path
 from ..errors import MaterialError
 from .csvfile import column_factor, read_table, to_float
 
-__all__ = ["KINDS", "Material", "materials_table", "get_material", "load_user_materials",
+__all__ = ["KINDS", "Material", "materials_table", "get_material", "load_user_materials", "material_lookup",
            "BUILTIN_FILES"]
 
 KINDS = ("steel", "stainless", "aluminium", "timber", "glulam")
@@ -328,3 +328,14 @@ def get_material(name: str, extra=None) -> Material:
     hint = f"; near names: {', '.join(keys[k] for k in near)}" if near else \
         "; see 'leanspan materials' for the list"
     raise MaterialError(f"unknown material {name!r}{hint}")
+
+
+def material_lookup(extra=None):
+    """A function ``name -> Material`` over the built-in (and ``extra``) materials: what
+    :meth:`leanspan.sections.section.Section.composite` takes (sections know no catalogue).
+
+    >>> material_lookup()("s355").name
+    'S355'
+    """
+    table = materials_table(extra)
+    return lambda name: get_material(name, table)

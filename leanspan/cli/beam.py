@@ -31,10 +31,11 @@ def add_parser(subparsers):
 def run(args) -> int:
     from ..beam import parse_beam, solve
     from ..fileio import load_toml
+    from ..select.member import section_stiffness
 
     path = Path(args.file)
     data = load_toml(path)
-    model = parse_beam(data, path.parent, field_prefix=f"{path.name}: ")
+    model = parse_beam(data, path.parent, field_prefix=f"{path.name}: ", section_stiffness=section_stiffness)
     sol = solve(model)
     plots = []
     if args.plot:

@@ -62,7 +62,8 @@ def add_parser(sub):
 
 def compute(path, torsion=False, mesh_size=None, moment=None):
     """Everything the command reports, as a dict of SI values (JSON contract keys)."""
-    from ..sections.io import load_section_file, material_lookup, section_from_spec
+    from ..catalog.materials import material_lookup
+    from ..sections.io import load_section_file, section_from_spec
     from ..units import parse
 
     section, data = load_section_file(path)

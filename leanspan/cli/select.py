@@ -81,21 +81,17 @@ def finish(args, job, source) -> int:
 def write_plots(sel, path, units):
     """The loaded beam, V/M/v diagrams and section of the chosen (else closest) member, as
     ``--plot`` files; returns their paths."""
-    from ..report.chosen import chosen_row, member_section, member_solution
     from ..report.diagrams import plot_job
 
-    cand = sel.chosen if sel.chosen is not None else sel.rows([0])[0]
-    section, props = member_section(cand)
-    return plot_job(member_solution(sel, chosen_row(sel)), path, units, section=section, props=props,
-                    title=cand["name"])
+    chosen = sel.chosen_member
+    return plot_job(chosen.solution, path, units, section=chosen.section, props=chosen.properties,
+                    title=chosen.candidate["name"])
 
 
 def principal_axis_note(sel) -> str:
     """A reminder when the chosen section's principal axes are tilted (angles): the checks use
     Iz, which holds only if the member is restrained to bend in the vertical plane."""
-    from ..report.chosen import chosen_row
-
-    row = chosen_row(sel)
+    row = sel.table.iloc[int(sel.order[0])]
     theta = float(row.get("theta", 0.0))
     if abs(theta) < 1e-6 or abs(abs(theta) - 90.0) < 1e-6:
         return ""

@@ -24,23 +24,15 @@ from pathlib import Path
 
 from .. import CAUTION, __version__
 from ..errors import InputError
+from ..select.checks import not_checked, registered
+from ..select.chosen import check_rows
 from ..units import display_factor, fmt
 from .markup import Cell, esc, inline_svg, num, page, section, table, util_bar
 from .tables import utilisation_text as _util
 
 __all__ = ["write_selection_sheet", "write_beam_sheet", "write_section_sheet",
-           "selection_sheet_html", "beam_sheet_html", "section_sheet_html", "NOT_CHECKED"]
+           "selection_sheet_html", "beam_sheet_html", "section_sheet_html"]
 
-NOT_CHECKED = [
-    "lateral-torsional buckling (the member is assumed restrained against it)",
-    "local buckling of flanges, webs or thin walls",
-    "bearing at supports and under point loads, and web crippling",
-    "connections, fixings and notches",
-    "vibration and footfall response",
-    "fire resistance",
-    "durability: moisture, decay, corrosion, creep and long-term deflection",
-    "combined actions: axial force, torsion and bending about the minor axis",
-]
 
 _DEFER = ("These results do not replace a design to the building code that applies where the "
           "member will be built. Check the design against your local building code and have it "
@@ -126,7 +118,7 @@ def _closing(assumptions) -> str:
     out = ["<h3>Assumptions</h3><ul>"]
     out += [f"<li>{esc(a)}</li>" for a in assumptions]
     out.append("</ul><h3>Not checked</h3><p>This sheet does <b>not</b> check:</p><ul>")
-    out += [f"<li>{esc(n)}</li>" for n in NOT_CHECKED]
+    out += [f"<li>{esc(n)}</li>" for n in not_checked()]
     out.append("</ul>")
     out.append(f"<p><b>{esc(_DEFER)}</b></p>")
     out.append(f'<p class="caution">{esc(CAUTION)}</p>')
@@ -254,60 +246,41 @@ def _dims_text(cand, units):
     return ", ".join(f"{k} = {_qu(v, 'length', units)}" for k, v in cand["dims"].items())
 
 
-def _check_rows(sel, cand, row, sol, picks, units):
-    fb, fv = sel.job.limits.allowable(float(row["strength_bending"]), float(row["strength_shear"]))
-    fb, fv = float(fb), float(fv)
-    d, u = cand["demands"], cand["utilisation"]
+def _check_rows(sel, chosen, units):
+    """The checks table rows (and row classes) from the registry's rows for the chosen member."""
     rows, classes = [], []
 
     def two(a, b):
         return Cell(f"{esc(a)}<br><span class=\"small\">{esc(b)}</span>")
 
-    def add(check, combo, action, demand, limit, util, key):
-        ok = util is None or util <= 1.0
-        rows.append([two(check, combo), action, demand, limit, num(_util(util), f"chosen.utilisation.{key}"),
-                     Cell(util_bar(util, width=80)),
+    def action_text(items):
+        parts = [f"{label} {_qu(value, kind, units)}" for label, value, kind in items]
+        if not parts:
+            return "-"
+        return parts[0] if len(parts) == 1 else two(parts[0], " ".join(parts[1:]))
+
+    for r in check_rows(chosen):
+        ok = r.utilisation is None or r.utilisation <= 1.0
+        limit = _qu(r.limit, r.kind, units) + (f" ({r.limit_note})" if r.limit_note else "")
+        rows.append([two(r.check, r.combination), action_text(r.action),
+                     num(_qu(r.demand, r.kind, units), r.keys.get("demand")),
+                     num(limit, r.keys.get("limit")),
+                     num(_util(r.utilisation), r.keys.get("utilisation")),
+                     Cell(util_bar(r.utilisation, width=80)),
                      Cell("pass" if ok else "FAILS", f' class="{"pass" if ok else "fail"}"')])
         classes.append("" if ok else "fails")
-
-    M_txt = f"M max {_qu(d['M_max'], 'moment', units)}"
-    if d["M_min"] < 0:
-        M_txt = two(M_txt, f"M min {_qu(d['M_min'], 'moment', units)}")
-    add("bending", picks["M"], M_txt,
-        num(_qu(d["sigma"], "pressure", units), "chosen.demands.sigma"),
-        num(_qu(fb, "pressure", units), "limit.bending"), u["bending"], "bending")
-    add("shear", picks["V"], f"|V| max {_qu(d['V_abs'], 'force', units)}",
-        num(_qu(d["tau"], "pressure", units), "chosen.demands.tau"),
-        num(_qu(fv, "pressure", units), "limit.shear"), u["shear"], "shear")
-    defl = [(n, c) for n, r in sol.results.items() if r.kind == "combination" for c in r.deflection_checks]
-    if defl:
-        worst = max(range(len(defl)), key=lambda i: defl[i][1]["utilisation"])
-        for i, (n, c) in enumerate(defl):
-            where = f"{c['kind']} {c['span']}"
-            key = "deflection" if i == worst else f"deflection.{i}"
-            ok = c["utilisation"] <= 1.0
-            rows.append([two(f"deflection, {where}", n),
-                         two(f"v {_qu(c['v_extreme'], 'length', units)}", f"at x = {_qu(c['at'], 'span', units)}"),
-                         num(_qu(abs(c["v_extreme"]), "length", units), "chosen.demands.v_abs" if i == worst else None),
-                         num(f"{_qu(c['allowed'], 'length', units)} ({c['limit']})"),
-                         num(_util(c["utilisation"]), f"chosen.utilisation.{key}"),
-                         Cell(util_bar(c["utilisation"], width=80)),
-                         Cell("pass" if ok else "FAILS", f' class="{"pass" if ok else "fail"}"')])
-            classes.append("" if ok else "fails")
-    return rows, classes, fb, fv
+    return rows, classes
 
 
 def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10) -> str:
     """The whole selection sheet as an HTML string (see :func:`write_selection_sheet`)."""
-    from .chosen import chosen_row, member_section, member_solution
     from .diagrams import diagram_figure, governing, loaded_beam_figure, section_figure
     from .tables import table_rows
 
     job = sel.job
     title = job.title or job.model.name or "Member selection"
-    row = chosen_row(sel)
-    cand = sel.chosen if sel.chosen is not None else sel.rows([0])[0]
-    sol = member_solution(sel, row)
+    chosen = sel.chosen_member
+    row, cand, sol = chosen.row, chosen.candidate, chosen.solution
     picks = governing(sol)
     contents = [("job", "Job"), ("beam", "Loaded beam and internal forces"), ("section", "The section"),
                 ("checks", "Checks"), ("candidates", "Ranked candidates"),
@@ -345,7 +318,7 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
                       caption="Support reactions of the chosen member (envelope: the larger-magnitude bound)")
     parts.append(section("Loaded beam and internal forces", beam_fig + diag + reactions, anchor="beam"))
 
-    secn, props = member_section(cand)
+    secn, props = chosen.section, chosen.properties
     sfig = _figure(section_figure(secn, props, units, cand["name"]), "section",
                    f"{cand['name']} ({cand['material']}) to scale: {_dims_text(cand, units)}. "
                    "+ centroid; dashed blue line: neutral axis; 1 and 2: principal axes.",
@@ -356,22 +329,19 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
                    caption=f"Properties of {cand['name']} ({cand['material']}, {cand['series']})")
     parts.append(section("The section", sfig + ptable, anchor="section"))
 
-    crow, cls, fb, fv = _check_rows(sel, cand, row, sol, picks, units)
+    crow, cls = _check_rows(sel, chosen, units)
     ctable = table(["check / combination", "action", "demand", "limit", "utilisation", "", "result"],
                    crow, cls="checks", row_classes=cls)
-    note = ("<p class=\"small\">Demands: bending stress σ = M / Sz, shear stress τ = V × shear factor "
-            "(the section's peak shear stress per unit shear force), deflection |v| per span. "
-            "Utilisation = demand / limit (the bar's black mark is 1.0). Stress limits: "
-            f"{esc(job.limits.describe(units))} → bending {esc(_qu(fb, 'pressure', units))}, shear "
-            f"{esc(_qu(fv, 'pressure', units))} for {esc(cand['material'])}. Bending stress uses the "
-            "larger of M max / Sz bottom and |M min| / Sz top; deflection is checked per span against "
-            "each deflection combination's limit.</p>")
+    how = " ".join(esc(c.sentence) for c in registered())
+    note = ("<p class=\"small\">Utilisation = demand / limit (the bar's black mark is 1.0); each check "
+            f"is shown at its governing combination. Stress limits: {esc(job.limits.describe(units))} "
+            f"(for {esc(cand['material'])}). {how}</p>")
     parts.append(section("Checks", ctable + note, anchor="checks"))
 
     labels, trows = table_rows(sel, units, top)
     shown = sel.shown(top)
-    numeric = {0: "rank", 3: "mass_per_length", 4: "depth", 5: "width", 6: "bending", 7: "shear",
-               8: "deflection"}
+    numeric = {0: "rank", 3: "mass_per_length", 4: "depth", 5: "width",
+               **{6 + i: c.name for i, c in enumerate(registered())}}
     cells, rcls = [], []
     for c, r in zip(shown, trows):
         cells.append([num(v, f"rank{c['rank']}.{numeric[i]}") if i in numeric else v for i, v in enumerate(r)])
@@ -533,7 +503,7 @@ def section_sheet_html(section_obj, out: dict, units: str = "si", source: str = 
     values = dict(out)
     if section_obj.has_materials and "y_neutral" not in values:
         from ..errors import LeanspanError
-        from ..sections.io import material_lookup
+        from ..catalog.materials import material_lookup
 
         try:
             values["y_neutral"] = section_obj.composite(material_lookup()).y_neutral

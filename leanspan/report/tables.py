@@ -5,8 +5,8 @@ from __future__ import annotations
 __all__ = ["utilisation_text", "table_rows", "ranked_table_text", "ranked_table_markdown", "ranked_table_csv",
            "write_table_exports", "HEADERS"]
 
-HEADERS = ["rank", "name", "material", "mass", "depth", "width", "bending", "shear", "deflection",
-           "governing", "pass"]
+HEADERS = ["rank", "name", "material", "mass", "depth", "width", "governing", "pass"]
+"""The fixed columns; one column per registered check stands between width and governing."""
 
 
 def utilisation_text(u) -> str:
@@ -23,19 +23,22 @@ def utilisation_text(u) -> str:
 
 
 def table_rows(sel, units: str = "si", top: int = 10):
-    """Header labels (with units) and rows of display strings for the shown candidates."""
+    """Header labels (with units) and rows of display strings for the shown candidates;
+    one utilisation column per registered check."""
+    from ..select.checks import registered
     from ..units import display_factor, fmt
 
     mu, mf = display_factor("mass/length", units)
     lu, lf = display_factor("length", units)
+    checks = registered()
     labels = ["rank", "name", "material", f"mass [{mu}]", f"depth [{lu}]", f"width [{lu}]",
-              "bending", "shear", "deflection", "governing", "pass"]
+              *(c.label for c in checks), "governing", "pass"]
     rows = []
     for c in sel.shown(top):
         u = c["utilisation"]
         rows.append([str(c["rank"]), c["name"], c["material"], fmt(c["mass_per_length"] / mf, 4, strip=False),
-                     fmt(c["depth"] / lf, 4), fmt(c["width"] / lf, 4), utilisation_text(u["bending"]),
-                     utilisation_text(u["shear"]), utilisation_text(u["deflection"]), c["governing"],
+                     fmt(c["depth"] / lf, 4), fmt(c["width"] / lf, 4),
+                     *(utilisation_text(u[check.name]) for check in checks), c["governing"],
                      "yes" if c["passes"] else "NO"])
     return labels, rows
 

@@ -32,7 +32,7 @@ from ..units import UnitSystem, parse
 from .families import FAMILIES, get_family
 from .section import Part, Section, check_polygon, polygon_from_family, transform
 
-__all__ = ["section_from_spec", "load_section_file", "beam_stiffness", "material_lookup"]
+__all__ = ["section_from_spec", "load_section_file"]
 
 _PLACEMENT = ("shape", "material", "at", "rotate", "mirror", "units")
 _SECTION_KEYS = ("part", "hole", "units", "material", "title", "name", "description")
@@ -179,45 +179,3 @@ def load_section_file(path) -> tuple[Section, dict]:
         return section_from_spec(data), data
     except InputError as exc:
         raise type(exc)(f"{path}: {exc}") from None
-
-
-def material_lookup(extra=None):
-    """A function ``name -> Material`` over the built-in (and ``extra``) materials."""
-    from ..catalog.materials import get_material
-
-    return lambda name: get_material(name, extra)
-
-
-def beam_stiffness(spec, material, base_dir, field="beam.section", units=None):
-    """EIz (N m²) and mass per length (kg/m) of a section for a beam.
-
-    Parameters
-    ----------
-    spec : str or dict
-        A section file path (relative to ``base_dir``) or an inline section table.
-    material : str or None
-        Material of every part that names none.
-    """
-    if isinstance(spec, str):
-        path = Path(base_dir) / spec
-        from ..fileio import load_toml
-
-        data = load_toml(path)
-        where = str(path)
-    elif isinstance(spec, dict):
-        data, where = spec, field
-    else:
-        raise InputError(f"{field}: expected a section file name or a table, got {spec!r}")
-    if material is not None:
-        data = dict(data)
-        data["material"] = material
-    try:
-        section = section_from_spec(data, "section" if isinstance(spec, str) else field, units)
-    except InputError as exc:
-        if isinstance(spec, str):
-            raise type(exc)(f"{where}: {exc}") from None
-        raise
-    if not section.has_materials:
-        raise InputError(f"{field}: no material; give `material` beside the section or in its parts")
-    comp = section.composite(material_lookup())
-    return comp.EIz, comp.mass_per_length

@@ -30,8 +30,14 @@ from __future__ import annotations
 from dataclasses import dataclass
 from pathlib import Path
 
-from ..errors import SelectionError
-from ..units import UnitSystem, parse
+import numpy as np
+
+from ..beam import parse_beam
+from ..catalog.materials import get_material, materials_table
+from ..catalog.table import check_shape_names
+from ..errors import LeanspanError, SelectionError
+from ..units import UnitSystem, display_factor, fmt, parse
+from .checks import limit_keys
 
 __all__ = ["SearchSpec", "Limits", "Job", "parse_job"]
 
@@ -67,6 +73,7 @@ class Limits:
     bending_stress: float | None = None
     shear_stress: float | None = None
     stress_factor: float | None = None
+    extra: tuple = ()  # (key, value) of the [limits] keys that other registered checks read
 
     def __post_init__(self):
         if self.stress_factor is not None and not self.stress_factor > 0:
@@ -80,20 +87,28 @@ class Limits:
             raise SelectionError(f"limits.{missing}: missing; give bending_stress and shear_stress "
                                  "(e.g. \"165 MPa\") or stress_factor (x each material's strengths)")
 
+    def bending_allowable(self, strength):
+        """Allowable bending stress for materials of bending ``strength`` (array, Pa)."""
+        return self._allowable(self.bending_stress, strength)
+
+    def shear_allowable(self, strength):
+        """Allowable shear stress for materials of shear ``strength`` (array, Pa)."""
+        return self._allowable(self.shear_stress, strength)
+
+    def _allowable(self, absolute, strength):
+        strength = np.asarray(strength, float)
+        return np.full(strength.shape, absolute) if absolute is not None else self.stress_factor * strength
+
     def allowable(self, strength_bending, strength_shear):
         """Arrays of allowable bending and shear stress for the candidates' materials."""
-        import numpy as np
+        return self.bending_allowable(strength_bending), self.shear_allowable(strength_shear)
 
-        fb = (np.full(np.shape(strength_bending), self.bending_stress) if self.bending_stress is not None
-              else self.stress_factor * np.asarray(strength_bending, float))
-        fv = (np.full(np.shape(strength_shear), self.shear_stress) if self.shear_stress is not None
-              else self.stress_factor * np.asarray(strength_shear, float))
-        return fb, fv
+    def get(self, key, default=None):
+        """A ``[limits]`` value read for another check (``extra``), else ``default``."""
+        return dict(self.extra).get(key, default)
 
     def describe(self, units: str = "si") -> str:
         """The limits in words, stresses in the display unit system."""
-        from ..units import display_factor, fmt
-
         label, factor = display_factor("pressure", units)
         parts = []
         if self.stress_factor is not None:
@@ -126,8 +141,6 @@ def _names(value, field):
 
 def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
     """Build a :class:`Job` from the whole job TOML; errors name the field."""
-    from ..beam import parse_beam
-
     p = where
     if not isinstance(data.get("beam"), dict):
         raise SelectionError(f"{p}beam: missing [beam] table")
@@ -144,9 +157,10 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
     for key in search_t:
         if key not in _SEARCH_KEYS:
             raise SelectionError(f"{p}search.{key}: unknown key; expected {', '.join(sorted(_SEARCH_KEYS))}")
+    known_limits = _LIMIT_KEYS | set(limit_keys())
     for key in limits_t:
-        if key not in _LIMIT_KEYS:
-            raise SelectionError(f"{p}limits.{key}: unknown key; expected {', '.join(sorted(_LIMIT_KEYS))}")
+        if key not in known_limits:
+            raise SelectionError(f"{p}limits.{key}: unknown key; expected {', '.join(sorted(known_limits))}")
     units = UnitSystem.from_spec(data.get("units"), f"{p}units")
 
     families = _names(search_t.get("families"), f"{p}search.families")
@@ -208,6 +222,8 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
         shear_stress=parse(limits_t["shear_stress"], "pressure", f"{p}limits.shear_stress", units)
         if "shear_stress" in limits_t else None,
         stress_factor=_factor(limits_t.get("stress_factor"), f"{p}limits.stress_factor"),
+        extra=tuple((k, _limit_value(limits_t[k], kind, f"{p}limits.{k}", units))
+                    for k, kind in limit_keys().items() if k in limits_t and k not in _LIMIT_KEYS),
     )
     if series:
         families = (families or ()) + series
@@ -225,12 +241,19 @@ def _factor(value, field):
     return float(value)
 
 
+def _limit_value(value, kind, field, units):
+    """A ``[limits]`` value of a registered check: a number, a text or a quantity of ``kind``."""
+    if kind == "number":
+        return _factor(value, field)
+    if kind == "text":
+        if not isinstance(value, str):
+            raise SelectionError(f"{field}: expected a text value, got {value!r}")
+        return value
+    return parse(value, kind, field, units)
+
+
 def _check_names(families, series, materials, mat_file, p):
     """Fail early, naming the field, on a series, family or material nobody knows."""
-    from ..catalog.materials import get_material, materials_table
-    from ..catalog.table import check_shape_names
-    from ..errors import LeanspanError
-
     for field, names in (("families", families), ("series", series)):
         try:
             check_shape_names(names, "family" if field == "families" else "series")

@@ -10,65 +10,160 @@ best of a grid in every element polished by Newton steps on the exact polynomial
 Both equal the exact extremes to round-off. With springs the
 unit cases are solved for all K stiffnesses as one batch and combined the same way.
 
-:func:`screen_loop` does the same checks one candidate at a time through
+The result is the beam's action effects per candidate and combination
+(:class:`~leanspan.select.checks.Effects`); :func:`evaluate` then applies every
+registered check (:mod:`leanspan.select.checks`) to them.
+
+:func:`screen_loop` finds the same effects one candidate at a time through
 :func:`leanspan.beam.solve`: the independent reference the tests compare with.
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 
-__all__ = ["Candidates", "Screen", "screen", "screen_loop", "CHECKS"]
+from ..beam import G, respond, solve
+from .checks import Effects, registered
+from .job import Limits
+from .member import beam_with_member
 
-CHECKS = ("bending", "shear", "deflection")
+__all__ = ["Candidates", "Screen", "screen", "screen_loop", "evaluate", "check_names"]
+
 _SAMPLES = 12  # grid points per element before the Newton polish
 _BLOCK = 2048  # candidates per block (keeps the grid work in cache)
 
 
+def check_names() -> tuple:
+    """Names of the registered checks, in order (the utilisation keys)."""
+    return tuple(c.name for c in registered())
+
+
 @dataclass(frozen=True)
 class Candidates:
-    """Arrays (K,) describing candidate members (SI units)."""
+    """Candidate members (SI units): arrays (K,).
+
+    ``props`` holds the catalogue columns the checks read (``Sz_top``, ``shear_factor``,
+    ``strength_bending`` ...); ``limits`` is the job's :class:`~leanspan.select.job.Limits`.
+    """
 
     EI: np.ndarray
     mass_per_length: np.ndarray
-    Sz_top: np.ndarray
-    Sz_bot: np.ndarray
-    shear_factor: np.ndarray
-    bending_allow: np.ndarray
-    shear_allow: np.ndarray
+    props: dict = field(default_factory=dict)
+    limits: object = None
+
+    @classmethod
+    def with_allowables(cls, EI, mass_per_length, bending_allow, shear_allow, **props) -> "Candidates":
+        """Candidates whose allowable bending and shear stresses are given directly (arrays (K,)).
+
+        >>> c = Candidates.with_allowables([2e6], [30.0], [165e6], [95e6], Sz_top=[1e-4],
+        ...                                Sz_bot=[1e-4], shear_factor=[500.0])
+        >>> float(c.limits.bending_allowable(c.props["strength_bending"])[0])
+        165000000.0
+        """
+        arrays = {k: np.asarray(v, float) for k, v in props.items()}
+        arrays.update(strength_bending=np.asarray(bending_allow, float),
+                      strength_shear=np.asarray(shear_allow, float))
+        return cls(np.asarray(EI, float), np.asarray(mass_per_length, float), arrays, Limits(stress_factor=1.0))
 
     @property
     def size(self) -> int:
         return int(np.size(self.EI))
 
     def take(self, index) -> "Candidates":
-        return Candidates(*(np.asarray(getattr(self, f))[index] for f in self.__dataclass_fields__))
+        return Candidates(np.asarray(self.EI)[index], np.asarray(self.mass_per_length)[index],
+                          {k: np.asarray(v)[index] for k, v in self.props.items()}, self.limits)
 
 
 @dataclass(frozen=True)
 class Screen:
-    """Demands and utilisations per candidate (arrays (K,), SI units).
+    """Effects, demands and utilisations per candidate.
 
-    ``M_max``/``M_min`` over strength combinations (sagging +), ``V_abs`` the largest
-    shear magnitude, ``sigma`` the peak bending stress at either extreme fibre,
-    ``tau`` the peak shear stress, ``deflection_ratio`` the largest deflection / allowed
-    over every span and overhang of every deflection combination (NaN if none),
-    ``utilisation`` a dict of the three checks, ``governing`` the name of the largest,
-    ``passes`` all utilisations <= 1.
+    ``effects`` are the beam's action effects (K, C); for each registered check (by
+    name) ``demand``, ``allowable`` and ``combination`` (the index of the governing
+    combination, -1 where none applies) are (K,) arrays at the combination of the
+    largest utilisation; ``utilisation`` (K,) NaN where the check does not apply (no
+    deflection combination); ``governing`` the name of the largest; ``passes`` all
+    utilisations <= 1.
     """
 
-    M_max: np.ndarray
-    M_min: np.ndarray
-    V_abs: np.ndarray
-    sigma: np.ndarray
-    tau: np.ndarray
-    v_abs: np.ndarray
-    deflection_ratio: np.ndarray
+    effects: Effects
+    demand: dict
+    allowable: dict
+    combination: dict
     utilisation: dict
     governing: np.ndarray
     passes: np.ndarray
+
+    def _over(self, name, reduce):
+        a = getattr(self.effects, name)
+        return reduce.reduce(a, axis=1) if a.shape[1] else np.full(a.shape[0], np.nan)
+
+    @property
+    def M_max(self):
+        """Largest sagging moment over the strength combinations (K,)."""
+        return self._over("M_max", np.fmax)
+
+    @property
+    def M_min(self):
+        return self._over("M_min", np.fmin)
+
+    @property
+    def V_abs(self):
+        return self._over("V_abs", np.fmax)
+
+    @property
+    def sigma(self):
+        return self.demand.get("bending")
+
+    @property
+    def tau(self):
+        return self.demand.get("shear")
+
+    @property
+    def v_abs(self):
+        return self.demand.get("deflection")
+
+    @property
+    def deflection_ratio(self):
+        return self.utilisation.get("deflection")
+
+    def demands(self, k: int) -> dict:
+        """The demands of candidate ``k`` (JSON ``demands``): the effects and each check's own."""
+        out = {"M_max": float(self.M_max[k]), "M_min": float(self.M_min[k]), "V_abs": float(self.V_abs[k])}
+        for c in registered():
+            if c.name in self.demand:
+                v = float(self.demand[c.name][k])
+                out[c.demand_key] = None if np.isnan(v) else v
+        return out
+
+
+def evaluate(effects: Effects, cand: Candidates) -> Screen:
+    """Apply every registered check to ``effects`` (K, C) of candidates ``cand``."""
+    K = cand.size
+    demand, allow, combo, util = {}, {}, {}, {}
+    rows = np.arange(K)
+    for check in registered():  # a small fixed set
+        d = np.asarray(check.demand(effects, cand.props), float)
+        a = np.broadcast_to(np.asarray(check.allowable(cand.props, cand.limits, effects), float), d.shape)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            u = d / a
+        if u.shape[1] == 0:
+            u = d = a = np.full((K, 1), np.nan)
+        filled = np.where(np.isnan(u), -np.inf, u)
+        j = np.argmax(filled, axis=1)
+        none = np.isneginf(filled[rows, j])
+        util[check.name] = np.where(none, np.nan, u[rows, j])
+        demand[check.name] = np.where(none, np.nan, d[rows, j])
+        allow[check.name] = np.where(none, np.nan, a[rows, j])
+        combo[check.name] = np.where(none, -1, j)
+    names = list(util)
+    stack = np.stack([util[c] for c in names], axis=1)
+    filled = np.where(np.isnan(stack), -np.inf, stack)
+    governing = np.asarray(names, dtype=object)[np.argmax(filled, axis=1)]
+    passes = np.all(np.isnan(stack) | (stack <= 1.0), axis=1)
+    return Screen(effects, demand, allow, combo, util, governing, passes)
 
 
 def _grid(lengths):
@@ -188,8 +283,11 @@ def screen(model, cand: Candidates, self_weight_case=None) -> Screen:
     self_weight_case : str, optional
         The case carrying each candidate's weight (default: the model's ``self_weight``).
     """
-    from ..beam import G, respond
+    return evaluate(screen_effects(model, cand, self_weight_case), cand)
 
+
+def screen_effects(model, cand: Candidates, self_weight_case=None) -> Effects:
+    """The action effects (K, C) of every candidate under every combination, vectorised."""
     sw_case = self_weight_case if self_weight_case is not None else model.self_weight
     resp = respond(model, EI=np.asarray(cand.EI, float), unit_self_weight=sw_case is not None,
                    self_weight_case=sw_case)
@@ -205,47 +303,32 @@ def screen(model, cand: Candidates, self_weight_case=None) -> Screen:
     else:
         v_field, v_scale = resp.v, None
 
-    M_max = np.full(K, -np.inf)
-    M_min = np.full(K, np.inf)
-    V_abs = np.zeros(K)
-    ratio = np.full(K, np.nan)
-    v_abs = np.full(K, np.nan)
+    C = len(resp.combos)
+    out = {k: np.full((K, C), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
     mids = x0 + lengths / 2
-    for combo in resp.combos:  # a small set
+    for ci, combo in enumerate(resp.combos):  # a small set
         F = np.asarray(combo.factors, float)
         t = mass_g * (F[sw] if sw is not None else 0.0)
         if combo.check == "strength":
             m = _field_extremes(resp.M, F, sw, t, None, lengths, x0, all_elems)
             v = _field_extremes(resp.V, F, sw, t, None, lengths, x0, all_elems)
-            M_max = np.maximum(M_max, m[1][0])
-            M_min = np.minimum(M_min, m[-1][0])
-            V_abs = np.maximum(V_abs, np.maximum(np.abs(v[1][0]), np.abs(v[-1][0])))
+            out["M_max"][:, ci], out["M_min"][:, ci] = m[1][0], m[-1][0]
+            out["V_abs"][:, ci] = np.maximum(np.abs(v[1][0]), np.abs(v[-1][0]))
         elif combo.limit is not None:
+            ratio = np.full(K, np.nan)
             for a, b, _kind in resp.spans:
                 elems = np.nonzero((mids > a) & (mids < b))[0]
                 if elems.size == 0:
                     continue
                 d = _field_extremes(v_field, F, sw, t, v_scale, lengths, x0, elems)
                 mag = np.maximum(np.abs(d[1][0]), np.abs(d[-1][0]))
-                r = mag / float(combo.limit.allowed(b - a))
+                allowed = float(combo.limit.allowed(b - a))
+                r = mag / allowed
                 upd = ~(r <= ratio)  # NaN-aware maximum
                 ratio = np.where(upd, r, ratio)
-                v_abs = np.where(upd, mag, v_abs)
-    S_min = np.minimum(cand.Sz_top, cand.Sz_bot)
-    # peak fibre stress: sagging M gives M/S at both fibres, hogging |M|/S likewise
-    sigma = np.maximum(np.maximum(M_max, 0.0), np.maximum(-M_min, 0.0)) / S_min
-    tau = V_abs * cand.shear_factor
-    util = {"bending": sigma / cand.bending_allow, "shear": tau / cand.shear_allow,
-            "deflection": ratio}
-    return _finish(M_max, M_min, V_abs, sigma, tau, v_abs, ratio, util)
-
-
-def _finish(M_max, M_min, V_abs, sigma, tau, v_abs, ratio, util):
-    stack = np.stack([util[c] for c in CHECKS], axis=1)
-    filled = np.where(np.isnan(stack), -np.inf, stack)
-    governing = np.asarray(CHECKS, dtype=object)[np.argmax(filled, axis=1)]
-    passes = np.all(np.isnan(stack) | (stack <= 1.0), axis=1)
-    return Screen(M_max, M_min, V_abs, sigma, tau, v_abs, ratio, util, governing, passes)
+                out["v_abs"][:, ci] = np.where(upd, mag, out["v_abs"][:, ci])
+                out["v_allowed"][:, ci] = np.where(upd, allowed, out["v_allowed"][:, ci])
+    return Effects(**out, combinations=tuple(model.combinations))
 
 
 def screen_loop(model, cand: Candidates, self_weight_case=None) -> Screen:
@@ -253,35 +336,20 @@ def screen_loop(model, cand: Candidates, self_weight_case=None) -> Screen:
 
     Slow on purpose: the reference the vectorised :func:`screen` is tested against.
     """
-    import dataclasses
-
-    from ..beam import Stiffness, solve
-
     sw_case = self_weight_case if self_weight_case is not None else model.self_weight
-    K = cand.size
-    out = {k: np.zeros(K) for k in ("M_max", "M_min", "V_abs", "v_abs", "ratio")}
+    K, C = cand.size, len(model.combinations)
+    out = {k: np.full((K, C), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
     for k in range(K):
-        m = dataclasses.replace(
-            model, stiffness=(Stiffness(0.0, model.length, float(cand.EI[k])),),
-            mass_per_length=float(cand.mass_per_length[k]) if sw_case is not None else None,
-            self_weight=sw_case)
+        m = beam_with_member(model, EI=cand.EI[k], mass_per_length=cand.mass_per_length[k],
+                             self_weight=sw_case)
         sol = solve(m)
-        mx, mn, va, ratio, vabs = -np.inf, np.inf, 0.0, np.nan, np.nan
-        for c in m.combinations:
+        for ci, c in enumerate(m.combinations):
             r = sol.results[c.name]
             if c.check == "strength":
-                mx = max(mx, r.extremes["M_max"].value)
-                mn = min(mn, r.extremes["M_min"].value)
-                va = max(va, abs(r.extremes["V_max"].value), abs(r.extremes["V_min"].value))
-            else:
-                for row in r.deflection_checks:
-                    if np.isnan(ratio) or row["utilisation"] > ratio:
-                        ratio, vabs = row["utilisation"], abs(row["v_extreme"])
-        out["M_max"][k], out["M_min"][k], out["V_abs"][k] = mx, mn, va
-        out["ratio"][k], out["v_abs"][k] = ratio, vabs
-    S_min = np.minimum(cand.Sz_top, cand.Sz_bot)
-    sigma = np.maximum(np.maximum(out["M_max"], 0.0), np.maximum(-out["M_min"], 0.0)) / S_min
-    tau = out["V_abs"] * cand.shear_factor
-    util = {"bending": sigma / cand.bending_allow, "shear": tau / cand.shear_allow,
-            "deflection": out["ratio"]}
-    return _finish(out["M_max"], out["M_min"], out["V_abs"], sigma, tau, out["v_abs"], out["ratio"], util)
+                out["M_max"][k, ci] = r.extremes["M_max"].value
+                out["M_min"][k, ci] = r.extremes["M_min"].value
+                out["V_abs"][k, ci] = max(abs(r.extremes["V_max"].value), abs(r.extremes["V_min"].value))
+            elif r.deflection_checks:
+                row = max(r.deflection_checks, key=lambda row: row["utilisation"])
+                out["v_abs"][k, ci], out["v_allowed"][k, ci] = abs(row["v_extreme"]), row["allowed"]
+    return evaluate(Effects(**out, combinations=tuple(model.combinations)), cand)

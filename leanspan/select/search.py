@@ -6,12 +6,18 @@ Like ``scipy.optimize``, a search where nothing passes is a result
 
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 
+from ..catalog.table import catalog_table, row_dims
 from ..errors import SelectionError
-from .screen import CHECKS, Candidates, Screen, screen
+from .checks import registered
+from .chosen import chosen_member
+from .member import member_arrays
+from .screen import Candidates, Screen, check_names, screen
 
 __all__ = ["Selection", "run_selection", "candidate_table", "candidates_from_table"]
 
@@ -84,11 +90,16 @@ class Selection:
     def to_json(self, top: int = 10) -> dict:
         return {"chosen": self.chosen, "candidates": self.shown(top), "screened": self.screened}
 
+    @cached_property
+    def chosen_member(self):
+        """The chosen (else the closest) candidate as a solved member: its row, section and
+        the beam solution with its own EI and self-weight
+        (:class:`~leanspan.select.chosen.ChosenMember`), built on first use."""
+        return chosen_member(self)
+
 
 def candidate_table(search):
     """The catalogue rows a :class:`~leanspan.select.job.SearchSpec` asks for."""
-    from ..catalog.table import catalog_table
-
     df = catalog_table(series=None, families=list(search.families) if search.families else None,
                        materials=list(search.materials) if search.materials else None,
                        user_csv=search.catalog, max_depth=search.max_depth, min_depth=search.min_depth,
@@ -99,8 +110,6 @@ def candidate_table(search):
 
 def _why_empty(search) -> str:
     """Which part of the search leaves no rows: the size limits or the materials."""
-    import dataclasses
-
     no_sizes = dataclasses.replace(search, max_depth=None, min_depth=None, max_width=None, min_width=None)
     if len(candidate_table(no_sizes)):
         return ("the size limits (" + ", ".join(f"{k} {v * 1000:g} mm" for k in
@@ -113,24 +122,25 @@ def _why_empty(search) -> str:
 
 
 def candidates_from_table(df, limits) -> Candidates:
-    """Arrays for :func:`screen` from catalogue rows (E x Iz, allowable stresses ...)."""
-    col = lambda k: df[k].to_numpy(float)  # noqa: E731
-    fb, fv = limits.allowable(col("strength_bending"), col("strength_shear"))
-    return Candidates(EI=col("E") * col("Iz"), mass_per_length=col("mass_per_length"),
-                      Sz_top=col("Sz_top"), Sz_bot=col("Sz_bot"), shear_factor=col("shear_factor"),
-                      bending_allow=fb, shear_allow=fv)
+    """Arrays for :func:`screen` from catalogue rows: each member's EI and mass, and the
+    columns the registered checks read."""
+    columns = sorted({c for check in registered() for c in check.columns})
+    missing = [c for c in columns if c not in df]
+    if missing:
+        raise SelectionError(f"search: the catalogue has no column {missing[0]!r}, which a check needs")
+    arrays = member_arrays(df, columns)
+    return Candidates(arrays.pop("EI"), arrays.pop("mass_per_length"), arrays, limits)
 
 
 def _rows(df, res: Screen, order, positions) -> list:
-    from ..catalog.table import row_dims
-
     names = df["name"].to_numpy()
     out = []
     for pos in positions:
         k = int(order[pos])
         rank = pos + 1
         row = df.iloc[k]
-        util = {c: (None if np.isnan(res.utilisation[c][k]) else float(res.utilisation[c][k])) for c in CHECKS}
+        util = {c: (None if np.isnan(res.utilisation[c][k]) else float(res.utilisation[c][k]))
+                for c in check_names()}
         out.append({
             "rank": rank,
             "name": str(names[k]),
@@ -144,10 +154,7 @@ def _rows(df, res: Screen, order, positions) -> list:
             "utilisation": util,
             "governing": str(res.governing[k]),
             "passes": bool(res.passes[k]),
-            "demands": {"M_max": float(res.M_max[k]), "M_min": float(res.M_min[k]),
-                        "V_abs": float(res.V_abs[k]), "sigma": float(res.sigma[k]),
-                        "tau": float(res.tau[k]),
-                        "v_abs": None if np.isnan(res.v_abs[k]) else float(res.v_abs[k])},
+            "demands": res.demands(k),
         })
     return out
 
@@ -158,7 +165,7 @@ def rank_order(df, res: Screen, objective: str) -> np.ndarray:
     mass = df["mass_per_length"].to_numpy(float)
     depth = df["depth"].to_numpy(float)
     names = df["name"].to_numpy().astype(str)
-    worst = np.nanmax(np.stack([res.utilisation[c] for c in CHECKS], axis=1), axis=1)
+    worst = np.fmax.reduce(np.stack([res.utilisation[c] for c in check_names()], axis=1), axis=1)
     first, second = (mass, depth) if objective == "mass" else (depth, mass)
     p = np.flatnonzero(res.passes)
     f = np.flatnonzero(~res.passes)

@@ -1,0 +1,195 @@
+"""The check registry: each check is one declarative entry.
+
+A :class:`Check` says which catalogue columns it needs, how to compute its demand
+for every candidate and combination at once from the beam's action effects
+(:class:`Effects`, arrays (K candidates, C combinations)), its allowable, its label
+and display units, the sentence it adds to the sheet, and which of the "not checked"
+topics it covers. The screen, the per-candidate reference loop, the ranked table,
+the JSON, the sheet's checks and its "not checked" list all read the registry, so
+adding a check is one module (and its tests) that calls :func:`register`.
+
+Examples
+--------
+>>> [c.name for c in registered()][:3]
+['bending', 'shear', 'deflection']
+>>> "lateral-torsional buckling (the member is assumed restrained against it)" in not_checked()
+True
+"""
+
+from __future__ import annotations
+
+import contextlib
+from dataclasses import dataclass, field
+from typing import Callable
+
+import numpy as np
+
+from ...errors import SelectionError
+
+__all__ = ["Check", "Effects", "CheckRow", "register", "unregister", "registered", "get_check",
+           "registered_check", "not_checked", "NOT_CHECKED", "limit_keys"]
+
+#: What a sizing run may leave unchecked: topic -> the sentence on the sheet. A check that
+#: covers a topic (``Check.covers``) takes its sentence off the list.
+NOT_CHECKED = {
+    "lateral_torsional_buckling": "lateral-torsional buckling (the member is assumed restrained against it)",
+    "local_buckling": "local buckling of flanges, webs or thin walls",
+    "bearing": "bearing at supports and under point loads, and web crippling",
+    "connections": "connections, fixings and notches",
+    "vibration": "vibration and footfall response",
+    "fire": "fire resistance",
+    "durability": "durability: moisture, decay, corrosion, creep and long-term deflection",
+    "combined_actions": "combined actions: axial force, torsion and bending about the minor axis",
+}
+
+
+@dataclass(frozen=True)
+class Effects:
+    """The beam's action effects for K candidates under C combinations (SI units).
+
+    Every array is (K, C); entries are NaN where a combination is not of the kind that
+    gives them (``M_max``, ``M_min``, ``V_abs`` come from strength combinations,
+    ``v_abs`` and ``v_allowed`` from deflection combinations: the worst span's
+    deflection magnitude and its allowed value).
+    """
+
+    M_max: np.ndarray
+    M_min: np.ndarray
+    V_abs: np.ndarray
+    v_abs: np.ndarray
+    v_allowed: np.ndarray
+    combinations: tuple  # the model's Combination objects, in column order
+
+    def take(self, index) -> "Effects":
+        """The effects of candidates ``index`` (keeps the (K, C) shape)."""
+        index = np.atleast_1d(index)
+        return Effects(*(getattr(self, f)[index] for f in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")),
+                       self.combinations)
+
+
+@dataclass(frozen=True)
+class CheckRow:
+    """One line of the sheet's checks table, in SI values (the report formats them).
+
+    ``action`` lists ``(label, value, display kind)`` of the forces behind the demand;
+    ``demand`` and ``limit`` are in ``kind`` units; ``keys`` names the values for the
+    sheet's ``data-key`` attributes (``demand``, ``limit``, ``utilisation``).
+    """
+
+    check: str
+    combination: str
+    action: tuple
+    demand: float
+    limit: float
+    kind: str
+    utilisation: float | None
+    limit_note: str = ""
+    where: str = ""
+    keys: dict = field(default_factory=dict)
+
+
+@dataclass(frozen=True)
+class Check:
+    """One check: what it needs, how its demand and allowable are found, how it is shown.
+
+    Attributes
+    ----------
+    name : str
+        The key in ``utilisation`` (JSON) and the check's column in tables.
+    label : str
+        The column heading and the check's name on the sheet.
+    columns : tuple of str
+        Catalogue columns the demand and allowable read (``props[column]`` arrays (K,)).
+    demand : callable
+        ``demand(effects, props) -> (K, C)``: the demand of every candidate under every
+        combination (NaN where the combination does not apply).
+    allowable : callable
+        ``allowable(props, limits, effects) -> array`` broadcasting to (K, C).
+    kind : str
+        Display kind of the demand and allowable (``"pressure"``, ``"length"`` ...,
+        see :data:`leanspan.units.DISPLAY`).
+    demand_key : str
+        Key of the demand in a candidate's ``demands`` (``"sigma"``).
+    sentence : str
+        How the check works, for the sheet.
+    covers : tuple of str
+        Topics of :data:`NOT_CHECKED` this check answers.
+    limit_keys : dict
+        ``[limits]`` keys this check reads -> their kind (``"pressure"``, ``"number"``,
+        ``"text"``); parsed into ``Limits.extra``.
+    action : callable, optional
+        ``action(effects_row, combination_index) -> ((label, value, kind), ...)`` for the sheet.
+    sheet_rows : callable, optional
+        ``sheet_rows(chosen) -> [CheckRow]`` replacing the one default row (e.g. one row
+        per span); ``chosen`` is a :class:`leanspan.select.chosen.ChosenMember`.
+    """
+
+    name: str
+    label: str
+    columns: tuple
+    demand: Callable
+    allowable: Callable
+    kind: str
+    demand_key: str
+    sentence: str
+    covers: tuple = ()
+    limit_keys: dict = field(default_factory=dict)
+    action: Callable | None = None
+    sheet_rows: Callable | None = None
+
+    def __post_init__(self):
+        if not self.name.isidentifier():
+            raise SelectionError(f"check name {self.name!r}: expected a plain identifier")
+        unknown = set(self.covers) - set(NOT_CHECKED)
+        if unknown:
+            raise SelectionError(f"check {self.name!r}: covers unknown topic {sorted(unknown)[0]!r}; "
+                                 f"expected one of {', '.join(NOT_CHECKED)}")
+
+
+_REGISTRY: dict[str, Check] = {}
+
+
+def register(check: Check) -> Check:
+    """Add ``check`` to the registry (after those already there); returns it."""
+    if check.name in _REGISTRY:
+        raise SelectionError(f"check {check.name!r} is registered already")
+    _REGISTRY[check.name] = check
+    return check
+
+
+def unregister(name: str) -> None:
+    """Remove the check called ``name``."""
+    _REGISTRY.pop(name, None)
+
+
+@contextlib.contextmanager
+def registered_check(check: Check):
+    """``with registered_check(c):`` registers ``c`` for the block only (tests, one-off runs)."""
+    register(check)
+    try:
+        yield check
+    finally:
+        unregister(check.name)
+
+
+def registered() -> tuple:
+    """The registered checks, in order."""
+    return tuple(_REGISTRY.values())
+
+
+def get_check(name: str) -> Check:
+    return _REGISTRY[name]
+
+
+def not_checked() -> list:
+    """The "not checked" sentences left after every registered check's ``covers``."""
+    covered = {t for c in _REGISTRY.values() for t in c.covers}
+    return [text for topic, text in NOT_CHECKED.items() if topic not in covered]
+
+
+def limit_keys() -> dict:
+    """Every ``[limits]`` key the registered checks read -> its kind."""
+    out = {}
+    for c in _REGISTRY.values():
+        out.update(c.limit_keys)
+    return out

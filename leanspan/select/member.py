@@ -1,0 +1,197 @@
+"""The member: a section of a material, as the beam and the checks see it.
+
+One place turns a section + material into the numbers a beam and the checks need:
+flexural stiffness EI (about the horizontal axis), EA, GJ, mass per length and the
+section properties. :func:`member_from_section` serves any section (composites
+included, transformed by the materials' moduli); :func:`member_from_row` a catalogue
+row; :func:`member_arrays` the whole candidate table at once (arrays along the rows);
+:func:`section_stiffness` is what ``leanspan beam`` hands the beam parser for a
+``section`` + ``material``; :func:`beam_with_member` puts a member into a beam model.
+
+Examples
+--------
+>>> from leanspan.sections.io import section_from_spec
+>>> from leanspan.catalog.materials import material_lookup
+>>> sec = section_from_spec({"units": "mm", "material": "C24",
+...                          "part": [{"shape": "rectangle", "b": 100, "d": 200}]})
+>>> m = member_from_section(sec, material_lookup())
+>>> round(m.EI / 1e3, 1), round(m.mass_per_length, 3)   # 11 GPa x b d^3 / 12; 420 kg/m^3 x A
+(733.3, 8.4)
+"""
+
+from __future__ import annotations
+
+import dataclasses
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from ..beam import Stiffness
+from ..catalog.materials import material_lookup
+from ..catalog.table import row_dims
+from ..errors import InputError, LeanspanError
+from ..fileio import load_toml
+from ..sections.io import section_from_spec
+from ..sections.section import Section, polygon_from_family
+from ..sections.thin_walled import FAMILY_DIMENSIONS, thin_walled_torsion
+
+__all__ = ["Member", "member_from_section", "member_from_row", "member_arrays", "family_section",
+           "section_stiffness", "beam_with_member"]
+
+
+@dataclass(frozen=True)
+class Member:
+    """A section of a material (SI units).
+
+    Attributes
+    ----------
+    name, material : str
+    EI : float
+        Flexural stiffness about the horizontal axis, E Iz (transformed for composites), N m².
+    EA : float
+        Axial stiffness, N.
+    GJ : float or None
+        Torsional stiffness (closed form for the built-in families), N m²; None where
+        not computed (custom outlines: ``leanspan section --torsion`` gives it).
+    mass_per_length : float
+        kg/m.
+    properties : dict
+        Section properties (``A``, ``Iz``, ``Sz_top`` ... as in the JSON contract) and, for
+        one material, its ``E``, ``G``, ``strength_bending``, ``strength_shear``.
+    y_neutral : float
+        Height of the (modulus-weighted) neutral axis above the base, m.
+    section : Section or None
+        The geometry, where built.
+    """
+
+    name: str
+    material: str
+    EI: float
+    EA: float
+    GJ: float | None
+    mass_per_length: float
+    properties: dict = field(default_factory=dict)
+    y_neutral: float = float("nan")
+    section: Section | None = None
+
+
+def member_from_section(section: Section, lookup, name: str = "section") -> Member:
+    """The member of a section whose parts carry materials; ``lookup(name) -> Material``.
+
+    Raises
+    ------
+    InputError
+        No part carries a material.
+    """
+    if not section.has_materials:
+        raise InputError(f"{name}: no material; give `material` beside the section or in its parts")
+    comp = section.composite(lookup)
+    props = section.properties()
+    names = sorted({p.material for p in section.parts})
+    if len(names) == 1:
+        mat = lookup(names[0])
+        props.update(E=mat.E, G=mat.G, density=mat.density, strength_bending=mat.strength_bending,
+                     strength_shear=mat.strength_shear)
+    return Member(name, " + ".join(names), comp.EIz, comp.EA, None, comp.mass_per_length, props,
+                  comp.y_neutral, section)
+
+
+def family_section(family: str, dims: dict, material: str | None, name: str = "section") -> Section:
+    """The one-part section of a shape family with dimensions ``dims`` (m)."""
+    return Section.from_polygons([polygon_from_family(family, dims, where=name)], [material])
+
+
+def _closed_form_GJ(family, dims, G):
+    if family not in FAMILY_DIMENSIONS:
+        return None
+    try:
+        J = thin_walled_torsion(family, {k: np.asarray([v]) for k, v in dims.items()})["J"]
+    except LeanspanError:
+        return None
+    return float(np.asarray(J).ravel()[0]) * float(G)
+
+
+def member_from_row(row, with_section: bool = True) -> Member:
+    """The member of one catalogue row (a pandas Series or a dict of its columns).
+
+    EI = E Iz and the mass per length are the row's own (so the member equals the
+    candidate that was screened); GJ comes from the family's closed form.
+
+    >>> from leanspan.catalog.table import catalog_table
+    >>> row = catalog_table(families=["glulam"]).iloc[0]
+    >>> m = member_from_row(row)
+    >>> bool(m.EI == row["E"] * row["Iz"]), bool(abs(m.section.properties()["Iz"] / row["Iz"] - 1) < 1e-12)
+    (True, True)
+    """
+    get = row.get if hasattr(row, "get") else row.__getitem__
+    dims = row_dims(row)
+    E, Iz, A = float(get("E")), float(get("Iz")), float(get("A"))
+    props = {k: float(v) for k, v in dict(row).items()
+             if isinstance(v, (int, float, np.floating)) and not isinstance(v, bool)}
+    section = family_section(str(get("family")), dims, str(get("material")), str(get("name"))) \
+        if with_section else None
+    y_n = float(get("yc"))  # one material: the neutral axis is at the centroid
+    return Member(str(get("name")), str(get("material")), E * Iz, E * A,
+                  _closed_form_GJ(str(get("family")), dims, get("G")), float(get("mass_per_length")),
+                  props, y_n, section)
+
+
+def member_arrays(df, columns=()) -> dict:
+    """EI, mass per length and the named property columns of every row, as float arrays.
+
+    >>> import pandas as pd
+    >>> out = member_arrays(pd.DataFrame({"E": [2e11], "Iz": [1e-5], "mass_per_length": [30.0],
+    ...                                   "Sz_top": [1e-4]}), ["Sz_top"])
+    >>> round(float(out["EI"][0])), float(out["Sz_top"][0])
+    (2000000, 0.0001)
+    """
+    out = {"EI": df["E"].to_numpy(float) * df["Iz"].to_numpy(float),
+           "mass_per_length": df["mass_per_length"].to_numpy(float)}
+    for c in columns:
+        if c not in out:
+            out[c] = df[c].to_numpy(float)
+    return out
+
+
+def section_stiffness(spec, material, base_dir, field: str = "beam.section", units=None):
+    """EI (N m²) and mass per length (kg/m) of a beam's ``section`` + ``material``.
+
+    The stiffness maker :func:`leanspan.beam.parse_beam` takes (the beam package knows
+    no sections). ``spec`` is a section file (relative to ``base_dir``) or an inline
+    table; ``units`` is the job file's unit system, used for an inline table's bare numbers.
+
+    >>> EI, mass = section_stiffness({"part": [{"shape": "rectangle", "b": 100, "d": 200}]},
+    ...                              "C24", ".", units=__import__("leanspan.units").units.UnitSystem.from_spec("mm"))
+    >>> round(EI / 1e3, 1), round(mass, 3)
+    (733.3, 8.4)
+    """
+    if isinstance(spec, str):
+        path = Path(base_dir) / spec
+        data, where, units = load_toml(path), "section", None  # a file declares its own units
+    elif isinstance(spec, dict):
+        data, where = spec, field
+    else:
+        raise InputError(f"{field}: expected a section file name or a table, got {spec!r}")
+    if material is not None:
+        data = dict(data)
+        data["material"] = material
+    try:
+        section = section_from_spec(data, where, units)
+        member = member_from_section(section, material_lookup(), field)
+    except InputError as exc:
+        if isinstance(spec, str):
+            raise type(exc)(f"{path}: {exc}") from None
+        raise
+    return member.EI, member.mass_per_length
+
+
+def beam_with_member(model, member: Member | None = None, *, EI=None, mass_per_length=None,
+                     self_weight=None):
+    """The beam ``model`` with a prismatic member's EI and mass per length (for self-weight
+    in case ``self_weight``; None leaves the member weightless)."""
+    EI = member.EI if member is not None else EI
+    mass = member.mass_per_length if member is not None else mass_per_length
+    return dataclasses.replace(model, stiffness=(Stiffness(0.0, model.length, float(EI)),),
+                               mass_per_length=float(mass) if self_weight is not None else None,
+                               self_weight=self_weight)
