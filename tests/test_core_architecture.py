@@ -1,0 +1,176 @@
+"""The core's shape: import arrows point one way, a check is one registry entry, one unit edge.
+
+- The arrows of DEVELOPERS.md, read from every module's imports (ast): beam and sections
+  know nothing of each other, sections no catalogue, catalog no selection, no core package
+  the report or the command line.
+- A check registered from this file alone shows up in the screen, the ranked table, the
+  JSON and the sheet, and takes its topic off the "not checked" list.
+- A beam file's ``units`` reaches an inline section.
+"""
+
+from __future__ import annotations
+
+import ast
+import json
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from leanspan.cli import main
+from leanspan.select.checks import Check, not_checked, registered_check
+
+PACKAGE = Path(__file__).resolve().parents[1] / "leanspan"
+CORE = ("sections", "catalog", "beam", "select")
+FORBIDDEN = {("beam", "sections"), ("sections", "beam"), ("sections", "catalog"), ("catalog", "select"),
+             ("select", "report"), ("sections", "select"), ("beam", "select"), ("beam", "catalog"),
+             ("catalog", "report")} | {(c, "cli") for c in CORE} | {(c, "report") for c in CORE}
+
+
+def _imports(path: Path, package: Path = PACKAGE):
+    """(subpackage of the importer, subpackage imported, line) for every leanspan import."""
+    parts = path.relative_to(package.parent).with_suffix("").parts
+    pkg = list(parts[:-1])  # the package holding the module (an __init__ is its own package)
+    own = pkg[1] if len(pkg) > 1 else ""
+    for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+        if isinstance(node, ast.ImportFrom):
+            base = pkg[: len(pkg) - node.level + 1] if node.level else []
+            module = base + (node.module.split(".") if node.module else [])
+            targets = [module] if node.module else [module + [a.name] for a in node.names]
+        elif isinstance(node, ast.Import):
+            targets = [a.name.split(".") for a in node.names]
+        else:
+            continue
+        for t in targets:
+            if len(t) > 1 and t[0] == "leanspan":
+                yield own, t[1], node.lineno
+
+
+def test_import_arrows_point_one_way():
+    bad = []
+    for path in sorted(PACKAGE.rglob("*.py")):
+        for own, target, line in _imports(path):
+            if (own, target) in FORBIDDEN:
+                bad.append(f"{path.relative_to(PACKAGE.parent)}:{line}: {own} -> {target}")
+    assert bad == []
+
+
+def test_the_arrow_reader_sees_forbidden_imports(tmp_path):
+    """The reader itself: relative and absolute imports from beam into sections and cli."""
+    fake = tmp_path / "leanspan" / "beam"
+    fake.mkdir(parents=True)
+    (fake / "x.py").write_text("from ..sections.io import section_from_spec\nimport leanspan.cli\n"
+                               "from . import poly\nfrom .. import units\n")
+    (fake / "__init__.py").write_text("from ..sections import io\n")
+    got = {(o, t) for f in ("x.py", "__init__.py") for o, t, _ in _imports(fake / f, tmp_path / "leanspan")}
+    assert got == {("beam", "sections"), ("beam", "cli"), ("beam", "beam"), ("beam", "units")}
+
+
+# -- a toy check, registered from this file alone -------------------------------------------------
+def _plastic_demand(eff, props):
+    """Plastic bending: |M| / Zz (the stress block of a fully plastic section)."""
+    return np.maximum(np.maximum(eff.M_max, 0.0), np.maximum(-eff.M_min, 0.0)) / props["Zz"][:, None]
+
+
+def _plastic_allowable(props, limits, eff):
+    return np.full(props["Zz"].shape, limits.get("plastic_stress", 1e9))[:, None]
+
+
+TOY = Check(name="plastic_bending", label="plastic", columns=("Zz",), demand=_plastic_demand,
+            allowable=_plastic_allowable, kind="pressure", demand_key="sigma_plastic",
+            sentence="Toy check: plastic bending stress M / Zz against the plastic stress limit.",
+            covers=("local_buckling",), limit_keys={"plastic_stress": "pressure"})
+
+JOB = """
+[beam]
+title = "Toy check job (invented)"
+spans = ["4 m"]
+[[load]]
+case = "imposed"
+type = "udl"
+w = "3 kN/m"
+[search]
+families = ["rectangle"]
+materials = ["C24"]
+self_weight = "none"
+max_depth = "300 mm"
+[limits]
+stress_factor = 0.6
+plastic_stress = "20 MPa"
+"""
+
+
+def test_a_registered_check_reaches_screen_table_json_and_sheet(tmp_path, capsys):
+    job = tmp_path / "toy.toml"
+    job.write_text(JOB, encoding="utf-8")
+    sheet = tmp_path / "toy.html"
+    with registered_check(TOY):
+        assert main(["select", str(job), "--json", "--report", str(sheet)]) == 0
+        out = json.loads(capsys.readouterr().out)
+        assert main(["select", str(job)]) == 0
+        text = capsys.readouterr().out
+        assert "local buckling of flanges, webs or thin walls" not in not_checked()
+    # JSON: the check's utilisation, equal to the hand value. Simply supported span under a
+    # uniform load: M = w L^2 / 8 (beam-formula handbooks); plastic modulus of a rectangle
+    # Zz = b d^2 / 4 (mechanics-of-materials texts).
+    for cand in out["candidates"]:
+        b, d = cand["dims"]["b"], cand["dims"]["d"]
+        M = 3e3 * 4.0**2 / 8
+        assert cand["utilisation"]["plastic_bending"] == pytest.approx(M / (b * d**2 / 4) / 20e6, rel=1e-9)
+        assert cand["demands"]["sigma_plastic"] == pytest.approx(M / (b * d**2 / 4), rel=1e-9)
+    chosen = out["chosen"]
+    assert chosen["passes"] and max(u for u in chosen["utilisation"].values() if u is not None) <= 1.0
+    # the ranked table has its column; the sheet its row, sentence and topic taken off the list
+    header = next(line for line in text.splitlines() if line.startswith("rank"))
+    assert "plastic" in header.split()
+    html = sheet.read_text(encoding="utf-8")
+    assert 'data-key="chosen.utilisation.plastic_bending"' in html
+    assert "Toy check: plastic bending stress" in html
+    assert "local buckling of flanges" not in html
+    # unregistered again: the contract's three checks only
+    assert "local buckling of flanges, webs or thin walls" in not_checked()
+    assert main(["select", str(job), "--json"]) == 2  # plastic_stress is unknown without the check
+    assert "limits.plastic_stress: unknown key" in capsys.readouterr().err
+
+
+def test_a_registered_check_can_govern_and_fail(tmp_path, capsys):
+    """A tight toy limit makes the toy check govern: nothing lighter than it passes."""
+    job = tmp_path / "toy.toml"
+    job.write_text(JOB.replace('plastic_stress = "20 MPa"', 'plastic_stress = "0.01 MPa"'), encoding="utf-8")
+    with registered_check(TOY):
+        assert main(["select", str(job), "--json"]) == 1
+    out = json.loads(capsys.readouterr().out)
+    assert out["chosen"] is None
+    assert out["candidates"][0]["governing"] == "plastic_bending"
+
+
+# -- one unit edge --------------------------------------------------------------------------------
+def test_inline_section_reads_the_files_units(tmp_path, capsys):
+    job = tmp_path / "beam.toml"
+    job.write_text("""
+units = "mm"
+[beam]
+length = 4000
+material = "C24"
+[beam.section]
+[[beam.section.part]]
+shape = "rectangle"
+b = 100
+d = 200
+[[support]]
+at = 0
+type = "pin"
+[[support]]
+at = 4000
+type = "roller"
+[[load]]
+case = "imposed"
+type = "point"
+P = "10 kN"
+at = 2000
+""", encoding="utf-8")
+    assert main(["beam", str(job), "--json"]) == 0
+    out = json.loads(capsys.readouterr().out)
+    # C24: E0,mean = 11 kN/mm^2 (EN 338 Table 1); centre deflection P L^3 / (48 E I) (handbooks)
+    EI = 11e9 * 0.1 * 0.2**3 / 12
+    assert out["results"]["imposed"]["v_min"]["value"] == pytest.approx(-10e3 * 4.0**3 / (48 * EI), rel=1e-9)
