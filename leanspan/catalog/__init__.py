@@ -12,11 +12,11 @@ stays light (no pandas).
 'glulam'
 """
 
-__all__ = ["Material", "materials_table", "get_material", "load_user_materials",
+__all__ = ["Material", "materials_table", "get_material", "load_user_materials", "material_lookup",
            "SERIES", "catalog_table", "dims_of", "row_dims"]
 
 _WHERE = {"Material": "materials", "materials_table": "materials", "get_material": "materials",
-          "load_user_materials": "materials", "SERIES": "series", "catalog_table": "table",
+          "load_user_materials": "materials", "material_lookup": "materials", "SERIES": "series", "catalog_table": "table",
           "dims_of": "table", "row_dims": "table"}
 
 

@@ -24,15 +24,17 @@ leanspan.errors.MaterialError: unknown material 'S356'; near names: S355, S235, 
 from __future__ import annotations
 
 import difflib
+import math
 import os
 import re
-import math
 from dataclasses import dataclass, fields, replace
 from functools import lru_cache
 from importlib import resources
 from pathlib import Path
 
-from ..errors import MaterialError
+from ..errors import InputError, MaterialError
+from ..fileio import load_toml, protect_inputs
+from ..units import parse
 from .csvfile import column_factor, read_table, to_float
 
 __all__ = ["KINDS", "Material", "materials_table", "get_material", "load_user_materials", "material_lookup",
@@ -152,10 +154,6 @@ def _rows_from_csv(path, text=None, default_source="") -> list[dict]:
 
 def _rows_from_toml(path) -> list[dict]:
     """Read ``[[material]]`` tables (values as quantity strings or numbers in MPa, kg/m³)."""
-    from ..fileio import load_toml
-    from ..units import parse
-
-    from ..errors import InputError
 
     try:
         data = load_toml(path)
@@ -273,8 +271,6 @@ def load_user_materials(path, base: dict[str, Material] | None = None) -> dict[s
         rows = _rows_from_csv(path, default_source=f"user file {path.name}")
     else:
         raise MaterialError(f"{path}: expected a .toml or .csv materials file")
-    from ..fileio import protect_inputs
-
     protect_inputs(path)
     return _merge(_builtin() if base is None else base, rows)
 

@@ -30,6 +30,9 @@ from typing import Callable
 
 import numpy as np
 
+from ..errors import CatalogError
+from ..sections.families import FAMILIES
+
 __all__ = ["Series", "SERIES", "get_series", "PLATES", "TUBE_OD", "TUBE_WALLS", "BOX_WALLS"]
 
 # Trade size lists (mm): facts of the trade, common practice.
@@ -85,8 +88,6 @@ class Series:
         """Generated names for ``dims`` (metres)."""
         if self.label is not None:
             return self.label(dims)
-        from ..sections.families import FAMILIES
-
         fam = FAMILIES[self.family]
         return fam.designation(fam.complete(dims))
 
@@ -372,8 +373,6 @@ def get_series(name: str) -> Series:
     >>> get_series("glulam").family
     'rectangle'
     """
-    from ..errors import CatalogError
-
     try:
         return SERIES[name]
     except (KeyError, TypeError):

@@ -38,7 +38,15 @@ from pathlib import Path
 
 import numpy as np
 
+from .. import __version__
 from ..errors import CatalogError
+from ..fileio import atomic_write
+from ..sections.families import FAMILIES
+from ..sections.properties import KEYS, family_properties
+from .csvfile import column_factor
+from .materials import get_material, materials_table
+from .series import SERIES
+from .user import TABULATED, read_user_catalog
 
 __all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "dims_of", "row_dims", "cache_dir",
            "cache_file", "builtin_frame"]
@@ -50,16 +58,11 @@ _TEXT_COLUMNS = ("name", "family", "series", "material")
 
 
 def _keys():
-    from ..sections.properties import KEYS
-
     return tuple(KEYS)
 
 
 def _block(series: str, family: str, dims: dict, names: list, materials) -> dict:
     """Columns (numpy arrays) for N rows of one family: text, dims, section properties."""
-    from ..sections.families import FAMILIES
-    from ..sections.properties import family_properties
-
     fam = FAMILIES[family]
     dims = fam.complete(dims)
     props = family_properties(family, dims)
@@ -80,8 +83,6 @@ def _concat(blocks: list[dict]) -> dict:
 
 
 def _build_builtin() -> dict:
-    from .series import SERIES
-
     blocks = []
     for s in SERIES.values():  # a small fixed set: one vectorised call per series
         dims = s.dims()
@@ -91,8 +92,6 @@ def _build_builtin() -> dict:
 
 def _source_hash() -> str:
     """Hash of everything the built-in table depends on."""
-    from .. import __version__
-
     here = Path(__file__).resolve().parent
     h = hashlib.sha256(f"{__version__} numpy {np.__version__}".encode())
     files = sorted(here.glob("*.py")) + sorted((here / "data").glob("*"))
@@ -126,8 +125,6 @@ def _load_cache(path: Path) -> dict | None:
 
 
 def _save_cache(path: Path, cols: dict) -> None:
-    from ..fileio import atomic_write
-
     try:
         path.parent.mkdir(parents=True, exist_ok=True)
         buf = io.BytesIO()
@@ -168,8 +165,6 @@ def builtin_frame(use_cache: bool = True):
 def _user_frame(path, materials):
     import pandas as pd
 
-    from .user import read_user_catalog
-
     cat = read_user_catalog(path, materials)
     blocks, lines = [], []
     for fam, b in cat.blocks.items():  # one vectorised call per family present
@@ -186,8 +181,6 @@ def _user_frame(path, materials):
 
 def _compare_tabulated(df, cat, warnings: list) -> None:
     """Warn, row by row, where a tabulated property differs from the computed one by > 1 %."""
-    from .user import TABULATED
-
     line_to_row = {int(r): i for i, r in enumerate(df["row"])}
     for fam, block in cat.blocks.items():
         idx = np.array([line_to_row[l] for l in block.lines])
@@ -200,8 +193,6 @@ def _compare_tabulated(df, cat, warnings: list) -> None:
             bad = np.flatnonzero(np.isfinite(given) & ~(np.abs(given - computed)
                                                       <= 0.01 * np.abs(computed) + slack))
             unit = TABULATED[key][1]
-            from .csvfile import column_factor
-
             f = column_factor(unit, TABULATED[key][0], key)
             for i in bad:  # a loop over the few disagreeing rows only
                 warnings.append(
@@ -233,9 +224,6 @@ def check_shape_names(names, what: str = "family") -> None:
     ...
     leanspan.errors.CatalogError: unknown family 'oak_logs'; expected a shape family (...) or a series (...)
     """
-    from ..sections.families import FAMILIES
-    from .series import SERIES
-
     _expand_names(names, what, SERIES, FAMILIES)
 
 
@@ -275,10 +263,6 @@ def catalog_table(series=None, families=None, materials=None, user_csv=None, max
         Unknown series/family/material, a bad user catalogue.
     """
     import pandas as pd
-
-    from ..sections.families import FAMILIES
-    from .materials import get_material, materials_table
-    from .series import SERIES
 
     mats = materials_table(material_table)
     series = _expand_names(series, "series", SERIES, FAMILIES)
@@ -363,8 +347,6 @@ def dims_of(df) -> dict[str, dict[str, np.ndarray]]:
     >>> sorted(d), bool((d["d"] <= 0.05).all())
     (['d', 't'], True)
     """
-    from ..sections.families import FAMILIES
-
     out = {}
     for fam in df["family"].unique():
         sub = df[df["family"] == fam]
@@ -379,8 +361,6 @@ def row_dims(row) -> dict[str, float]:
     >>> row_dims(df[df.name == "I 300x150x7.1x10.7"].iloc[0])
     {'d': 0.3, 'b': 0.15, 'tw': 0.0071, 'tf': 0.0107, 'r': 0.015}
     """
-    from ..sections.families import FAMILIES
-
     fam = FAMILIES[row["family"]]
     out = {k: float(row[k]) for k in fam.keys}
     for k, default in fam.optional.items():

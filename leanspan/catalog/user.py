@@ -31,7 +31,10 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import CatalogError, GeometryError, MaterialError
+from ..fileio import protect_inputs
+from ..sections.families import FAMILIES
 from .csvfile import column_factor, read_table, to_float
+from .materials import get_material, materials_table
 
 __all__ = ["UserBlock", "UserCatalog", "read_user_catalog", "TABULATED", "DEFAULT_MATERIAL"]
 
@@ -86,10 +89,6 @@ def read_user_catalog(path, materials: dict | None = None) -> UserCatalog:
         Naming the file, the row and what was expected: a non-numeric or missing
         dimension, an unknown family or material, impossible geometry.
     """
-    from ..fileio import protect_inputs
-    from ..sections.families import FAMILIES
-    from .materials import get_material, materials_table
-
     path = Path(path)
     header, rows = read_table(path, CatalogError)
     protect_inputs(path)

@@ -25,9 +25,8 @@ Examples
 
 from __future__ import annotations
 
-from pathlib import Path
-
 from ..errors import GeometryError, InputError
+from ..fileio import load_toml
 from ..units import UnitSystem, parse
 from .families import FAMILIES, get_family
 from .section import Part, Section, check_polygon, polygon_from_family, transform
@@ -172,8 +171,6 @@ def section_from_spec(spec: dict, field: str = "section", units: UnitSystem | No
 
 def load_section_file(path) -> tuple[Section, dict]:
     """Read a section TOML file; return the section and the raw table."""
-    from ..fileio import load_toml
-
     data = load_toml(path)
     try:
         return section_from_spec(data), data

@@ -22,7 +22,9 @@ from __future__ import annotations
 
 import numpy as np
 
-from .geometry import Edges, bounds, moments, swap_axes
+from ..errors import GeometryError
+from .families import get_family
+from .geometry import Edges, bounds, edges_from_rings, moments, swap_axes
 
 __all__ = ["properties", "family_properties", "KEYS", "elastic_properties"]
 
@@ -254,8 +256,6 @@ def properties(e: Edges, private: bool = False, offset: int = 0) -> dict[str, np
     GeometryError
         If a section has zero or negative area (wrong orientation or degenerate).
     """
-    from ..errors import GeometryError
-
     n = e.n
     chunks = []
     for start in range(0, n, _CHUNK):
@@ -281,8 +281,6 @@ def family_properties(family: str, dims: dict, private: bool = False) -> dict[st
     dims : dict of str to array_like
         Dimension arrays of equal length N (or scalars), SI metres.
     """
-    from .families import FAMILIES, get_family
-
     fam = get_family(family)
     dims = fam.complete(dims)
     fam.validate(dims)
@@ -295,6 +293,4 @@ def family_properties(family: str, dims: dict, private: bool = False) -> dict[st
 
 def edges_from_family(fam, dims) -> Edges:
     """Oriented edges of a family's sections (helper for :func:`family_properties`)."""
-    from .geometry import edges_from_rings
-
     return edges_from_rings(fam.rings(dims))

@@ -20,6 +20,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..errors import GeometryError, MaterialError
+from .families import get_family
 from .geometry import edges_from_rings, moments
 from .properties import properties
 
@@ -32,10 +33,9 @@ def _mm(p) -> str:
 
 def check_polygon(poly, where: str):
     """Raise GeometryError (naming ``where`` and the place) unless ``poly`` is a valid area."""
+    import numpy as np
     import shapely
     from shapely.validation import explain_validity
-
-    import numpy as np
 
     ring = np.asarray(poly.exterior.coords) if not poly.is_empty else np.zeros((0, 2))
     flat = True  # all points on one line?
@@ -77,8 +77,6 @@ def transform(poly, rotate=0.0, mirror=False, at=(0.0, 0.0)):
 def polygon_from_family(family: str, dims: dict, where: str = "part"):
     """A shapely polygon for one section of a parametric family (dims in metres)."""
     from shapely.geometry import Polygon
-
-    from .families import get_family
 
     fam = get_family(family)
     full = fam.complete(dims)

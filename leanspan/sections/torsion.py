@@ -57,7 +57,7 @@ import scipy.sparse as sp
 from scipy.sparse.linalg import spsolve
 
 from ..errors import GeometryError, InputError
-from .mesh import TriMesh, check_parts, mesh_section
+from .mesh import MAX_ELEMENTS, TriMesh, check_parts, mesh_section
 
 __all__ = ["TorsionResult", "torsion", "shape_gradients", "QUAD_POINTS", "QUAD_WEIGHTS"]
 
@@ -241,7 +241,6 @@ def torsion(polygons, shear_moduli=None, mesh_size=None, *, elastic_moduli=None,
     E_part = G_part if elastic_moduli is None else _moduli(elastic_moduli, n_parts, "elastic_moduli")
     if not (isinstance(reference_part, (int, np.integer)) and 0 <= reference_part < n_parts):
         raise InputError(f"reference_part: expected a part index 0..{n_parts - 1}, got {reference_part!r}")
-    from .mesh import MAX_ELEMENTS
     mesh = mesh_section(parts, mesh_size, max_elements or MAX_ELEMENTS)
 
     tri = mesh.triangles

@@ -87,6 +87,22 @@ class Selection:
     def shown(self, top: int = 10, failures: int = 3) -> list:
         return self.rows(self.shown_positions(top, failures))
 
+    def to_frame(self):
+        """Every candidate in rank order as a pandas DataFrame: rank, name, family, series,
+        material, mass_per_length, depth, width (SI), one utilisation column per check,
+        governing, passes."""
+        import pandas as pd
+
+        df = self.table.iloc[self.order]
+        out = pd.DataFrame({"rank": np.arange(1, len(self.order) + 1)})
+        for c in ("name", "family", "series", "material", "mass_per_length", "depth", "width"):
+            out[c] = df[c].to_numpy()
+        for c in check_names():
+            out[c] = self.result.utilisation[c][self.order]
+        out["governing"] = self.result.governing[self.order].astype(str)
+        out["passes"] = self.result.passes[self.order]
+        return out
+
     def to_json(self, top: int = 10) -> dict:
         return {"chosen": self.chosen, "candidates": self.shown(top), "screened": self.screened}
 
