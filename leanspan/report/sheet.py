@@ -105,9 +105,10 @@ def _invented(*texts) -> bool:
 
 
 def _header(title: str, kind: str, source: str, units: str, invented: bool, contents) -> str:
+    shown = ", ".join(_u(k, units)[0] for k in ("length", "force", "moment", "pressure", "mass/length"))
+    system = "SI" if units == "si" else "US customary"
     rows = [("Sheet", kind), ("Date", _today()), ("Input", source or "(not given)"),
-            ("Units", "SI (mm, kN, kN·m, MPa, kg/m; positions in m)" if units == "si"
-             else "US customary (in, kip, kip·ft, ksi, lb/ft; positions in ft)"),
+            ("Units", f"{system} ({shown}; positions in {_u('span', units)[0]})"),
             ("Program", f"leanspan {__version__}")]
     out = [f"<h1>{esc(title)}</h1>", '<table class="meta">']
     out += [f"<tr><td><b>{esc(k)}</b></td><td>{esc(v)}</td></tr>" for k, v in rows]
