@@ -28,7 +28,13 @@ import math
 
 from .errors import UnitsError
 
-__all__ = ["KINDS", "UnitSystem", "parse", "registry", "DISPLAY", "display_factor", "fmt"]
+__all__ = ["KINDS", "UnitSystem", "parse", "unit_factor", "registry", "DISPLAY", "display_factor", "fmt"]
+
+# Exact definitions: 1 in = 0.0254 m, 1 ft = 0.3048 m, 1 lbf = 4.4482216152605 N,
+# 1 lb = 0.45359237 kg. Every conversion in the program uses these.
+_IN, _FT, _LBF, _LB = 0.0254, 0.3048, 4.4482216152605, 0.45359237
+_KIP = 1000 * _LBF
+_PSI = _LBF / _IN**2
 
 # kind -> (pint dimensionality, length exponent, force exponent, mass exponent, example)
 # The exponents say how a bare number is scaled under a declared unit system.
@@ -94,25 +100,82 @@ class UnitSystem:
         if unknown:
             raise UnitsError(f"{field}: unknown key {sorted(unknown)[0]!r}; expected length, force or mass")
         factors = {}
-        for key, kind in (("length", "length"), ("force", "force"), ("mass", None)):
+        for key in ("length", "force", "mass"):
             if key in spec:
                 text = spec[key]
                 if not isinstance(text, str):
                     raise UnitsError(f"{field}.{key}: expected a unit name such as \"mm\", got {text!r}")
-                dim = "[mass]" if kind is None else KINDS[kind][0]
-                factors[key] = _unit_factor(text, dim, f"{field}.{key}", key)
+                factors[key], why = _si_factor(text, key)
+                if why == "unknown":
+                    raise UnitsError(f"{field}.{key}: unknown unit {text!r}")
+                if why:
+                    raise UnitsError(f"{field}.{key}: {text!r} is not a unit of {key}")
         return cls(label=str(spec), **factors)
 
 
-def _unit_factor(text: str, dim: str, field: str, word: str) -> float:
+# Common units by kind, exactly: these need no pint import (a user CSV header, units = "mm").
+_FAST: dict[str, dict[str, float]] = {
+    "length": {"m": 1.0, "cm": 1e-2, "mm": 1e-3, "in": _IN, "inch": _IN, "ft": _FT},
+    "area": {"m^2": 1.0, "m2": 1.0, "cm^2": 1e-4, "cm2": 1e-4, "mm^2": 1e-6, "mm2": 1e-6,
+             "in^2": _IN**2, "in2": _IN**2},
+    "section modulus": {"m^3": 1.0, "m3": 1.0, "cm^3": 1e-6, "cm3": 1e-6, "mm^3": 1e-9,
+                        "mm3": 1e-9, "in^3": _IN**3, "in3": _IN**3},
+    "second moment": {"m^4": 1.0, "m4": 1.0, "cm^4": 1e-8, "cm4": 1e-8, "mm^4": 1e-12,
+                      "mm4": 1e-12, "in^4": _IN**4, "in4": _IN**4},
+    "force": {"N": 1.0, "kN": 1e3, "MN": 1e6, "lbf": _LBF, "kip": _KIP},
+    "mass": {"kg": 1.0, "t": 1e3, "lb": _LB},
+    "pressure": {"Pa": 1.0, "kPa": 1e3, "MPa": 1e6, "GPa": 1e9, "N/mm^2": 1e6, "N/mm2": 1e6,
+                 "kN/mm^2": 1e9, "kN/mm2": 1e9, "psi": _PSI, "ksi": 1e3 * _PSI},
+    "density": {"kg/m^3": 1.0, "kg/m3": 1.0, "t/m^3": 1e3, "t/m3": 1e3, "g/cm^3": 1e3,
+                "g/cm3": 1e3, "lb/ft^3": _LB / _FT**3, "lb/ft3": _LB / _FT**3, "pcf": _LB / _FT**3},
+    "mass/length": {"kg/m": 1.0, "lb/ft": _LB / _FT, "plf": _LB / _FT},
+    "dimensionless": {"": 1.0, "-": 1.0, "rad": 1.0},
+}
+# kinds beyond KINDS that a unit can be checked against: pint dimensionality, words
+_MORE_KINDS = {"section modulus": ("[length] ** 3", "a length cubed"),
+               "mass": ("[mass]", "a mass"),
+               "dimensionless": ("", "dimensionless")}
+
+
+def _si_factor(text: str, kind: str) -> tuple[float | None, str]:
+    """SI value of one ``text`` unit of ``kind``, or ``(None, why)`` with why "unknown" or "kind"."""
+    key = text.replace(" ", "").replace("**", "^").replace("³", "^3").replace("²", "^2").replace("⁴", "^4")
+    fast = _FAST.get(kind, {})
+    if key in fast:
+        return fast[key], ""
     ureg = registry()
     try:
         q = ureg.Quantity(1.0, text)
     except Exception:
-        raise UnitsError(f"{field}: unknown unit {text!r}") from None
+        return None, "unknown"
+    dim = KINDS[kind][0] if kind in KINDS else _MORE_KINDS[kind][0]
     if q.dimensionality != ureg.get_dimensionality(dim):
-        raise UnitsError(f"{field}: {text!r} is not a unit of {word}")
-    return float(q.to_base_units().magnitude)
+        return None, "kind"
+    return float(q.to_base_units().magnitude), ""
+
+
+def unit_factor(unit_text: str, kind: str, field: str, error=UnitsError) -> float:
+    """SI value of one ``unit_text`` unit, for a quantity of ``kind``; raise ``error`` naming ``field``.
+
+    ``kind`` is one of :data:`KINDS` or "section modulus", "mass", "dimensionless". Common units
+    come from a small exact table; anything else goes through pint.
+
+    >>> unit_factor("in", "length", "x.csv: column 'd'"), unit_factor("kip", "force", "f")
+    (0.0254, 4448.2216152605)
+    >>> round(unit_factor("ft*lbf", "moment", "m"), 9)  # through pint: 0.3048 m x 4.4482216152605 N
+    1.355817948
+    >>> unit_factor("kg", "length", "x.csv: column 'd'")
+    Traceback (most recent call last):
+    ...
+    leanspan.errors.UnitsError: x.csv: column 'd': unit 'kg' is not a length
+    """
+    factor, why = _si_factor(unit_text, kind)
+    if why == "unknown":
+        raise error(f"{field}: unknown unit {unit_text!r}")
+    if why == "kind":
+        words = _KIND_WORDS[kind] if kind in _KIND_WORDS else _MORE_KINDS[kind][1]
+        raise error(f"{field}: unit {unit_text!r} is not {words}")
+    return factor
 
 
 def _describe(dimensionality) -> str:
@@ -177,10 +240,7 @@ def parse(value, kind: str, field: str, units: UnitSystem | None = None) -> floa
     return result
 
 
-# Display units: kind -> (label, SI value of one display unit). Exact definitions:
-# 1 in = 0.0254 m, 1 lbf = 4.4482216152605 N, 1 lb = 0.45359237 kg, 1 ft = 0.3048 m.
-_IN, _FT, _LBF, _LB = 0.0254, 0.3048, 4.4482216152605, 0.45359237
-_KIP = 1000 * _LBF
+# Display units: kind -> (label, SI value of one display unit).
 DISPLAY: dict[str, dict[str, tuple[str, float]]] = {
     "si": {
         "length": ("mm", 1e-3),

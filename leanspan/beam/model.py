@@ -208,11 +208,20 @@ class DeflectionLimit:
             return np.asarray(span, float) / self.ratio if np.ndim(span) else float(span) / self.ratio
         return np.full(np.shape(span), self.absolute) if np.ndim(span) else self.absolute
 
-    def describe(self) -> str:
-        """``"span/360"`` or ``"12 mm"``."""
+    def describe(self, units: str = "si") -> str:
+        """``"span/360"``, or the length in the display ``units`` (``"12 mm"``, ``"0.4724 in"``).
+
+        >>> DeflectionLimit(absolute=0.012).describe(), DeflectionLimit(absolute=0.012).describe("us")
+        ('12 mm', '0.4724 in')
+        """
         if self.ratio is not None:
             return f"span/{self.ratio:g}"
-        return f"{self.absolute * 1e3:g} mm"
+        from ..units import display_factor, fmt
+
+        label, factor = display_factor("length", units)
+        value = self.absolute / factor
+        # SI reads back as given, to 6 figures (the JSON carries this text); converted values get 4
+        return f"{value:g} {label}" if units == "si" else f"{fmt(value)} {label}"
 
 
 @dataclass(frozen=True)

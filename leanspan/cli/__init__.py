@@ -9,10 +9,11 @@ Exit status: 0 success, 1 a search where nothing passes, 2 bad input.
 from __future__ import annotations
 
 import argparse
+from contextlib import contextmanager
 import importlib
 import sys
 
-__all__ = ["main"]
+__all__ = ["main", "add_common", "emit_json", "option_paths"]
 
 COMMANDS = ["section", "beam", "catalog", "materials", "select", "demo"]
 
@@ -75,6 +76,26 @@ def _with_file(exc, args) -> str:
     if isinstance(source, str) and Path(source).name not in msg and not msg.startswith("--"):
         return f"{source}: {msg}"
     return msg
+
+
+@contextmanager
+def option_paths(*pairs):
+    """Lead an error about an output path by the option that named it.
+
+    Report code names only the path (``out.txt: expected ...``); inside this block an error
+    whose message starts with one of the ``(flag, path)`` pairs' paths is raised again as
+    ``--flag out.txt: expected ...``.
+    """
+    from ..errors import LeanspanError
+
+    try:
+        yield
+    except LeanspanError as exc:
+        msg = str(exc)
+        for flag, path in pairs:
+            if path is not None and msg.startswith(f"{path}:"):
+                raise type(exc)(f"{flag} {msg}") from None
+        raise
 
 
 def add_common(p, units=True):

@@ -10,25 +10,9 @@ from __future__ import annotations
 
 import sys
 
-from . import add_common, emit_json
+from . import add_common, emit_json, option_paths
 
 __all__ = ["add_parser", "run"]
-
-# column -> display kind (readable table and CSV)
-_KINDS = {"d": "length", "b": "length", "tw": "length", "tf": "length", "t": "length", "r": "length",
-          "b_top": "length", "tf_top": "length", "b_bot": "length", "tf_bot": "length",
-          "A": "area", "yc": "length", "zc": "length", "Iz": "second moment", "Iy": "second moment",
-          "Iyz": "second moment", "I1": "second moment", "I2": "second moment", "theta": None,
-          "Sz_top": "section modulus", "Sz_bot": "section modulus", "Sy_left": "section modulus",
-          "Sy_right": "section modulus", "Zz": "section modulus", "Zy": "section modulus",
-          "rz": "length", "ry": "length", "depth": "length", "width": "length",
-          "shear_factor": "shear factor", "E": "modulus", "G": "modulus", "density": "density",
-          "strength_bending": "pressure", "strength_shear": "pressure",
-          "mass_per_length": "mass/length"}
-_TABLE = ("depth", "width", "A", "Iz", "Sz_top", "Sz_bot", "Zz", "Iy", "mass_per_length")
-_KEY_LINE = ("Iz: about the horizontal axis (bending under vertical load); Sz_top, Sz_bot: elastic section moduli to the top "
-             "and bottom fibres; Zz: plastic modulus; Iy: about the vertical axis.")
-_ASCII = str.maketrans({"²": "^2", "³": "^3", "⁴": "^4", "·": "*"})
 
 
 def _csv_list(values):
@@ -73,41 +57,6 @@ def _length(text, field):
         return parse(text, "length", field)
 
 
-def _unit(kind, system):
-    from ..units import display_factor
-
-    if kind is None:
-        return "deg", 1.0
-    return display_factor(kind, system)
-
-
-def _csv_text(df, system):
-    import csv
-    import io
-    import math
-
-    cols = ["name", "family", "series", "material", "kind"] + [c for c in _KINDS if c in df]
-    heads = []
-    for c in cols:
-        if c in _KINDS:
-            label = _unit(_KINDS[c], system)[0].translate(_ASCII)
-            heads.append(f"{c} [{label}]")
-        else:
-            heads.append(c)
-    buf = io.StringIO()
-    w = csv.writer(buf, lineterminator="\n")
-    w.writerow(heads)
-    factors = [(_unit(_KINDS[c], system)[1] if c in _KINDS else None) for c in cols]
-    data = [df[c].to_numpy() for c in cols]
-    for i in range(len(df)):
-        row = []
-        for f, col in zip(factors, data):
-            v = col[i]
-            row.append(v if f is None else ("" if math.isnan(v) else f"{v / f:.6g}"))
-        w.writerow(row)
-    return buf.getvalue()
-
-
 def _rows_json(df):
     from ..catalog.table import row_dims
     from ..sections.properties import KEYS
@@ -121,7 +70,7 @@ def _rows_json(df):
 def run(args) -> int:
     from ..catalog.table import catalog_table
     from ..fileio import atomic_write
-    from ..units import fmt
+    from ..report.catalog_text import catalog_csv, catalog_text
 
     df = catalog_table(families=_csv_list(args.family), materials=_csv_list(args.material),
                        user_csv=args.file, builtin=(args.with_builtin or not args.file),
@@ -133,20 +82,10 @@ def run(args) -> int:
     for w in df.attrs.get("warnings", []):
         print(f"leanspan catalog: warning: {w}", file=sys.stderr)
     if args.csv:
-        atomic_write(args.csv, _csv_text(df, args.units))
+        with option_paths(("--csv", args.csv)):
+            atomic_write(args.csv, catalog_csv(df, args.units))
     if args.json:
         emit_json(_rows_json(df))
         return 0
-    heads = ["name", "series", "material"] + [
-        f"{c.replace('mass_per_length', 'mass')} [{_unit(_KINDS[c], args.units)[0]}]" for c in _TABLE]
-    cols = [df["name"].to_numpy(), df["series"].to_numpy(), df["material"].to_numpy()]
-    for c in _TABLE:
-        f = _unit(_KINDS[c], args.units)[1]
-        cols.append([fmt(float(v) / f) for v in df[c].to_numpy()])
-    widths = [max([len(h)] + [len(str(v)) for v in col]) for h, col in zip(heads, cols)]
-    out = ["  ".join(h.ljust(w) for h, w in zip(heads, widths)).rstrip()]
-    for i in range(len(df)):
-        out.append("  ".join(str(col[i]).ljust(w) for col, w in zip(cols, widths)).rstrip())
-    out.append(f"{len(df)} sections. {_KEY_LINE}")
-    print("\n".join(out))
+    print(catalog_text(df, args.units))
     return 0

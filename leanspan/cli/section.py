@@ -4,44 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from . import add_common, emit_json
-
-# (label, JSON key, display kind)
-ROWS = [
-    ("Area A", "A", "area"),
-    ("Centroid y from base yc", "yc", "length"),
-    ("Centroid z zc", "zc", "length"),
-    ("Depth", "depth", "length"),
-    ("Width", "width", "length"),
-    ("Iz (about horizontal axis)", "Iz", "second moment"),
-    ("Iy (about vertical axis)", "Iy", "second moment"),
-    ("Iyz", "Iyz", "second moment"),
-    ("I1 (major principal)", "I1", "second moment"),
-    ("I2 (minor principal)", "I2", "second moment"),
-    ("theta (z-axis to I1, CCW)", "theta", None),
-    ("Sz top fibre", "Sz_top", "section modulus"),
-    ("Sz bottom fibre", "Sz_bot", "section modulus"),
-    ("Sy left fibre", "Sy_left", "section modulus"),
-    ("Sy right fibre", "Sy_right", "section modulus"),
-    ("Plastic modulus Zz", "Zz", "section modulus"),
-    ("Plastic modulus Zy", "Zy", "section modulus"),
-    ("Radius of gyration rz", "rz", "length"),
-    ("Radius of gyration ry", "ry", "length"),
-    ("Shear factor (tau_max = V x)", "shear_factor", "shear factor"),
-]
-COMPOSITE_ROWS = [
-    ("EIz (transformed)", "EIz", "flexural stiffness"),
-    ("EA", "EA", "axial stiffness"),
-    ("Mass per length", "mass_per_length", "mass/length"),
-    ("Neutral axis y (E-weighted)", "y_neutral", "length"),
-]
-TORSION_ROWS = [
-    ("Torsion constant J", "J", "second moment"),
-    ("Torsional stiffness GJ", "GJ", "flexural stiffness"),
-    ("Warping constant Cw", "Cw", "warping"),
-    ("Shear centre z", "zs", "length"),
-    ("Shear centre y", "ys", "length"),
-]
+from . import add_common, emit_json, option_paths
 
 
 def add_parser(sub):
@@ -114,60 +77,31 @@ def compute(path, torsion=False, mesh_size=None, moment=None):
 
 
 def run(args) -> int:
-    from ..units import display_factor, fmt
+    import sys
+
+    from ..report.section_text import pieces_warning, section_text
 
     section, out, extra, tors = compute(args.file, args.torsion, args.mesh_size, args.moment)
-    if extra.get("pieces_from_holes"):
-        import sys
-
-        print(f"leanspan section: warning: {args.file}: the holes cut the section into {len(section.parts)} "
-              f"separate pieces ({extra['pieces_from_holes']} part table(s)); bending properties treat "
-              "them as acting together, which holds only where they are joined along the member",
-              file=sys.stderr)
+    warning = pieces_warning(section, extra, args.file)
+    if warning:
+        print(f"leanspan section: warning: {warning}", file=sys.stderr)
     if args.plot:
         from ..report.diagrams import plot_section
 
-        plot_section(section, out, args.plot, title=Path(args.file).name, units=args.units)
+        with option_paths(("--plot", args.plot)):
+            plot_section(section, out, args.plot, title=Path(args.file).name, units=args.units)
     if getattr(args, "report", None):
         from ..report.sheet import write_section_sheet
 
-        write_section_sheet(section, out, args.report, units=args.units, source=args.file)
+        with option_paths(("--report", args.report)):
+            write_section_sheet(section, out, args.report, units=args.units, source=args.file)
     if args.json:
         payload = dict(out)
         if "stresses" in extra:
             payload["stresses"] = extra["stresses"]
         emit_json(payload)
         return 0
-    rows = ROWS + (COMPOSITE_ROWS if "EIz" in out else []) + (TORSION_ROWS if tors is not None else [])
-    values = dict(out, **extra)
-    size = max(out["depth"], out["width"])
-    for s_key, c_key in (("zs", "zc"), ("ys", "yc")):
-        # the finite-element shear centre is good to about 1e-3 of the size: a shift below 1e-4
-        # of it from the centroid is mesh noise (a symmetric section's lies on the axis)
-        if s_key in values and abs(values[s_key] - values[c_key]) < 1e-4 * size:
-            values[s_key] = values[c_key]
-    lines = [f"Section {args.file}: {len(section.parts)} part(s)"]
-    for label, key, kind in rows:
-        if key not in values:
-            continue
-        unit, factor = display_factor(kind, args.units) if kind else ("deg", 1.0)
-        lines.append(f"  {label:<32} {fmt(values[key] / factor):>12} {unit}")
-    if "stresses" in extra:
-        unit, factor = display_factor("pressure", args.units)
-        mu, mf = display_factor("moment", args.units)
-        lines.append(f"Bending stress under M = {fmt(extra['moment'] / mf)} {mu} (tension +):")
-        for name, s in extra["stresses"].items():
-            lines.append(f"  {name:<12} top {fmt(s['top'] / factor):>10} {unit}   "
-                         f"bottom {fmt(s['bottom'] / factor):>10} {unit}")
-    if "EIz" in out and len({p.material for p in section.parts}) > 1:
-        lines.append("  (the shear factor is from the geometry alone: with several materials the shear "
-                     "stress in each part differs)")
-    if extra.get("torsion_reference"):
-        lines.append(f"  (J and Cw are transformed to part 1's material, {extra['torsion_reference']}: "
-                     f"J = GJ / G of {extra['torsion_reference']})")
-    if extra.get("torsion_gross"):
-        lines.append("  (J, Cw and the shear centre are for the gross section: holes ignored)")
-    print("\n".join(lines))
+    print(section_text(section, out, extra, args.units, source=args.file))
     if args.plot:
         print(f"drawing written to {args.plot}")
     if getattr(args, "report", None):

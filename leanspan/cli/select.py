@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from . import add_common, emit_json
+from . import add_common, emit_json, option_paths
 
 
 def add_parser(sub):
@@ -55,13 +55,16 @@ def finish(args, job, source) -> int:
     sel = run_selection(job)
     for w in sel.warnings:
         print(f"warning: {w}", file=sys.stderr)
-    write_table_exports(sel, args)
+    with option_paths(("--csv", args.csv), ("--markdown", args.markdown)):
+        write_table_exports(sel, csv_path=args.csv, markdown_path=args.markdown, units=args.units, top=args.top)
     if getattr(args, "report", None):
         from ..report.sheet import write_selection_sheet
 
-        write_selection_sheet(sel, args.report, units=args.units, source=source, top=args.top)
+        with option_paths(("--report", args.report)):
+            write_selection_sheet(sel, args.report, units=args.units, source=source, top=args.top)
     if getattr(args, "plot", None):
-        plots = write_plots(sel, args.plot, args.units)
+        with option_paths(("--plot", args.plot)):
+            plots = write_plots(sel, args.plot, args.units)
     if args.json:
         emit_json(sel.to_json(args.top))
     else:

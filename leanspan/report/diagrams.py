@@ -5,7 +5,7 @@ cheap. Every figure is drawn to scale along x in display units; curves come from
 solver's own result stations (the numbers the JSON output carries), so what the
 diagram shows is what the tables print.
 
-:func:`plot_job` writes the same drawings to a ``--plot`` file (.svg, .png or .pdf).
+:func:`plot_job` writes the same drawings to a file (.svg, .png or .pdf).
 """
 
 from __future__ import annotations
@@ -513,7 +513,7 @@ def section_figure(section, props, units: str = "si", title: str = "", size: flo
     return fig
 
 
-# -- --plot files -------------------------------------------------------------------------
+# -- drawing files ------------------------------------------------------------------------
 _FORMATS = {".svg": "svg", ".png": "png", ".pdf": "pdf"}
 
 
@@ -529,12 +529,12 @@ def beam_and_diagrams_figure(solution, units: str = "si", title: str = ""):
 
 
 def _plot_kind(path: Path) -> str:
-    """The file type of a ``--plot`` target; raises InputError for an unknown one or a missing folder."""
+    """The file type of a drawing file; raises InputError for an unknown one or a missing folder."""
     kind = _FORMATS.get(path.suffix.lower())
     if kind is None:
-        raise InputError(f"--plot {path}: expected a file name ending in .svg, .png or .pdf")
+        raise InputError(f"{path}: expected a file name ending in .svg, .png or .pdf")
     if not (path.parent if str(path.parent) else Path(".")).is_dir():
-        raise InputError(f"--plot {path}: folder {path.parent} does not exist")
+        raise InputError(f"{path}: folder {path.parent} does not exist")
     return kind
 
 

@@ -27,6 +27,7 @@ from ..errors import InputError
 from ..select.checks import not_checked, registered
 from ..select.chosen import check_rows
 from ..units import display_factor, fmt
+from . import labels as prop_labels
 from .markup import Cell, esc, inline_svg, num, page, section, table, util_bar
 from .tables import utilisation_text as _util
 
@@ -70,10 +71,10 @@ def _today() -> str:
 def _check_target(path) -> Path:
     path = Path(path)
     if path.suffix.lower() not in (".html", ".htm"):
-        raise InputError(f"--report {path}: expected a file name ending in .html")
+        raise InputError(f"{path}: expected a file name ending in .html")
     folder = path.parent if str(path.parent) else Path(".")
     if not folder.is_dir():
-        raise InputError(f"--report {path}: folder {folder} does not exist")
+        raise InputError(f"{path}: folder {folder} does not exist")
     return path
 
 
@@ -96,9 +97,10 @@ def _invented(*texts) -> bool:
 
 
 def _header(title: str, kind: str, source: str, units: str, invented: bool, contents) -> str:
+    shown = ", ".join(_u(k, units)[0] for k in ("length", "force", "moment", "pressure", "mass/length"))
+    system = "SI" if units == "si" else "US customary"
     rows = [("Sheet", kind), ("Date", _today()), ("Input", source or "(not given)"),
-            ("Units", "SI (mm, kN, kN·m, MPa, kg/m; positions in m)" if units == "si"
-             else "US customary (in, kip, kip·ft, ksi, lb/ft; positions in ft)"),
+            ("Units", f"{system} ({shown}; positions in {_u('span', units)[0]})"),
             ("Program", f"leanspan {__version__}")]
     out = [f"<h1>{esc(title)}</h1>", '<table class="meta">']
     out += [f"<tr><td><b>{esc(k)}</b></td><td>{esc(v)}</td></tr>" for k, v in rows]
@@ -178,7 +180,7 @@ def _beam_tables(model, units: str, show_ei: bool) -> str:
         factors = " + ".join(f"{f:g} × {case}" for case, f in c.factors)
         lim = "-"
         if c.limit is not None:
-            lim = c.limit.describe()
+            lim = c.limit.describe(units)
         crows.append([c.name, factors, c.check, lim, c.pattern or "-"])
     if crows:
         out.append(table(["combination", "factors", "check", "deflection limit", "pattern case"], crows,
@@ -223,23 +225,10 @@ def _search_table(sel, units: str) -> str:
 # -- selection sheet ---------------------------------------------------------------------------
 def _property_rows(row, cand, units):
     """(label, key, value SI, kind) for the chosen member's property table."""
-    E, Iz = float(row["E"]), float(row["Iz"])
-    items = [("Area A", "A", "area"), ("Centroid from base yc", "yc", "length"),
-             ("Depth", "depth", "length"), ("Width", "width", "length"),
-             ("Iz (about the horizontal axis)", "Iz", "second moment"),
-             ("Iy (about the vertical axis)", "Iy", "second moment"),
-             ("Sz top fibre", "Sz_top", "section modulus"), ("Sz bottom fibre", "Sz_bot", "section modulus"),
-             ("Plastic modulus Zz", "Zz", "section modulus"),
-             ("Radius of gyration rz", "rz", "length"), ("Radius of gyration ry", "ry", "length"),
-             ("Shear factor (τ max = V × factor)", "shear_factor", "shear factor"),
-             ("Mass per length", "mass_per_length", "mass/length"),
-             ("Elastic modulus E", "E", "modulus"), ("Shear modulus G", "G", "modulus"),
-             ("Density", "density", "density"),
-             ("Bending strength (material)", "strength_bending", "pressure"),
-             ("Shear strength (material)", "strength_shear", "pressure")]
-    out = [(label, key, float(row[key]), kind) for label, key, kind in items if key in row.index]
-    out.append(("Flexural stiffness EIz", "EIz", E * Iz, "flexural stiffness"))
-    return out
+    values = {key: float(row[key]) for key in prop_labels.MEMBER_KEYS if key in row.index}
+    values["EIz"] = float(row["E"]) * float(row["Iz"])
+    return [(prop_labels.label(key), key, values[key], prop_labels.kind(key))
+            for key in prop_labels.MEMBER_KEYS if key in values]
 
 
 def _dims_text(cand, units):
@@ -433,6 +422,7 @@ def beam_sheet_html(solution, units: str = "si", source: str = "") -> str:
     rea = table(["result", "support", f"force [{fl}] (up +)", f"moment [{ml}] (ccw +)"], rrows,
                 caption="Support reactions (envelope: the larger-magnitude bound)")
     drows, dcls = [], []
+    limits = {c.name: c.limit.describe(units) for c in model.combinations if c.limit is not None}
     for n, r in solution.results.items():
         if r.kind != "combination":
             continue
@@ -441,7 +431,7 @@ def beam_sheet_html(solution, units: str = "si", source: str = "") -> str:
             drows.append([n, f"{c['kind']} {c['span']} ({_q(c['from'], 'span', units)} to "
                              f"{_qu(c['to'], 'span', units)})",
                           num(f"{_q(c['v_extreme'], 'length', units)} @ {_q(c['at'], 'span', units)}"),
-                          num(f"{_q(c['allowed'], 'length', units)} ({c['limit']})"),
+                          num(f"{_q(c['allowed'], 'length', units)} ({limits.get(n, c['limit'])})"),
                           num(_util(c["utilisation"]), f"{n}.defl{c['span']}"), Cell(util_bar(c["utilisation"])),
                           Cell("pass" if ok else "FAILS", f' class="{"pass" if ok else "fail"}"')])
             dcls.append("" if ok else "fails")
@@ -476,25 +466,6 @@ def write_beam_sheet(solution, path, units: str = "si", source: str = "") -> Non
 
 
 # -- section sheet -----------------------------------------------------------------------------
-_SECTION_ROWS = [
-    ("Area A", "A", "area"), ("Centroid y from base yc", "yc", "length"), ("Centroid z zc", "zc", "length"),
-    ("Depth", "depth", "length"), ("Width", "width", "length"),
-    ("Iz (about the horizontal axis)", "Iz", "second moment"), ("Iy (about the vertical axis)", "Iy", "second moment"),
-    ("Iyz", "Iyz", "second moment"), ("I1 (major principal)", "I1", "second moment"),
-    ("I2 (minor principal)", "I2", "second moment"), ("theta (z-axis to I1, counter-clockwise)", "theta", None),
-    ("Sz top fibre", "Sz_top", "section modulus"), ("Sz bottom fibre", "Sz_bot", "section modulus"),
-    ("Sy left fibre", "Sy_left", "section modulus"), ("Sy right fibre", "Sy_right", "section modulus"),
-    ("Plastic modulus Zz", "Zz", "section modulus"), ("Plastic modulus Zy", "Zy", "section modulus"),
-    ("Radius of gyration rz", "rz", "length"), ("Radius of gyration ry", "ry", "length"),
-    ("Shear factor (τ max = V × factor)", "shear_factor", "shear factor"),
-    ("EIz (transformed)", "EIz", "flexural stiffness"), ("EA", "EA", "axial stiffness"),
-    ("Mass per length", "mass_per_length", "mass/length"),
-    ("Neutral axis y (E-weighted)", "y_neutral", "length"),
-    ("Torsion constant J", "J", "second moment"), ("Warping constant Cw", "Cw", "warping"),
-    ("Shear centre z", "zs", "length"), ("Shear centre y", "ys", "length"),
-]
-
-
 def section_sheet_html(section_obj, out: dict, units: str = "si", source: str = "") -> str:
     """The whole section sheet as an HTML string (see :func:`write_section_sheet`)."""
     from .diagrams import section_figure
@@ -523,11 +494,11 @@ def section_sheet_html(section_obj, out: dict, units: str = "si", source: str = 
                   + ("; dashed blue line: neutral axis (E-weighted)" if "y_neutral" in props else "") + ".",
                   cls="section-drawing")
     rows = []
-    for label, key, kind in _SECTION_ROWS:
-        if key not in values or values[key] is None:
+    for key in prop_labels.SECTION_KEYS:
+        if values.get(key) is None:
             continue
-        unit, factor = _u(kind, units) if kind else ("deg", 1.0)
-        rows.append([label, num(fmt(values[key] / factor, 4), key), unit])
+        name, factor = prop_labels.unit(key, units)
+        rows.append([prop_labels.label(key), num(fmt(values[key] / factor, 4), key), name])
     prop = table(["property", "value", "unit"], rows, caption="Properties (about the centroid unless stated)")
     parts = [head, section("Drawing and properties", fig + ptab + prop, anchor="section")]
     assumptions = [

@@ -53,7 +53,7 @@ def _summary(sel, units):
     su, sf = display_factor("span", units)
     spans = ", ".join(f"{fmt((b - a) / sf, 4)} {su}" + (" overhang" if k == "overhang" else "")
                       for a, b, k in job.model.spans)
-    combos = ", ".join(f"{c.name} ({c.check}{', ' + c.limit.describe() if c.limit else ''})"
+    combos = ", ".join(f"{c.name} ({c.check}{', ' + c.limit.describe(units) if c.limit else ''})"
                        for c in job.model.combinations)
     lines.append(f"Beam: {spans}; combinations: {combos}")
     lines.append(f"Limits: {job.limits.describe(units)}; self-weight in case "
@@ -63,17 +63,11 @@ def _summary(sel, units):
 
 
 def ranked_table_text(sel, units: str = "si", top: int = 10) -> str:
-    """Summary lines and an aligned table of the shown candidates."""
+    """Summary lines and an aligned table of the shown candidates (numeric columns to the right)."""
+    from .text import aligned_table
+
     labels, rows = table_rows(sel, units, top)
-    widths = [max(len(labels[i]), *(len(r[i]) for r in rows)) if rows else len(labels[i])
-              for i in range(len(labels))]
-    right = {0, 3, 4, 5, 6, 7, 8}
-
-    def line(cells):
-        return "  ".join(c.rjust(w) if i in right else c.ljust(w) for i, (c, w) in enumerate(zip(cells, widths)))
-
-    out = _summary(sel, units) + ["", line(labels), line(["-" * w for w in widths])]
-    out += [line(r) for r in rows]
+    out = _summary(sel, units) + ["", aligned_table(labels, rows, rule=True)]
     out.append("Utilisation = demand / limit; rows marked NO fail (the heaviest lighter sections "
                "that fail, closest to passing first).")
     return "\n".join(out)
@@ -82,11 +76,13 @@ def ranked_table_text(sel, units: str = "si", top: int = 10) -> str:
 def ranked_table_markdown(sel, units: str = "si", top: int = 10) -> str:
     """The ranked table as a Markdown (pipe) table, with the summary above it and the caution below."""
     from .. import CAUTION
+    from .text import numeric_columns
 
     labels, rows = table_rows(sel, units, top)
+    right = numeric_columns(rows)
     out = [f"- {s}" for s in _summary(sel, units)] + [""]
     out.append("| " + " | ".join(labels) + " |")
-    out.append("|" + "|".join("---:" if i in (0, 3, 4, 5, 6, 7, 8) else "---" for i in range(len(labels))) + "|")
+    out.append("|" + "|".join("---:" if i in right else "---" for i in range(len(labels))) + "|")
     out += ["| " + " | ".join(r) + " |" for r in rows]
     out += ["", f"> {CAUTION}"]
     return "\n".join(out) + "\n"
@@ -94,22 +90,17 @@ def ranked_table_markdown(sel, units: str = "si", top: int = 10) -> str:
 
 def ranked_table_csv(sel, units: str = "si", top: int = 10) -> str:
     """The ranked table as CSV (display units in the headers)."""
-    import csv
-    import io
+    from .text import csv_text
 
     labels, rows = table_rows(sel, units, top)
-    buf = io.StringIO()
-    w = csv.writer(buf, lineterminator="\n")
-    w.writerow(labels)
-    w.writerows(rows)
-    return buf.getvalue()
+    return csv_text(labels, rows)
 
 
-def write_table_exports(sel, args) -> None:
-    """Write ``--csv`` and ``--markdown`` files (atomically) when asked."""
+def write_table_exports(sel, csv_path=None, markdown_path=None, units: str = "si", top: int = 10) -> None:
+    """Write the ranked table to ``csv_path`` and ``markdown_path`` (atomically), where given."""
     from ..fileio import atomic_write
 
-    if getattr(args, "csv", None):
-        atomic_write(args.csv, ranked_table_csv(sel, args.units, args.top))
-    if getattr(args, "markdown", None):
-        atomic_write(args.markdown, ranked_table_markdown(sel, args.units, args.top))
+    if csv_path:
+        atomic_write(csv_path, ranked_table_csv(sel, units, top))
+    if markdown_path:
+        atomic_write(markdown_path, ranked_table_markdown(sel, units, top))
