@@ -53,6 +53,11 @@ def test_absolute_deflection_limit_in_us_units_in_the_ranked_table(tmp_path, cap
     assert f"imposed deflection (deflection, {TWELVE_MM_IN_INCHES})" in beam_line
     main(["select", str(path), "--top", "3"])
     assert "imposed deflection (deflection, 12 mm)" in capsys.readouterr().out
+    # the selection sheet's deflection rows too
+    sheet = tmp_path / "joist.html"
+    main(["select", str(path), "--units", "us", "--report", str(sheet)])
+    html = sheet.read_text(encoding="utf-8")
+    assert f"({TWELVE_MM_IN_INCHES})" in html and "(12 mm)" not in html
 
 
 # the headers the CSV exports have always written (they read back as user files)

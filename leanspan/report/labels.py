@@ -7,7 +7,7 @@ properties each listing shows, in order.
 Examples
 --------
 >>> label("shear_factor")
-'Shear factor (tau_max = V x factor)'
+'Shear factor (τ max = V × factor)'
 >>> unit("Iz", "us"), unit("theta")
 (('in⁴', 4.162314255999999e-07), ('deg', 1.0))
 >>> short("strength_bending"), short("Iz")
@@ -51,7 +51,7 @@ PROPERTIES: dict[str, tuple[str, str | None]] = {
     "Zy": ("Plastic modulus Zy", "section modulus"),
     "rz": ("Radius of gyration rz", "length"),
     "ry": ("Radius of gyration ry", "length"),
-    "shear_factor": ("Shear factor (tau_max = V x factor)", "shear factor"),
+    "shear_factor": ("Shear factor (τ max = V × factor)", "shear factor"),
     # composite (E-weighted) properties
     "EIz": ("Flexural stiffness EIz", "flexural stiffness"),
     "EA": ("Axial stiffness EA", "axial stiffness"),

@@ -250,7 +250,7 @@ def _check_rows(sel, chosen, units):
 
     for r in check_rows(chosen):
         ok = r.utilisation is None or r.utilisation <= 1.0
-        limit = _qu(r.limit, r.kind, units) + (f" ({r.limit_note})" if r.limit_note else "")
+        limit = _qu(r.limit, r.kind, units) + (f" ({r.rule.describe(units)})" if r.rule is not None else "")
         rows.append([two(r.check, r.combination), action_text(r.action),
                      num(_qu(r.demand, r.kind, units), r.keys.get("demand")),
                      num(limit, r.keys.get("limit")),

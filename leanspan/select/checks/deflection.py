@@ -30,6 +30,7 @@ def _allowable(props, limits, eff):
 def _sheet_rows(chosen):
     """One row per span and deflection combination, from the chosen member's exact solution."""
     sol = chosen.solution
+    rules = {c.name: c.limit for c in sol.model.combinations}
     rows = [(n, c) for n, r in sol.results.items() if r.kind == "combination" for c in r.deflection_checks]
     if not rows:
         return []
@@ -41,7 +42,7 @@ def _sheet_rows(chosen):
             check=f"deflection, {c['kind']} {c['span']}", combination=name,
             action=(("v", c["v_extreme"], "length"), ("at x =", c["at"], "span")),
             demand=abs(c["v_extreme"]), limit=c["allowed"], kind="length",
-            utilisation=c["utilisation"], limit_note=c["limit"],
+            utilisation=c["utilisation"], rule=rules.get(name),
             keys={"demand": "chosen.demands.v_abs" if i == worst else None, "limit": None,
                   "utilisation": f"chosen.utilisation.{key}"}))
     return out

@@ -72,8 +72,10 @@ class CheckRow:
     """One line of the sheet's checks table, in SI values (the report formats them).
 
     ``action`` lists ``(label, value, display kind)`` of the forces behind the demand;
-    ``demand`` and ``limit`` are in ``kind`` units; ``keys`` names the values for the
-    sheet's ``data-key`` attributes (``demand``, ``limit``, ``utilisation``).
+    ``demand`` and ``limit`` are in ``kind`` units; ``rule``, where given, is the limit's
+    rule with a ``describe(units)`` method (``span/360``, ``12 mm``) shown beside it;
+    ``keys`` names the values for the sheet's ``data-key`` attributes (``demand``,
+    ``limit``, ``utilisation``).
     """
 
     check: str
@@ -83,8 +85,7 @@ class CheckRow:
     limit: float
     kind: str
     utilisation: float | None
-    limit_note: str = ""
-    where: str = ""
+    rule: object = None
     keys: dict = field(default_factory=dict)
 
 
