@@ -31,7 +31,7 @@ TABLE_K1 = {1.0: 0.141, 1.5: 0.196, 2.0: 0.229, 3.0: 0.263, 4.0: 0.281, 5.0: 0.2
 
 @pytest.mark.parametrize("ratio", sorted(TABLE_K1))
 def test_rectangle_J_series_and_table(ratio):
-    r = torsion([rectangle(ratio, 1.0)], mesh_size=0.1)
+    r = torsion([rectangle(ratio, 1.0)], element_size=0.1)
     assert r.J == pytest.approx(saint_venant_rectangle_J(ratio, 1.0), rel=2e-4)  # series solution
     assert r.J / ratio == pytest.approx(TABLE_K1[ratio], abs=6e-4)               # table, 3 decimals
     # doubly symmetric: shear centre at the centre
@@ -122,7 +122,7 @@ def test_convergence_rate_equilateral_triangle():
     tri = Polygon([(-a / 2, 0.0), (a / 2, 0.0), (0.0, a * math.sqrt(3) / 2)])
     exact = math.sqrt(3) * a**4 / 80
     hs = np.array([0.2, 0.1, 0.05, 0.025])
-    err = np.array([abs(torsion([tri], mesh_size=h).J / exact - 1) for h in hs])
+    err = np.array([abs(torsion([tri], element_size=h).J / exact - 1) for h in hs])
     rate = np.polyfit(np.log(hs), np.log(err), 1)[0]
     assert 3.6 < rate < 4.6
     assert err[-1] < 1e-6
@@ -137,7 +137,7 @@ def test_equilateral_triangle_warping_constant():
     exact, _ = dblquad(lambda z, y: ((3 * y * y * z - z**3) / (2 * h)) ** 2, -h / 3, 2 * h / 3,
                        lambda y: -(2 * h / 3 - y) / math.sqrt(3), lambda y: (2 * h / 3 - y) / math.sqrt(3))
     tri = Polygon([(-a / 2, -h / 3), (a / 2, -h / 3), (0.0, 2 * h / 3)])
-    r = torsion([tri], mesh_size=0.05)
+    r = torsion([tri], element_size=0.05)
     assert r.Cw == pytest.approx(exact, rel=1e-5)
     assert r.zs == pytest.approx(0.0, abs=1e-6) and r.ys == pytest.approx(0.0, abs=1e-6)
 
@@ -153,18 +153,18 @@ def test_results_do_not_depend_on_placement():
 
 def test_composite_parts():
     # one material cut into touching parts: the same J as the whole (the mesh conforms)
-    whole = torsion([box(-55, 0, 55, 200)], mesh_size=5.0)
+    whole = torsion([box(-55, 0, 55, 200)], element_size=5.0)
     parts = [box(-55, 0, -5, 200), box(-5, 0, 5, 200), box(5, 0, 55, 200)]
-    split = torsion(parts, mesh_size=5.0)
+    split = torsion(parts, element_size=5.0)
     assert split.J == pytest.approx(whole.J, rel=1e-4)
     # equal moduli scale GJ and leave J unchanged
-    same = torsion(parts, shear_moduli=[3.0, 3.0, 3.0], mesh_size=5.0)
+    same = torsion(parts, shear_moduli=[3.0, 3.0, 3.0], element_size=5.0)
     assert same.GJ == pytest.approx(3 * split.J, rel=1e-9) and same.J == pytest.approx(split.J, rel=1e-9)
     # a stiff core: GJ lies between the Voigt/Reuss-type bounds, sum of separate parts'
     # GJ (lower: no shear transfer) and the stiff modulus over the whole (upper)
     G = [1.0, 50.0, 1.0]
-    comp = torsion(parts, shear_moduli=G, mesh_size=5.0)
-    separate = sum(g * torsion([p], mesh_size=5.0).J for g, p in zip(G, parts))
+    comp = torsion(parts, shear_moduli=G, element_size=5.0)
+    separate = sum(g * torsion([p], element_size=5.0).J for g, p in zip(G, parts))
     assert separate < comp.GJ < 50.0 * whole.J
     assert comp.J == pytest.approx(comp.GJ / 1.0)
     assert comp.zs == pytest.approx(0.0, abs=1e-4) and comp.ys == pytest.approx(100.0, abs=1e-4)
@@ -176,8 +176,8 @@ def test_parts_touching_along_part_of_an_edge_share_nodes():
     import shapely
 
     parts = [box(-55, 0, -5, 200), box(-5, 20, 5, 180), box(5, 0, 55, 200)]
-    split = torsion(parts, mesh_size=5.0)
-    whole = torsion([shapely.union_all(parts)], mesh_size=5.0)
+    split = torsion(parts, element_size=5.0)
+    whole = torsion([shapely.union_all(parts)], element_size=5.0)
     assert split.J == pytest.approx(whole.J, rel=2e-4)
     assert split.Cw == pytest.approx(whole.Cw, rel=2e-3)
 
@@ -192,15 +192,15 @@ def test_edges_that_meet_only_to_rounding_are_merged():
     split = torsion(parts, shear_moduli=[0.5e9, 81e9, 0.5e9])
     assert split.n_elements < 5000
     same = torsion(parts)
-    whole = torsion([shapely.union_all(parts)], mesh_size=same.mesh.mesh_size)
+    whole = torsion([shapely.union_all(parts)], element_size=same.mesh.element_size)
     assert same.J == pytest.approx(whole.J, rel=1e-3)
 
 
 def test_disconnected_parts_add_their_J():
     # parts that do not touch twist as separate pieces: J is the sum (the two meshes
     # differ slightly, hence the discretisation-level tolerance)
-    a = torsion([box(0, 0, 1, 1)], mesh_size=0.1).J
-    two = torsion([box(0, 0, 1, 1), box(3, 0, 4, 1)], mesh_size=0.1)
+    a = torsion([box(0, 0, 1, 1)], element_size=0.1).J
+    two = torsion([box(0, 0, 1, 1), box(3, 0, 4, 1)], element_size=0.1)
     assert two.J == pytest.approx(2 * a, rel=1e-5)
     assert two.J == pytest.approx(2 * saint_venant_rectangle_J(1.0, 1.0), rel=3e-4)
     assert (two.zs, two.ys) == pytest.approx((2.0, 0.5), abs=1e-4)  # symmetry
@@ -218,7 +218,7 @@ def test_plate_with_holes_mesh_conforms():
 
 def test_unit_torque_stress_of_circle():
     # tau_max = T r / J for a circular shaft (strength of materials), T = 1
-    r = torsion([circle(2.0)], mesh_size=0.05)
+    r = torsion([circle(2.0)], element_size=0.05)
     assert r.tau_max == pytest.approx(1.0 / (math.pi * 2**4 / 32), rel=0.01)
 
 
@@ -235,15 +235,15 @@ def test_bad_geometry_is_one_line_error(bad, cls, words):
     assert words in str(info.value) and "\n" not in str(info.value)
 
 
-def test_bad_moduli_and_mesh_size():
+def test_bad_moduli_and_element_size():
     sq = [box(0, 0, 1, 1)]
     for kwargs, words in [
         ({"shear_moduli": [1.0, 2.0]}, "expected 1 values"),
         ({"shear_moduli": [-1.0]}, "shear_moduli[0]: expected a positive modulus"),
         ({"elastic_moduli": ["x"]}, "elastic_moduli"),
-        ({"mesh_size": 0.0}, "mesh_size: expected a positive length"),
-        ({"mesh_size": "big"}, "mesh_size: expected a positive length"),
-        ({"mesh_size": 1e-5}, "expected a larger mesh size"),
+        ({"element_size": 0.0}, "element_size: expected a positive length"),
+        ({"element_size": "big"}, "element_size: expected a positive length"),
+        ({"element_size": 1e-5}, "expected a larger element size"),
         ({"reference_part": 3}, "reference_part"),
     ]:
         with pytest.raises(LeanspanError) as info:

@@ -9,7 +9,7 @@ Method (numpy, shapely and scipy only):
 
 1. every part boundary is *noded* together (``shapely.union_all`` of the rings),
    so touching parts get identical vertices along shared edges;
-2. each noded edge is split into pieces no longer than the mesh size ``h``;
+2. each noded edge is split into pieces no longer than the element size ``h``;
 3. interior points on a triangular lattice of spacing ``h`` (a tiny fixed jitter
    breaks ties) are kept where they lie in a part and farther than ``h / 2`` from
    every boundary, so no interior point encroaches on a boundary piece;
@@ -27,7 +27,7 @@ elements reproduce the polygon exactly).
 Examples
 --------
 >>> from shapely.geometry import box
->>> m = mesh_section([box(-0.5, 0.0, 0.5, 1.0)], mesh_size=0.25)
+>>> m = mesh_section([box(-0.5, 0.0, 0.5, 1.0)], element_size=0.25)
 >>> m.triangles.shape[1], round(float(m.areas.sum()), 12)
 (6, 1.0)
 """
@@ -43,9 +43,9 @@ from shapely.geometry import MultiPolygon, Polygon
 
 from ..errors import GeometryError
 
-__all__ = ["TriMesh", "mesh_section", "default_mesh_size", "check_parts", "MAX_ELEMENTS"]
+__all__ = ["TriMesh", "mesh_section", "default_element_size", "check_parts", "MAX_ELEMENTS"]
 
-#: Cap on the element count that the default mesh size respects (keeps a default
+#: Cap on the element count that the default element size respects (keeps a default
 #: solve well under a second on a small machine).
 MAX_ELEMENTS = 6000
 
@@ -65,7 +65,7 @@ class TriMesh:
         Index of the input part each triangle lies in.
     n_vertices : int
         Number of corner nodes.
-    mesh_size : float
+    element_size : float
         The target edge length used.
     """
 
@@ -73,7 +73,7 @@ class TriMesh:
     triangles: np.ndarray
     part: np.ndarray
     n_vertices: int
-    mesh_size: float
+    element_size: float
 
     @property
     def n_elements(self) -> int:
@@ -96,7 +96,7 @@ class TriMesh:
         """Connected piece of each node (pieces share at least one node), shape (N,).
 
         >>> from shapely.geometry import box
-        >>> m = mesh_section([box(0, 0, 1, 1), box(2, 0, 3, 1)], mesh_size=0.5)
+        >>> m = mesh_section([box(0, 0, 1, 1), box(2, 0, 3, 1)], element_size=0.5)
         >>> int(m.components().max()) + 1
         2
         """
@@ -160,15 +160,15 @@ def check_parts(polygons) -> list[Polygon]:
     return parts
 
 
-def default_mesh_size(polygons, max_elements: int = MAX_ELEMENTS) -> float:
-    """The mesh size used when none is given.
+def default_element_size(polygons, max_elements: int = MAX_ELEMENTS) -> float:
+    """The element size used when none is given.
 
     Half the thinnest part's mean wall thickness, estimated as ``2 A / P`` (exact
     for a strip or a tube), but no larger than 1/20 of the section's bounding-box
     diagonal and no smaller than what keeps about ``max_elements`` triangles.
 
     >>> from shapely.geometry import box
-    >>> round(default_mesh_size([box(0, 0, 0.01, 0.2)]), 6)   # 10 mm plate: 5 mm
+    >>> round(default_element_size([box(0, 0, 0.01, 0.2)]), 6)   # 10 mm plate: 5 mm
     0.004762
     """
     parts = check_parts(polygons)
@@ -263,21 +263,21 @@ def _conforming_delaunay(bpts, seg, ipts, h, max_rounds=30):
         seg = np.concatenate([seg[~missing], np.column_stack([bad[:, 0], new]), np.column_stack([new, bad[:, 1]])])
         pts = np.concatenate([pts, mid])
     raise GeometryError("section: the mesh could not follow the part boundaries; "
-                        "check for parts that nearly touch, or try another mesh_size")
+                        "check for parts that nearly touch, or try another element_size")
 
 
-def mesh_section(polygons, mesh_size: float | None = None, max_elements: int = MAX_ELEMENTS) -> TriMesh:
+def mesh_section(polygons, element_size: float | None = None, max_elements: int = MAX_ELEMENTS) -> TriMesh:
     """Mesh the parts of a section with 6-node triangles.
 
     Parameters
     ----------
     polygons : list of shapely Polygon
         The parts, points ``[z, y]``; holes allowed; parts may touch along edges.
-    mesh_size : float, optional
+    element_size : float, optional
         Target edge length (same unit as the coordinates). Default:
-        :func:`default_mesh_size`. Shorter polygon edges (fillets, arcs) are kept.
+        :func:`default_element_size`. Shorter polygon edges (fillets, arcs) are kept.
     max_elements : int
-        Cap used by the default mesh size (ignored if ``mesh_size`` is given).
+        Cap used by the default element size (ignored if ``element_size`` is given).
 
     Returns
     -------
@@ -286,32 +286,32 @@ def mesh_section(polygons, mesh_size: float | None = None, max_elements: int = M
     Raises
     ------
     GeometryError
-        Bad parts (see :func:`check_parts`) or a non-positive mesh size.
+        Bad parts (see :func:`check_parts`) or a non-positive element size.
 
     Examples
     --------
     Two touching parts share the nodes on their common edge:
 
     >>> from shapely.geometry import box
-    >>> m = mesh_section([box(-1, 0, 0, 1), box(0, 0, 1, 1)], mesh_size=0.2)
+    >>> m = mesh_section([box(-1, 0, 0, 1), box(0, 0, 1, 1)], element_size=0.2)
     >>> sorted(set(m.part.tolist())), round(float(m.areas.sum()), 12)
     ([0, 1], 2.0)
     """
     parts = check_parts(polygons)
-    if mesh_size is None:
-        h = default_mesh_size(parts, max_elements)
+    if element_size is None:
+        h = default_element_size(parts, max_elements)
     else:
         try:
-            h = float(mesh_size)
+            h = float(element_size)
         except (TypeError, ValueError):
-            raise GeometryError(f"mesh_size: expected a positive length, got {mesh_size!r}") from None
+            raise GeometryError(f"element_size: expected a positive length, got {element_size!r}") from None
         if not (np.isfinite(h) and h > 0):
-            raise GeometryError(f"mesh_size: expected a positive length, got {mesh_size!r}")
+            raise GeometryError(f"element_size: expected a positive length, got {element_size!r}")
     whole = shapely.union_all(parts)
     n_est = whole.area / (0.433 * h * h)
     if n_est > 50 * MAX_ELEMENTS:
         raise GeometryError(
-            f"mesh_size: {h:.4g} would give about {n_est:.3g} triangles; expected a larger mesh size"
+            f"element_size: {h:.4g} would give about {n_est:.3g} triangles; expected a larger element size"
         )
     bpts, seg = _noded_segments(parts, h)
     boundary = shapely.union_all([p.boundary for p in parts])
@@ -349,4 +349,4 @@ def mesh_section(polygons, mesh_size: float | None = None, max_elements: int = M
     mid_idx = nv + inv.ravel().reshape(3, m).T
     nodes = np.concatenate([verts, mids])
     tri6 = np.concatenate([tri, mid_idx], axis=1)
-    return TriMesh(nodes=nodes, triangles=tri6, part=part, n_vertices=nv, mesh_size=h)
+    return TriMesh(nodes=nodes, triangles=tri6, part=part, n_vertices=nv, element_size=h)

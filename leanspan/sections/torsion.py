@@ -43,7 +43,7 @@ Examples
 A square of side 1 has J = 0.1406 a^4 (theory-of-elasticity series):
 
 >>> from shapely.geometry import box
->>> r = torsion([box(-0.5, 0.0, 0.5, 1.0)], mesh_size=0.1)
+>>> r = torsion([box(-0.5, 0.0, 0.5, 1.0)], element_size=0.1)
 >>> round(r.J, 4), round(r.zs, 6) == 0.0, round(r.ys, 6)
 (0.1406, True, 0.5)
 """
@@ -194,7 +194,7 @@ def _moduli(values, n, name):
     return arr
 
 
-def torsion(polygons, shear_moduli=None, mesh_size=None, *, elastic_moduli=None,
+def torsion(polygons, shear_moduli=None, element_size=None, *, elastic_moduli=None,
             reference_part: int = 0, max_elements: int | None = None) -> TorsionResult:
     """Torsion constant, shear centre and warping constant of a section by FE.
 
@@ -204,8 +204,8 @@ def torsion(polygons, shear_moduli=None, mesh_size=None, *, elastic_moduli=None,
         The parts, points ``[z, y]``; holes allowed; parts may touch along edges.
     shear_moduli : sequence of float, optional
         G of each part (any consistent unit). None: all 1, so J is geometric.
-    mesh_size : float, optional
-        Target element edge length; default :func:`~leanspan.sections.mesh.default_mesh_size`.
+    element_size : float, optional
+        Target element edge length; default :func:`~leanspan.sections.mesh.default_element_size`.
     elastic_moduli : sequence of float, optional
         E of each part, weighting the shear centre and Cw (warping stresses are
         ``E theta'' omega``). None: proportional to ``shear_moduli`` (one Poisson
@@ -213,7 +213,7 @@ def torsion(polygons, shear_moduli=None, mesh_size=None, *, elastic_moduli=None,
     reference_part : int
         Part whose moduli ``G_ref``, ``E_ref`` turn GJ and ECw into J and Cw.
     max_elements : int, optional
-        Element cap for the default mesh size.
+        Element cap for the default element size.
 
     Returns
     -------
@@ -222,7 +222,7 @@ def torsion(polygons, shear_moduli=None, mesh_size=None, *, elastic_moduli=None,
     Raises
     ------
     GeometryError, InputError
-        Bad parts, a bad mesh size, or moduli that are not one positive value per part.
+        Bad parts, a bad element size, or moduli that are not one positive value per part.
 
     Examples
     --------
@@ -231,7 +231,7 @@ def torsion(polygons, shear_moduli=None, mesh_size=None, *, elastic_moduli=None,
     >>> import math
     >>> from shapely.geometry import Point
     >>> ring = Point(0, 0).buffer(1.0, quad_segs=32).difference(Point(0, 0).buffer(0.9, quad_segs=32))
-    >>> r = torsion([ring], mesh_size=0.05)
+    >>> r = torsion([ring], element_size=0.05)
     >>> abs(r.J / (math.pi * (2**4 - 1.8**4) / 32) - 1) < 0.005, abs(r.Cw) < 1e-6
     (True, True)
     """
@@ -241,7 +241,7 @@ def torsion(polygons, shear_moduli=None, mesh_size=None, *, elastic_moduli=None,
     E_part = G_part if elastic_moduli is None else _moduli(elastic_moduli, n_parts, "elastic_moduli")
     if not (isinstance(reference_part, (int, np.integer)) and 0 <= reference_part < n_parts):
         raise InputError(f"reference_part: expected a part index 0..{n_parts - 1}, got {reference_part!r}")
-    mesh = mesh_section(parts, mesh_size, max_elements or MAX_ELEMENTS)
+    mesh = mesh_section(parts, element_size, max_elements or MAX_ELEMENTS)
 
     tri = mesh.triangles
     G, E = G_part[mesh.part], E_part[mesh.part]

@@ -37,7 +37,7 @@ def run() -> dict[str, float]:
 
     shape = _filleted_i()
     seconds, r = _best_of(lambda: torsion([shape]))
-    fine = torsion([shape], mesh_size=7.1 / 8)
+    fine = torsion([shape], element_size=7.1 / 8)
     n = 100_000
     rng = np.random.default_rng(0)
     dims = {"d": rng.uniform(100, 600, n), "b": rng.uniform(60, 300, n), "tw": rng.uniform(4, 15, n),
@@ -51,7 +51,7 @@ def run() -> dict[str, float]:
         # producers' table for this section: It = 20.12 cm^4, Iw = 125.9e3 cm^6 (from memory)
         "torsion_J_vs_handbook_rel_diff": r.J / 20.12e4 - 1,
         "torsion_Cw_vs_handbook_rel_diff": r.Cw / 125.9e9 - 1,
-        "torsion_fine_mesh_seconds": _best_of(lambda: torsion([shape], mesh_size=7.1 / 8), 1)[0],
+        "torsion_fine_mesh_seconds": _best_of(lambda: torsion([shape], element_size=7.1 / 8), 1)[0],
         "torsion_fine_mesh_elements": float(fine.n_elements),
         "thin_walled_i_section_rows_per_second": n / tw_seconds,
     }
