@@ -107,8 +107,8 @@ FAMILY_CASES = {
     "circle": {"d": 0.2},
     "tube": {"d": 0.1683, "t": 0.008},
     "box": {"b": 0.1, "d": 0.2, "t": 0.008, "r": 0.012},
-    "i_section": {"d": 0.3, "b": 0.15, "tw": 0.0071, "tf": 0.0107, "r": 0.015},
-    "unequal_i_section": {"d": 0.4, "b": 0.2, "tw": 0.009, "tf": 0.014, "r": 0.02,
+    "ibeam": {"d": 0.3, "b": 0.15, "tw": 0.0071, "tf": 0.0107, "r": 0.015},
+    "unequal_ibeam": {"d": 0.4, "b": 0.2, "tw": 0.009, "tf": 0.014, "r": 0.02,
                           "b_top": 0.12, "tf_top": 0.01},
     "channel": {"d": 0.2, "b": 0.075, "tw": 0.0085, "tf": 0.0115, "r": 0.0115},
     "tee": {"d": 0.15, "b": 0.15, "tw": 0.008, "tf": 0.012, "r": 0.01},
@@ -117,8 +117,8 @@ FAMILY_CASES = {
 
 
 def family_of(case_name):
-    """Family key of a FAMILY_CASES entry (``unequal_i_section`` -> ``i_section``)."""
-    return "i_section" if case_name.endswith("i_section") else case_name
+    """Family key of a FAMILY_CASES entry (``unequal_ibeam`` -> ``ibeam``)."""
+    return "ibeam" if case_name.endswith("ibeam") else case_name
 
 
 def random_family_dims(family, rng, n):
@@ -139,7 +139,7 @@ def random_family_dims(family, rng, n):
         b = d * u(0.2, 3.0)
         m = np.minimum(b, d)
         return {"b": b, "d": d, "t": m / 2 * u(0.02, 0.9), "r": m / 2 * u(0.0, 0.95)}
-    if family == "i_section":
+    if family == "ibeam":
         b_top, b_bot = d * u(0.1, 1.2), d * u(0.1, 1.2)
         tw = np.minimum(b_top, b_bot) * u(0.02, 0.5)
         r = (np.minimum(b_top, b_bot) - tw) / 2 * u(0.0, 0.9)

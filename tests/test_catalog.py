@@ -73,13 +73,13 @@ def test_rectangles_and_tubes_closed_form(full):
 # (EN 10219-2); angle 100x100x10: A 19.2 cm2, I 177 cm4 (EN 10056-1; ours has no toe radius, so a
 # little more area far out on the legs: tolerance 2.5 %).
 HANDBOOK = [
-    ("I 300x150x7.1x10.7", "steel_i_rolled", {"A": 53.8e-4, "Iz": 8356e-8, "Sz_top": 557e-6, "Zz": 628e-6,
+    ("I 300x150x7.1x10.7", "gen_steel_i", {"A": 53.8e-4, "Iz": 8356e-8, "Sz_top": 557e-6, "Zz": 628e-6,
                                               "mass_per_length": 42.2}, 0.005),
-    ("I 300x300x11x19", "steel_h_rolled", {"A": 149.1e-4, "Iz": 25170e-8, "Sz_top": 1678e-6, "Zz": 1869e-6},
+    ("I 300x300x11x19", "gen_steel_h", {"A": 149.1e-4, "Iz": 25170e-8, "Sz_top": 1678e-6, "Zz": 1869e-6},
      0.005),
-    ("tube 114.3x6.3", "chs", {"A": 21.4e-4, "Iz": 313e-8}, 0.005),
-    ("box 100x100x5", "shs_rhs", {"A": 18.4e-4, "Iz": 271e-8}, 0.005),
-    ("angle 100x100x10", "angle_equal", {"A": 19.2e-4, "Iz": 177e-8}, 0.025),
+    ("tube 114.3x6.3", "gen_chs", {"A": 21.4e-4, "Iz": 313e-8}, 0.005),
+    ("box 100x100x5", "gen_shs_rhs", {"A": 18.4e-4, "Iz": 271e-8}, 0.005),
+    ("angle 100x100x10", "gen_angle_equal", {"A": 19.2e-4, "Iz": 177e-8}, 0.025),
 ]
 
 
@@ -99,11 +99,11 @@ def test_dressed_lumber_sizes():
 
 
 def test_filters_and_material_pairing():
-    df = catalog_table(families=["i_section"], materials=["S275", "6082-T6"], max_depth=0.4,
+    df = catalog_table(families=["ibeam"], materials=["S275", "6082-T6"], max_depth=0.4,
                        min_width=0.1)
-    assert set(df.series) == {"steel_i_rolled", "steel_h_rolled", "plate_girder", "alu_i"}
-    assert set(df[df.series == "alu_i"].material) == {"6082-T6"}
-    assert set(df[df.series != "alu_i"].material) == {"S275"}
+    assert set(df.series) == {"gen_steel_i", "gen_steel_h", "gen_plate_girder", "gen_alu_i"}
+    assert set(df[df.series == "gen_alu_i"].material) == {"6082-T6"}
+    assert set(df[df.series != "gen_alu_i"].material) == {"S275"}
     assert (df.depth <= 0.4 * (1 + 1e-4)).all() and (df.width >= 0.1 * (1 - 1e-4)).all()
     steel = df[df.material == "S275"]
     assert np.allclose(steel.mass_per_length, steel.A * 7850) and (steel.strength_bending == 275e6).all()
@@ -116,9 +116,9 @@ def test_filters_and_material_pairing():
 def test_dims_of_round_trips(full):
     d = dims_of(full)
     assert set(d) == set(full.family)
-    i = full[full.family == "i_section"]
-    assert np.array_equal(d["i_section"]["tw"], i.tw.to_numpy())
-    assert np.array_equal(d["i_section"]["b_top"], i.b.to_numpy())
+    i = full[full.family == "ibeam"]
+    assert np.array_equal(d["ibeam"]["tw"], i.tw.to_numpy())
+    assert np.array_equal(d["ibeam"]["b_top"], i.b.to_numpy())
 
 
 def test_cache_is_written_reused_and_survives_damage(tmp_path, monkeypatch):
@@ -141,7 +141,7 @@ def test_unwritable_cache_folder_still_works(tmp_path, monkeypatch):
     blocker.write_text("x")
     monkeypatch.setenv("XDG_CACHE_HOME", str(blocker))  # a file: no folder can be made inside
     table_mod._builtin_columns.cache_clear()
-    assert len(catalog_table(series="chs")) >= 20
+    assert len(catalog_table(series="gen_chs")) >= 20
     table_mod._builtin_columns.cache_clear()
 
 
@@ -150,7 +150,7 @@ USER = "family,name,material,d,b,tw,tf,t,r,Iz [cm^4]\n"
 
 def test_user_catalogue_and_tabulated_warnings(tmp_path):
     p = tmp_path / "list.csv"
-    p.write_text(USER + "i_section,,S275,300,150,7.1,10.7,,15,8356\n"
+    p.write_text(USER + "ibeam,,S275,300,150,7.1,10.7,,15,8356\n"
                         "rectangle,my joist,,200,47,,,,,3300\n")
     df = catalog_table(user_csv=p)
     assert list(df.name) == ["I 300x150x7.1x10.7", "my joist"] and list(df.row) == [2, 3]
@@ -166,8 +166,8 @@ def test_user_catalogue_and_tabulated_warnings(tmp_path):
 
 
 @pytest.mark.parametrize("line,match", [
-    ("i_section,,,300,150,x,10.7,,15,", r"list\.csv: row 2: column 'tw': expected a length in mm"),
-    ("i_section,,,300,150,,10.7,,15,", r"list\.csv: row 2: missing dimension 'tw'"),
+    ("ibeam,,,300,150,x,10.7,,15,", r"list\.csv: row 2: column 'tw': expected a length in mm"),
+    ("ibeam,,,300,150,,10.7,,15,", r"list\.csv: row 2: missing dimension 'tw'"),
     ("hexagon,,,300,150,,,,,", r"list\.csv: row 2: unknown family 'hexagon'"),
     ("box,,,100,100,,,60,,", r"list\.csv: row 2: impossible box"),
     ("rectangle,,,100,50,5,,,,", r"list\.csv: row 2: rectangle has no dimension 'tw'"),
@@ -186,7 +186,7 @@ def _cli(*args):
 
 def test_cli_bad_user_row_exit_2(tmp_path):
     p = tmp_path / "list.csv"
-    p.write_text(USER + "rectangle,,,100,50,,,,,\ni_section,,,300,150,7,abc,,15,\n")
+    p.write_text(USER + "rectangle,,,100,50,,,,,\nibeam,,,300,150,7,abc,,15,\n")
     r = _cli("catalog", "--file", str(p))
     assert r.returncode == 2 and r.stdout == ""
     assert r.stderr.count("\n") == 1 and "list.csv: row 3" in r.stderr and "Traceback" not in r.stderr
@@ -194,10 +194,10 @@ def test_cli_bad_user_row_exit_2(tmp_path):
 
 def test_cli_catalog_json_and_csv_round_trip(tmp_path):
     out = tmp_path / "out.csv"
-    r = _cli("catalog", "--family", "chs,glulam", "--max-depth", "200 mm", "--json", "--csv", str(out))
+    r = _cli("catalog", "--family", "gen_chs,glulam", "--max-depth", "200 mm", "--json", "--csv", str(out))
     assert r.returncode == 0, r.stderr
     rows = json.loads(r.stdout)
-    assert {x["series"] for x in rows} == {"chs", "glulam"}
+    assert {x["series"] for x in rows} == {"gen_chs", "glulam"}
     assert all({"name", "family", "dims", "material", "Iz", "mass_per_length"} <= set(x) for x in rows)
     # the written CSV reads back as a user catalogue; its tabulated values agree (no warnings)
     back = _cli("catalog", "--file", str(out), "--json")

@@ -68,7 +68,7 @@ BAD = {
     "hole outside": ('units = "mm"\n[[part]]\nshape = "polygon"\npoints = [[0,0],[100,0],[100,100],[0,100]]\n'
                      'holes = [[[200,200],[210,200],[210,210]]]\n', "hole is not inside its outline"),
     "overlapping parts": (RECT + RECT, "part[1] and part[2] overlap"),
-    "impossible flange": ('units = "mm"\n[[part]]\nshape = "i_section"\nd = 100\nb = 100\ntw = 5\ntf = 60\n',
+    "impossible flange": ('units = "mm"\n[[part]]\nshape = "ibeam"\nd = 100\nb = 100\ntw = 5\ntf = 60\n',
                           "tf_top + tf_bot + 2 r < d"),
     "unknown material": (RECT.replace('shape = "rectangle"', 'shape = "rectangle"\nmaterial = "S999"'), "S999"),
     "unknown key": (RECT + 'colour = "red"\n', "part[1].colour: unknown key"),

@@ -152,7 +152,7 @@ def test_missing_dimension_in_a_file():
 def test_unknown_dimension_and_unknown_shape():
     with pytest.raises(InputError, match=r"part\[1\]\.t: unknown key"):
         section_from_spec(spec_of({"shape": "rectangle", "b": 100, "d": 10, "t": 3}))
-    with pytest.raises(GeometryError, match="unknown shape 'hexagon'.*i_section"):
+    with pytest.raises(GeometryError, match="unknown shape 'hexagon'.*ibeam"):
         section_from_spec(spec_of({"shape": "hexagon", "b": 100}))
     with pytest.raises(InputError, match=r"part\[1\]\.shape: missing"):
         section_from_spec(spec_of({"b": 100, "d": 10}))
@@ -176,9 +176,9 @@ def test_negative_dimension_message_shows_a_plain_number():
 
 
 @pytest.mark.parametrize("family, dims, expected", [
-    ("i_section", {"d": 0.1, "b": 0.1, "tw": 0.005, "tf": 0.05}, "tf_top + tf_bot + 2 r < d"),
-    ("i_section", {"d": 0.3, "b": 0.15, "tw": 0.16, "tf": 0.01}, "tw + 2 r <= flange widths"),
-    ("i_section", {"d": 0.3, "b": 0.15, "tw": 0.0071, "tf": 0.0107, "r": 0.1}, "tw + 2 r"),
+    ("ibeam", {"d": 0.1, "b": 0.1, "tw": 0.005, "tf": 0.05}, "tf_top + tf_bot + 2 r < d"),
+    ("ibeam", {"d": 0.3, "b": 0.15, "tw": 0.16, "tf": 0.01}, "tw + 2 r <= flange widths"),
+    ("ibeam", {"d": 0.3, "b": 0.15, "tw": 0.0071, "tf": 0.0107, "r": 0.1}, "tw + 2 r"),
     ("tube", {"d": 0.1, "t": 0.05}, "2 t < d"),
     ("box", {"b": 0.1, "d": 0.1, "t": 0.05}, "2 t < min(b, d)"),
     ("box", {"b": 0.1, "d": 0.2, "t": 0.005, "r": 0.06}, "2 r <= min(b, d)"),
@@ -197,14 +197,14 @@ def test_impossible_family_geometry(family, dims, expected):
 
 
 def test_impossible_geometry_in_a_file_names_the_part():
-    spec = spec_of({"shape": "i_section", "d": 100, "b": 100, "tw": 5, "tf": 50})
-    with pytest.raises(GeometryError, match=r"part\[1\]: impossible i_section.*tf=50 mm"):
+    spec = spec_of({"shape": "ibeam", "d": 100, "b": 100, "tw": 5, "tf": 50})
+    with pytest.raises(GeometryError, match=r"part\[1\]: impossible ibeam.*tf=50 mm"):
         section_from_spec(spec)
 
 
 def test_zero_top_flange_is_refused_by_the_array_path():
     with pytest.raises(GeometryError):
-        family_properties("i_section", {"d": 0.3, "b": 0.15, "tw": 0.0071, "tf": 0.0107,
+        family_properties("ibeam", {"d": 0.3, "b": 0.15, "tw": 0.0071, "tf": 0.0107,
                                         "tf_top": 0.0})
 
 

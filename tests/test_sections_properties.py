@@ -160,10 +160,10 @@ def test_rectangle_cut_in_two_changes_nothing(b, d, frac, horizontal):
 @FAST
 @given(rng_keys)
 def test_i_as_three_plates_equals_the_family(key):
-    dims = random_family_dims("i_section", np.random.default_rng(key), 1)
+    dims = random_family_dims("ibeam", np.random.default_rng(key), 1)
     d = {k: float(v[0]) for k, v in dims.items()}
     d["r"] = 0.0
-    fam = family_properties("i_section", d)
+    fam = family_properties("ibeam", d)
     plates = Section.from_polygons(i_plates(d["d"], d["b_top"], d["tf_top"], d["b"], d["tf"],
                                             d["tw"])).properties()
     for k in ("A", "yc", "zc", "Iz", "Iy", "Zz", "Zy", "shear_factor", "Sz_top", "Sz_bot"):

@@ -197,8 +197,8 @@ IDIMS = [(0.3, 0.15, 0.0071, 0.0107), (0.4, 0.18, 0.0086, 0.0135), (0.2, 0.2, 0.
 
 
 @pytest.mark.parametrize("d, b, tw, tf", IDIMS)
-def test_i_section_without_fillets_closed_form(d, b, tw, tf):
-    p = fam("i_section", d=d, b=b, tw=tw, tf=tf)
+def test_ibeam_without_fillets_closed_form(d, b, tw, tf):
+    p = fam("ibeam", d=d, b=b, tw=tw, tf=tf)
     hw = d - 2 * tf
     # mechanics of materials: A = 2 b tf + tw hw; Iz = [b d^3 - (b - tw) hw^3]/12
     assert p["A"] == pytest.approx(2 * b * tf + tw * hw, rel=1e-12)
@@ -299,7 +299,7 @@ def exact_family(case):
         b, d, t, r = dims["b"], dims["d"], dims["t"], dims["r"]
         exact_rounded_rect(ex, b, d, r)
         exact_rounded_rect(ex, b - 2 * t, d - 2 * t, max(r - t, 0.0), y0=t, sign=-1.0)
-    elif f == "i_section":
+    elif f == "ibeam":
         d, tw, r = dims["d"], dims["tw"], dims["r"]
         bt, tft = dims.get("b_top", dims["b"]), dims.get("tf_top", dims["tf"])
         bb, tfb = dims["b"], dims["tf"]
@@ -334,7 +334,7 @@ def exact_family(case):
     return ex.props()
 
 
-@pytest.mark.parametrize("case", ["box", "i_section", "unequal_i_section", "channel", "tee", "angle"])
+@pytest.mark.parametrize("case", ["box", "ibeam", "unequal_ibeam", "channel", "tee", "angle"])
 def test_polygonised_fillets_match_exact_curves(case):
     """Root fillets / rounded corners: within 1e-4 of the exact curved A and I (sympy)."""
     exact = exact_family(case)
@@ -382,7 +382,7 @@ def test_metric_parallel_flange_i_300_deep():
     strong-axis I = 8356 cm⁴, strong-axis Wpl = 628 cm³, Wel = 557 cm³; weak axis
     I = 604 cm⁴, Wpl = 125 cm³.
     """
-    p = fam("i_section", d=0.3, b=0.15, tw=0.0071, tf=0.0107, r=0.015)
+    p = fam("ibeam", d=0.3, b=0.15, tw=0.0071, tf=0.0107, r=0.015)
     assert rel(p["A"] * 1e4, 53.8) < 0.01
     assert rel(p["Iz"] * 1e8, 8356) < 0.01
     assert rel(p["Zz"] * 1e6, 628) < 0.01
@@ -397,7 +397,7 @@ def test_metric_wide_flange_h_300_by_300():
     Handbook values (European section-property tables, from memory): A = 149.1 cm²,
     strong-axis I = 25170 cm⁴, Wpl = 1869 cm³.
     """
-    p = fam("i_section", d=0.3, b=0.3, tw=0.011, tf=0.019, r=0.027)
+    p = fam("ibeam", d=0.3, b=0.3, tw=0.011, tf=0.019, r=0.027)
     assert rel(p["A"] * 1e4, 149.1) < 0.01
     assert rel(p["Iz"] * 1e8, 25170) < 0.01
     assert rel(p["Zz"] * 1e6, 1869) < 0.01
@@ -411,7 +411,7 @@ def test_metric_wide_flange_h_300_by_300():
     (14.0, 14.5, 0.440, 0.710, 1.31, 26.5, 999.0, 157.0),
 ])
 def test_inch_wide_flange_shapes(d, bf, tw, tf, k_des, A, Ix, Zx):
-    spec = {"units": "in", "part": [{"shape": "i_section", "d": d, "b": bf, "tw": tw, "tf": tf,
+    spec = {"units": "in", "part": [{"shape": "ibeam", "d": d, "b": bf, "tw": tw, "tf": tf,
                                      "r": k_des - tf}]}
     p = section_from_spec(spec).properties()
     assert rel(p["A"] / INCH**2, A) < 0.01
@@ -503,7 +503,7 @@ def test_i_with_cover_plate():
     d, b, tw, tf = 0.3, 0.15, 0.0071, 0.0107
     bp, tp = 0.2, 0.015
     spec = {"units": "mm", "part": [
-        {"shape": "i_section", "d": 300, "b": 150, "tw": 7.1, "tf": 10.7},
+        {"shape": "ibeam", "d": 300, "b": 150, "tw": 7.1, "tf": 10.7},
         {"shape": "rectangle", "b": 200, "d": 15, "at": [0, 300]}]}
     p = section_from_spec(spec).properties()
     # parallel-axis theorem (mechanics of materials): Σ (I_i + A_i (y_i - yc)^2)
@@ -530,7 +530,7 @@ def test_i_with_cover_plate():
 def test_i_as_three_plates_equals_family():
     d, b, tw, tf = 0.3, 0.15, 0.0071, 0.0107
     p = sec(*i_plates(d, b, tf, b, tf, tw))
-    q = fam("i_section", d=d, b=b, tw=tw, tf=tf)
+    q = fam("ibeam", d=d, b=b, tw=tw, tf=tf)
     for k in ("A", "yc", "Iz", "Iy", "Sz_top", "Zz", "Zy", "shear_factor"):
         assert p[k] == pytest.approx(q[k], rel=1e-12), k
 

@@ -161,7 +161,7 @@ def test_tilted_principal_axes_get_a_note(tmp_path, capsys):
     p = tmp_path / "lintel.toml"
     p.write_text('[beam]\nlength = "1.2 m"\n[[support]]\nat = "0 m"\ntype = "pin"\n[[support]]\nat = "1.2 m"\n'
                  'type = "roller"\n[[load]]\ncase = "dead"\ntype = "udl"\nw = "1 kN/m"\n'
-                 '[search]\nfamilies = ["angle_unequal"]\n[limits]\nstress_factor = 0.6\n')
+                 '[search]\nfamilies = ["gen_angle_unequal"]\n[limits]\nstress_factor = 0.6\n')
     assert main(["select", str(p)]) == 0
     assert "principal axes at" in capsys.readouterr().out
     assert main(["select", str(EXAMPLES / "select-floor-joist.toml")]) == 0

@@ -13,7 +13,7 @@ from shapely.geometry import Polygon, box
 from leanspan.errors import GeometryError, InputError, LeanspanError
 from leanspan.sections.mesh import mesh_section
 from leanspan.sections.torsion import torsion
-from test_torsion_shapes import channel, circle, i_section, rectangle, tee, tube
+from test_torsion_shapes import channel, circle, ibeam, rectangle, tee, tube
 
 
 def saint_venant_rectangle_J(a, b):
@@ -56,11 +56,11 @@ def test_circle_and_tube_polar_moment():
     assert t.ys == pytest.approx(50.0, abs=1e-6) and t.zs == pytest.approx(0.0, abs=1e-6)
 
 
-def test_rolled_i_section_against_handbook():
+def test_rolled_ibeam_against_handbook():
     # 300 x 150 x 7.1 x 10.7, root radius 15 (the EN 10365 dimensions of the 300 mm
     # parallel-flange I). Steel producers' tables: It = 20.12 cm^4, Iw = 125.9e3 cm^6,
     # strong-axis I = 8356 cm^4 (from memory). Tables use approximate formulas: few %.
-    shape = i_section(300.0, 150.0, 7.1, 10.7, 15.0)
+    shape = ibeam(300.0, 150.0, 7.1, 10.7, 15.0)
     r = torsion([shape])
     assert r.J == pytest.approx(20.12e4, rel=0.03)
     assert r.Cw == pytest.approx(125.9e9, rel=0.03)
@@ -106,7 +106,7 @@ def test_shear_centre_on_symmetry_axis(angle_deg):
     along = -r.zs * s + r.ys * c
     assert along == pytest.approx(d - tf / 2, abs=0.05 * tf + 1.0)
     # a mono-symmetric I: on the web's axis, between the flanges, nearer the bigger one
-    r2 = torsion([i_section(300.0, 100.0, 6.0, 10.0, 0.0, b_top=200.0, tf_top=12.0)])
+    r2 = torsion([ibeam(300.0, 100.0, 6.0, 10.0, 0.0, b_top=200.0, tf_top=12.0)])
     assert abs(r2.zs) < 1e-4 * 300.0
     # thin-walled: distance from bottom flange centre = hs I_top / (I_top + I_bot)
     i_top, i_bot = 12 * 200**3 / 12, 10 * 100**3 / 12

@@ -7,12 +7,12 @@ import pytest
 from leanspan.errors import InputError
 from leanspan.report.torsion_plot import plot_shear_stress
 from leanspan.sections.torsion import torsion
-from test_torsion_shapes import i_section
+from test_torsion_shapes import ibeam
 
 
 @pytest.fixture(scope="module")
 def result():
-    return torsion([i_section(300.0, 150.0, 7.1, 10.7, 15.0)])
+    return torsion([ibeam(300.0, 150.0, 7.1, 10.7, 15.0)])
 
 
 @pytest.mark.parametrize("suffix, magic", [(".png", b"\x89PNG"), (".svg", b"<?xml")])

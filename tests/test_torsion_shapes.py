@@ -39,7 +39,7 @@ def _fillet(corner_z, corner_y, dz, dy, r):
     return sq.difference(Point(corner_z + dz * r, corner_y + dy * r).buffer(r, quad_segs=QUAD))
 
 
-def i_section(d, b, tw, tf, r=0.0, b_top=None, tf_top=None):
+def ibeam(d, b, tw, tf, r=0.0, b_top=None, tf_top=None):
     bt, tft = (b_top or b), (tf_top or tf)
     pieces = [box(-b / 2, 0, b / 2, tf), box(-bt / 2, d - tft, bt / 2, d), box(-tw / 2, 0, tw / 2, d)]
     for s in (-1, 1):
@@ -86,14 +86,14 @@ def box_section(b, d, t, r=0.0, quad_segs=QUAD):
 # ---------------------------------------------------------------------------
 # the builders themselves, against closed-form areas (exact geometry)
 
-def test_i_section_area():
+def test_ibeam_area():
     d, b, tw, tf, r = 300.0, 150.0, 7.1, 10.7, 15.0
     # plates plus four fillets, each r^2 less a quarter of the inscribed polygon
     # (QUAD chords): r^2 - QUAD * (r^2 / 2) sin(pi / (2 QUAD))
     fillet = r * r - QUAD * 0.5 * r * r * math.sin(math.pi / (2 * QUAD))
     exact = 2 * b * tf + (d - 2 * tf) * tw + 4 * fillet
-    assert i_section(d, b, tw, tf, r).area == pytest.approx(exact, rel=1e-12)
-    assert i_section(d, b, tw, tf, r).bounds == pytest.approx((-b / 2, 0.0, b / 2, d))
+    assert ibeam(d, b, tw, tf, r).area == pytest.approx(exact, rel=1e-12)
+    assert ibeam(d, b, tw, tf, r).bounds == pytest.approx((-b / 2, 0.0, b / 2, d))
 
 
 def test_channel_tee_angle_box_areas():

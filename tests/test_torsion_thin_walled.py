@@ -10,7 +10,7 @@ import pytest
 from leanspan.errors import CatalogError, GeometryError
 from leanspan.sections.thin_walled import thin_walled_torsion
 from leanspan.sections.torsion import torsion
-from test_torsion_shapes import angle, box_section, channel, circle, i_section, rectangle, tee, tube
+from test_torsion_shapes import angle, box_section, channel, circle, ibeam, rectangle, tee, tube
 
 # (family, dims, builder, J tolerance, Cw tolerance); tolerances are the accuracy of
 # the closed forms (fitted junction terms, mid-line idealisation), the FE is converged
@@ -22,9 +22,9 @@ CASES = [
     ("tube", dict(d=100.0, t=6.0), tube, 5e-4, None),
     ("box", dict(b=150.0, d=250.0, t=10.0, r=20.0), box_section, 0.01, 0.05),
     ("box", dict(b=200.0, d=100.0, t=4.0, r=8.0), box_section, 0.01, 0.05),
-    ("i_section", dict(d=300.0, b=150.0, tw=7.1, tf=10.7, r=15.0), i_section, 0.03, 0.04),
-    ("i_section", dict(d=200.0, b=100.0, tw=5.6, tf=8.5, r=0.0), i_section, 0.03, 0.04),
-    ("i_section", dict(d=250.0, b=250.0, tw=9.0, tf=14.0, r=23.0), i_section, 0.03, 0.04),
+    ("ibeam", dict(d=300.0, b=150.0, tw=7.1, tf=10.7, r=15.0), ibeam, 0.03, 0.04),
+    ("ibeam", dict(d=200.0, b=100.0, tw=5.6, tf=8.5, r=0.0), ibeam, 0.03, 0.04),
+    ("ibeam", dict(d=250.0, b=250.0, tw=9.0, tf=14.0, r=23.0), ibeam, 0.03, 0.04),
     ("channel", dict(d=200.0, b=75.0, tw=8.5, tf=11.5, r=12.0), channel, 0.04, 0.04),
     ("channel", dict(d=150.0, b=50.0, tw=5.0, tf=6.0, r=0.0), channel, 0.04, 0.04),
     ("tee", dict(d=150.0, b=150.0, tw=10.0, tf=16.0, r=12.0), tee, 0.03, 0.06),
@@ -58,17 +58,17 @@ def test_square_box_warping_is_negligible():
     assert float(fast["J"]) == pytest.approx(fe.J, rel=0.01)
 
 
-def test_rolled_i_section_handbook():
+def test_rolled_ibeam_handbook():
     # 300 x 150 x 7.1 x 10.7, r 15: producers' tables It = 20.12 cm^4, Iw = 125.9e3 cm^6 (from memory)
-    out = thin_walled_torsion("i_section", dict(d=300.0, b=150.0, tw=7.1, tf=10.7, r=15.0))
+    out = thin_walled_torsion("ibeam", dict(d=300.0, b=150.0, tw=7.1, tf=10.7, r=15.0))
     assert float(out["J"]) == pytest.approx(20.12e4, rel=0.02)
     assert float(out["Cw"]) == pytest.approx(125.9e9, rel=0.01)
 
 
 def test_monosymmetric_i_matches_fe():
     dims = dict(d=300.0, b=100.0, tw=6.0, tf=10.0, r=0.0, b_top=200.0, tf_top=12.0)
-    out = thin_walled_torsion("i_section", dims)
-    fe = torsion([i_section(300.0, 100.0, 6.0, 10.0, 0.0, b_top=200.0, tf_top=12.0)])
+    out = thin_walled_torsion("ibeam", dims)
+    fe = torsion([ibeam(300.0, 100.0, 6.0, 10.0, 0.0, b_top=200.0, tf_top=12.0)])
     assert float(out["J"]) == pytest.approx(fe.J, rel=0.03)
     assert float(out["Cw"]) == pytest.approx(fe.Cw, rel=0.04)
 
@@ -78,10 +78,10 @@ def test_arrays_match_rows():
     n = 2000
     dims = {"d": rng.uniform(100, 600, n), "b": rng.uniform(60, 300, n), "tw": rng.uniform(4, 15, n),
             "tf": rng.uniform(6, 25, n), "r": rng.uniform(0, 25, n)}
-    out = thin_walled_torsion("i_section", dims)
+    out = thin_walled_torsion("ibeam", dims)
     assert out["J"].shape == (n,) and out["Cw"].shape == (n,)
     for i in (0, 777, n - 1):
-        one = thin_walled_torsion("i_section", {k: v[i] for k, v in dims.items()})
+        one = thin_walled_torsion("ibeam", {k: v[i] for k, v in dims.items()})
         assert float(one["J"]) == pytest.approx(out["J"][i], rel=1e-12)
         assert float(one["Cw"]) == pytest.approx(out["Cw"][i], rel=1e-12)
     assert np.all(out["J"] > 0) and np.all(out["Cw"] > 0)

@@ -49,7 +49,7 @@ TABULATED = {
 
 # Default material of a user row without one, by shape family (document in README).
 DEFAULT_MATERIAL = {"rectangle": "C24", "circle": "S355", "tube": "S355J2H", "box": "S355J2H",
-                    "i_section": "S355", "channel": "S355", "tee": "S355", "angle": "S355"}
+                    "ibeam": "S355", "channel": "S355", "tee": "S355", "angle": "S355"}
 
 
 @dataclass

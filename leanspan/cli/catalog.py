@@ -27,7 +27,7 @@ def add_parser(subparsers):
                               description="List the built-in section series (or a user catalogue) "
                                           "with their section properties.")
     p.add_argument("--family", action="append", metavar="F",
-                   help="shape family (i_section, rectangle ...) or series (glulam, chs ...); "
+                   help="shape family (ibeam, rectangle ...) or series (glulam, gen_chs ...); "
                         "repeatable or comma-separated")
     p.add_argument("--material", action="append", metavar="M",
                    help="pair the sections with material M (rows of other kinds dropped); repeatable")

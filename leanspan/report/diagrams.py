@@ -323,8 +323,8 @@ def loaded_beam_figure(model, units: str = "si", title: str = "", fig=None):
     Artists carry ids: ``baseline:CASE`` for a lane's baseline, ``load:CASE:K:up|down``
     for the block pieces and arrows of load K of the case (in job order).
     """
-    from matplotlib.path import Path as MplPath
     from matplotlib.patches import FancyArrowPatch, Polygon
+    from matplotlib.path import Path as MplPath
 
     plt = _mpl()
     measure = _Measure()

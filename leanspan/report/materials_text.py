@@ -2,16 +2,15 @@
 
 from __future__ import annotations
 
+from ..units import fmt
 from . import labels
+from .text import aligned_table, csv_text
 
 __all__ = ["materials_text", "materials_csv"]
 
 
 def materials_text(rows, units: str = "si") -> str:
     """The materials (:class:`leanspan.catalog.materials.Material` rows) as an aligned table."""
-    from ..units import fmt
-    from .text import aligned_table
-
     keys = labels.MATERIAL_KEYS
     heads = ["name", "kind"] + [f"{labels.short(k)} [{labels.unit(k, units)[0]}]" for k in keys] \
         + ["basis", "source"]
@@ -22,8 +21,6 @@ def materials_text(rows, units: str = "si") -> str:
 
 def materials_csv(rows, units: str = "si") -> str:
     """The materials as CSV with unit headers (``E [MPa]``), readable back as a user materials file."""
-    from .text import csv_text
-
     keys = labels.MATERIAL_KEYS
     columns = ["name", "kind", "group", *keys, "basis", "source"]
     body = ([m.name, m.kind, m.group] + [getattr(m, k) for k in keys] + [m.basis, m.source] for m in rows)

@@ -7,6 +7,8 @@ from __future__ import annotations
 
 import math
 
+from ..units import display_factor, fmt
+
 __all__ = ["draw_section"]
 
 _COLOURS = ["#9bb7d4", "#d9b38c", "#a8c8a0", "#d4a5a5", "#c4b7d9", "#e0d38a"]
@@ -14,11 +16,9 @@ _COLOURS = ["#9bb7d4", "#d9b38c", "#a8c8a0", "#d4a5a5", "#c4b7d9", "#e0d38a"]
 
 def draw_section(ax, section, props, units: str = "si"):
     """Draw ``section`` on matplotlib axes ``ax`` (coordinates shown in display units)."""
+    import numpy as np
     from matplotlib.patches import PathPatch
     from matplotlib.path import Path as MplPath
-    import numpy as np
-
-    from ..units import display_factor, fmt
 
     unit, f = display_factor("length", units)
     colours = {}

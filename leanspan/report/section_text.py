@@ -2,7 +2,9 @@
 
 from __future__ import annotations
 
+from ..units import display_factor, fmt
 from . import labels
+from .text import aligned_table
 
 __all__ = ["section_text", "pieces_warning"]
 
@@ -34,9 +36,6 @@ def section_text(section, out: dict, extra: dict, units: str = "si", source: str
     source : str
         The section file, named in the first line.
     """
-    from ..units import display_factor, fmt
-    from .text import aligned_table
-
     values = _shown_values(out, extra)
     rows = []
     for key in labels.SECTION_KEYS:

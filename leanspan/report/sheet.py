@@ -473,8 +473,8 @@ def section_sheet_html(section_obj, out: dict, units: str = "si", source: str = 
     title = f"Section {Path(source).name}" if source else "Section properties"
     values = dict(out)
     if section_obj.has_materials and "y_neutral" not in values:
-        from ..errors import LeanspanError
         from ..catalog.materials import material_lookup
+        from ..errors import LeanspanError
 
         try:
             values["y_neutral"] = section_obj.composite(material_lookup()).y_neutral

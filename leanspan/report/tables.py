@@ -2,6 +2,13 @@
 
 from __future__ import annotations
 
+from .. import CAUTION
+from ..fileio import atomic_write
+from ..select.checks import registered
+from ..units import display_factor, fmt
+from .labels import generated_note
+from .text import aligned_table, csv_text, numeric_columns
+
 __all__ = ["utilisation_text", "table_rows", "ranked_table_text", "ranked_table_markdown", "ranked_table_csv",
            "write_table_exports", "HEADERS"]
 
@@ -25,9 +32,6 @@ def utilisation_text(u) -> str:
 def table_rows(sel, units: str = "si", top: int = 10):
     """Header labels (with units) and rows of display strings for the shown candidates;
     one utilisation column per registered check."""
-    from ..select.checks import registered
-    from ..units import display_factor, fmt
-
     mu, mf = display_factor("mass/length", units)
     lu, lf = display_factor("length", units)
     checks = registered()
@@ -44,8 +48,6 @@ def table_rows(sel, units: str = "si", top: int = 10):
 
 
 def _summary(sel, units):
-    from ..units import display_factor, fmt
-
     job = sel.job
     lines = []
     if job.title:
@@ -64,20 +66,18 @@ def _summary(sel, units):
 
 def ranked_table_text(sel, units: str = "si", top: int = 10) -> str:
     """Summary lines and an aligned table of the shown candidates (numeric columns to the right)."""
-    from .text import aligned_table
-
     labels, rows = table_rows(sel, units, top)
     out = _summary(sel, units) + ["", aligned_table(labels, rows, rule=True)]
-    out.append("Utilisation = demand / limit; rows marked NO fail (the heaviest lighter sections "
-               "that fail, closest to passing first).")
+    out.append("Utilisation = demand / limit, rounded up to 3 decimals; rows marked NO fail (the heaviest "
+               "lighter sections that fail, closest to passing first; ranks count every candidate screened).")
+    note = generated_note(c["series"] for c in sel.shown(top))
+    if note:
+        out.append(note)
     return "\n".join(out)
 
 
 def ranked_table_markdown(sel, units: str = "si", top: int = 10) -> str:
     """The ranked table as a Markdown (pipe) table, with the summary above it and the caution below."""
-    from .. import CAUTION
-    from .text import numeric_columns
-
     labels, rows = table_rows(sel, units, top)
     right = numeric_columns(rows)
     out = [f"- {s}" for s in _summary(sel, units)] + [""]
@@ -90,16 +90,12 @@ def ranked_table_markdown(sel, units: str = "si", top: int = 10) -> str:
 
 def ranked_table_csv(sel, units: str = "si", top: int = 10) -> str:
     """The ranked table as CSV (display units in the headers)."""
-    from .text import csv_text
-
     labels, rows = table_rows(sel, units, top)
     return csv_text(labels, rows)
 
 
 def write_table_exports(sel, csv_path=None, markdown_path=None, units: str = "si", top: int = 10) -> None:
     """Write the ranked table to ``csv_path`` and ``markdown_path`` (atomically), where given."""
-    from ..fileio import atomic_write
-
     if csv_path:
         atomic_write(csv_path, ranked_table_csv(sel, units, top))
     if markdown_path:

@@ -22,6 +22,9 @@ from pathlib import Path
 
 import numpy as np
 
+from ..errors import InputError
+from ..fileio import atomic_write
+
 __all__ = ["plot_shear_stress"]
 
 # the four sub-triangles of a 6-node triangle (corners 0-2, midpoints 3-5)
@@ -52,8 +55,6 @@ def plot_shear_stress(result, path_or_ax, *, cmap: str = "viridis", show_mesh: b
     -------
     matplotlib.axes.Axes
     """
-    from ..errors import InputError
-
     mesh = result.mesh
     tri6 = mesh.triangles
     m = tri6.shape[0]
@@ -88,8 +89,6 @@ def plot_shear_stress(result, path_or_ax, *, cmap: str = "viridis", show_mesh: b
 
     if own_figure:
         import io
-
-        from ..fileio import atomic_write
 
         path = Path(path_or_ax)
         fmt = path.suffix.lstrip(".").lower() or "png"

@@ -13,7 +13,7 @@ modelled (a small, conservative simplification).
 Examples
 --------
 >>> import numpy as np
->>> fam = FAMILIES["i_section"]
+>>> fam = FAMILIES["ibeam"]
 >>> dims = fam.complete({"d": 0.3, "b": 0.15, "tw": 0.0071, "tf": 0.0107, "r": 0.015})
 >>> fam.designation(dims)
 ['I 300x150x7.1x10.7']
@@ -185,7 +185,7 @@ class Family:
     Attributes
     ----------
     name : str
-        Family key used in files (``"i_section"``).
+        Family key used in files (``"ibeam"``).
     keys : tuple of str
         Required dimensions.
     optional : dict
@@ -289,7 +289,7 @@ FAMILIES: dict[str, Family] = {
                           (2 * d["r"] > np.minimum(d["b"], d["d"]), "2 r <= min(b, d)")],
                lambda d: f"box {_mm(d['d'])}x{_mm(d['b'])}x{_mm(d['t'])}",
                "rectangular hollow section, outer corner radius r", ("t",)),
-        Family("i_section", ("d", "b", "tw", "tf"),
+        Family("ibeam", ("d", "b", "tw", "tf"),
                {"r": 0.0, "b_top": "b", "tf_top": "tf", "b_bot": "b", "tf_bot": "tf"}, _i_rings,
                lambda d: [(d["tw"] + 2 * d["r"] > np.minimum(d["b_top"], d["b_bot"]),
                            "tw + 2 r <= flange widths"),
@@ -318,4 +318,6 @@ def get_family(name: str) -> Family:
     try:
         return FAMILIES[name]
     except (KeyError, TypeError):
+        if name == "i_section":
+            raise GeometryError("shape 'i_section' is now called 'ibeam' (same keys)") from None
         raise GeometryError(f"unknown shape {name!r}; expected one of {', '.join(FAMILIES)} or polygon") from None

@@ -7,7 +7,7 @@ cross, e.g. bolt holes), a file-level ``units`` for bare numbers and a file-leve
 
     units = "mm"
     [[part]]
-    shape = "i_section"
+    shape = "ibeam"
     d = 300
     b = 150
     tw = 7.1

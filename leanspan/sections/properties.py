@@ -277,7 +277,7 @@ def family_properties(family: str, dims: dict, private: bool = False) -> dict[st
     Parameters
     ----------
     family : str
-        A name in :data:`leanspan.sections.families.FAMILIES` (``"i_section"`` …).
+        A name in :data:`leanspan.sections.families.FAMILIES` (``"ibeam"`` …).
     dims : dict of str to array_like
         Dimension arrays of equal length N (or scalars), SI metres.
     """

@@ -17,7 +17,7 @@ the root fillet, or for ``box`` the outer corner radius, missing ``r`` = 0):
   on the mid-line (thin-walled theory, derived by integrating the closed-cell
   warping function), plus each wall's own warping through its thickness,
   ``L^3 t^3 / 144`` per wall (thin-rectangle limit of the series above);
-- i_section, channel, tee, angle: J as the sum of plates ``b t^3 / 3`` with free-end
+- ibeam, channel, tee, angle: J as the sum of plates ``b t^3 / 3`` with free-end
   corrections ``-0.105 t^4`` and fillet-junction terms ``alpha D^4`` fitted by
   El Darwish and Johnston (1965), as printed in steel section handbooks (from
   memory); Cw from thin-walled theory: ``h^2 I1 I2 / (I1 + I2)`` for I-sections,
@@ -45,7 +45,7 @@ FAMILY_DIMENSIONS = {
     "circle": (("d",), ()),
     "tube": (("d", "t"), ()),
     "box": (("b", "d", "t"), ("r",)),
-    "i_section": (("d", "b", "tw", "tf"), ("r", "b_top", "tf_top", "b_bot", "tf_bot")),
+    "ibeam": (("d", "b", "tw", "tf"), ("r", "b_top", "tf_top", "b_bot", "tf_bot")),
     "channel": (("d", "b", "tw", "tf"), ("r",)),
     "tee": (("d", "b", "tw", "tf"), ("r",)),
     "angle": (("d", "b", "t"), ("r",)),
@@ -86,7 +86,7 @@ def _corner_junction(tf, tw, r):
     return alpha * D**4
 
 
-def _i_section(d, b, tw, tf, r, b_top, tf_top, b_bot, tf_bot):
+def _ibeam(d, b, tw, tf, r, b_top, tf_top, b_bot, tf_bot):
     J = (d - tf_top - tf_bot) * tw**3 / 3
     for bf, tff in ((b_top, tf_top), (b_bot, tf_bot)):  # two flanges
         J = J + bf * tff**3 / 3 - 0.21 * tff**4 + _tee_junction(tff, tw, r)
@@ -169,11 +169,11 @@ def thin_walled_torsion(family: str, dims: dict) -> dict:
     ----------
     family : str
         ``rectangle (b, d)``, ``circle (d)``, ``tube (d, t)``, ``box (b, d, t, r)``,
-        ``i_section (d, b, tw, tf, r; b_top, tf_top, b_bot, tf_bot)``,
+        ``ibeam (d, b, tw, tf, r; b_top, tf_top, b_bot, tf_bot)``,
         ``channel (d, b, tw, tf, r)``, ``tee (d, b, tw, tf, r)``, ``angle (d, b, t, r)``.
     dims : dict of str -> array_like
         Dimensions in one consistent length unit, arrays broadcast together.
-        A missing ``r`` means 0; missing flange keys of ``i_section`` default to ``b``, ``tf``.
+        A missing ``r`` means 0; missing flange keys of ``ibeam`` default to ``b``, ``tf``.
 
     Returns
     -------
@@ -189,7 +189,7 @@ def thin_walled_torsion(family: str, dims: dict) -> dict:
 
     Examples
     --------
-    >>> out = thin_walled_torsion("i_section", {"d": 300.0, "b": 150.0, "tw": 7.1, "tf": 10.7, "r": 15.0})
+    >>> out = thin_walled_torsion("ibeam", {"d": 300.0, "b": 150.0, "tw": 7.1, "tf": 10.7, "r": 15.0})
     >>> round(float(out["J"]) / 1e4, 1), round(float(out["Cw"]) / 1e9, 1)   # cm^4, 10^3 cm^6
     (19.9, 125.9)
     """
@@ -208,13 +208,13 @@ def thin_walled_torsion(family: str, dims: dict) -> dict:
         _require(family, (2 * t < b) & (2 * t < d), "wall t smaller than b/2 and d/2", dims)
         _require(family, 2 * r <= np.minimum(b, d), "corner radius r at most half the smaller side", dims)
         J, Cw = _box(b, d, t, r)
-    elif family == "i_section":
+    elif family == "ibeam":
         d, b, tw, tf = v["d"], v["b"], v["tw"], v["tf"]
         bt, tft = v.get("b_top", b), v.get("tf_top", tf)
         bb, tfb = v.get("b_bot", b), v.get("tf_bot", tf)
         _require(family, tft + tfb < d, "flange thicknesses smaller than the depth", dims)
         _require(family, (tw < bt) & (tw < bb), "web thinner than the flanges are wide", dims)
-        J, Cw = _i_section(d, b, tw, tf, r, bt, tft, bb, tfb)
+        J, Cw = _ibeam(d, b, tw, tf, r, bt, tft, bb, tfb)
     elif family == "channel":
         d, b, tw, tf = v["d"], v["b"], v["tw"], v["tf"]
         _require(family, (2 * tf < d) & (tw < b), "2 tf < d and tw < b", dims)

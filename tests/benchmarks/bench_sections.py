@@ -22,15 +22,15 @@ def run() -> dict[str, float]:
 
     n = 100_000
     dims = _dims(n)
-    family_properties("i_section", {k: v[:100] for k, v in dims.items()})  # warm-up
+    family_properties("ibeam", {k: v[:100] for k, v in dims.items()})  # warm-up
     t0 = time.perf_counter()
-    vec = family_properties("i_section", dims)
+    vec = family_properties("ibeam", dims)
     vec_time = time.perf_counter() - t0
 
     m = 200  # the same properties, one section at a time through shapely polygons
     t0 = time.perf_counter()
     for i in range(m):
-        poly = polygon_from_family("i_section", {k: v[i] for k, v in dims.items()})
+        poly = polygon_from_family("ibeam", {k: v[i] for k, v in dims.items()})
         one = Section.from_polygons([poly]).properties()
     loop_per_section = (time.perf_counter() - t0) / m
     agree = max(abs(one[k] / vec[k][m - 1] - 1) for k in ("A", "Iz", "Zz", "shear_factor"))

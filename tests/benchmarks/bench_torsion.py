@@ -16,10 +16,10 @@ import numpy as np
 
 def _filleted_i():
     sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
-    from test_torsion_shapes import i_section
+    from test_torsion_shapes import ibeam
 
     # 300 x 150 x 7.1 x 10.7, root radius 15 (8 segments per fillet)
-    return i_section(300.0, 150.0, 7.1, 10.7, 15.0)
+    return ibeam(300.0, 150.0, 7.1, 10.7, 15.0)
 
 
 def _best_of(fn, repeat=3):
@@ -42,7 +42,7 @@ def run() -> dict[str, float]:
     rng = np.random.default_rng(0)
     dims = {"d": rng.uniform(100, 600, n), "b": rng.uniform(60, 300, n), "tw": rng.uniform(4, 15, n),
             "tf": rng.uniform(6, 25, n), "r": rng.uniform(0, 25, n)}
-    tw_seconds, _ = _best_of(lambda: thin_walled_torsion("i_section", dims))
+    tw_seconds, _ = _best_of(lambda: thin_walled_torsion("ibeam", dims))
     return {
         "torsion_default_mesh_seconds": seconds,
         "torsion_default_mesh_elements": float(r.n_elements),
@@ -53,7 +53,7 @@ def run() -> dict[str, float]:
         "torsion_Cw_vs_handbook_rel_diff": r.Cw / 125.9e9 - 1,
         "torsion_fine_mesh_seconds": _best_of(lambda: torsion([shape], element_size=7.1 / 8), 1)[0],
         "torsion_fine_mesh_elements": float(fine.n_elements),
-        "thin_walled_i_section_rows_per_second": n / tw_seconds,
+        "thin_walled_ibeam_rows_per_second": n / tw_seconds,
     }
 
 
