@@ -109,7 +109,8 @@ def _stiffness_from_section(beam, base_dir, prefix, units, section_stiffness):
     return float(EI), float(mass)
 
 
-def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiffness=None) -> BeamModel:
+def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiffness=None,
+               units: UnitSystem | None = None) -> BeamModel:
     """Build a :class:`BeamModel` from a job-file dict.
 
     Parameters
@@ -125,6 +126,8 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
         names a ``section`` (this package knows no sections; the caller passes
         :func:`leanspan.select.member.section_stiffness`). ``units`` is the file's
         :class:`~leanspan.units.UnitSystem`, so an inline section reads bare numbers alike.
+    units : UnitSystem, optional
+        The file's unit system when the caller has built it already (else from ``data["units"]``).
 
     Raises
     ------
@@ -134,7 +137,8 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
     p = field_prefix
     if not isinstance(data, dict):
         raise BeamError(f"{p}expected a table of job data")
-    units = UnitSystem.from_spec(data.get("units"), f"{p}units")
+    if units is None:
+        units = UnitSystem.from_spec(data.get("units"), f"{p}units")
     beam = data.get("beam")
     if beam is None:
         raise BeamError(f"{p}beam: missing [beam] table")

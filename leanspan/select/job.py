@@ -207,7 +207,7 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
         # no combinations: one strength combination of every case at factor 1
         beam_data["combination"] = [{"name": "all cases", "factors": {c: 1.0 for c in sorted(cases) if c}}]
         beam.pop("combination", None)
-    model = parse_beam(beam_data, Path(base_dir), p)
+    model = parse_beam(beam_data, Path(base_dir), p, units=units)
     if sw is not None:
         used = any(case == sw for c in model.combinations for case, f in c.factors if f != 0)
         if not used:
