@@ -84,7 +84,7 @@ class Support:
 
     def __post_init__(self):
         object.__setattr__(self, "at", _num(self.at, f"{self.where}.at"))
-        if self.type not in SUPPORT_TYPES:
+        if not isinstance(self.type, str) or self.type not in SUPPORT_TYPES:
             raise BeamError(f"{self.where}.type: expected one of {', '.join(SUPPORT_TYPES)}, got {self.type!r}")
         if self.type == "spring":
             if self.k is None and self.kr is None:
@@ -287,6 +287,7 @@ class BeamModel:
     mass_per_length: float | None = None
     self_weight: str | None = None
     name: str = ""
+    notes: tuple = ()  # what the reader assumed, for the user (e.g. a limit taken as a deflection check)
     cases: tuple = field(init=False)
 
     def __post_init__(self):

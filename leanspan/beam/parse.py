@@ -43,10 +43,10 @@ from .model import (BeamModel, Combination, Couple, DeflectionLimit, Distributed
 
 __all__ = ["parse_beam", "parse_limit"]
 
-_BEAM_KEYS = {"length", "spans", "EI", "section", "material", "mass_per_length", "self_weight",
+_BEAM_KEYS = {"length", "spans", "EI", "section", "material", "catalog", "mass_per_length", "self_weight",
               "name", "title", "description", "support", "stiffness", "hinge", "load", "combination"}
-_LOAD_KEYS = {"point": {"P", "at"}, "moment": {"M", "at"}, "udl": {"w", "from", "to"},
-              "linear": {"w1", "w2", "from", "to"}}
+_LOAD_KEYS = {"point": {"P", "at"}, "moment": {"M", "at"}, "udl": {"w", "from", "to", "spacing"},
+              "linear": {"w1", "w2", "from", "to", "spacing"}}
 _RATIO = re.compile(r"^\s*(?:span|l)\s*/\s*([0-9]*\.?[0-9]+(?:[eE][-+]?[0-9]+)?)\s*$", re.IGNORECASE)
 
 
@@ -99,13 +99,16 @@ def parse_limit(value, where: str = "limit", units: UnitSystem | None = None) ->
 
 
 def _stiffness_from_section(beam, base_dir, prefix, units, section_stiffness):
-    spec, material = beam["section"], beam.get("material")
-    if material is None:
-        raise BeamError(f"{prefix}beam.material: a section needs a material to give EI")
+    spec, material, catalog = beam["section"], beam.get("material"), beam.get("catalog")
+    if material is not None and not isinstance(material, str):
+        raise BeamError(f"{prefix}beam.material: expected a material name, got {material!r}")
+    if catalog is not None and not isinstance(catalog, str):
+        raise BeamError(f"{prefix}beam.catalog: expected a CSV file name, got {catalog!r}")
     if section_stiffness is None:
         raise BeamError(f"{prefix}beam.section: this reader takes EI only; a section needs a "
                         "stiffness maker (leanspan.select.member.section_stiffness)")
-    EI, mass = section_stiffness(spec, material, Path(base_dir), f"{prefix}beam.section", units)
+    EI, mass = section_stiffness(spec, material, Path(base_dir), f"{prefix}beam.section", units,
+                                 catalog=None if catalog is None else Path(base_dir) / catalog)
     return float(EI), float(mass)
 
 
@@ -189,8 +192,9 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
     if len(ways) != 1:
         raise BeamError(f"{p}beam: give the stiffness one way: EI, section + material, or [[stiffness]] "
                         f"tables (found {', '.join(ways) or 'none'})")
-    if "material" in beam and "section" not in beam:
-        raise BeamError(f"{p}beam.material: a material goes with a section")
+    for key in ("material", "catalog"):
+        if key in beam and "section" not in beam:
+            raise BeamError(f"{p}beam.{key}: goes with a section (a file, a table or a catalogue name)")
     if "EI" in beam:
         pieces = (Stiffness(0.0, length, parse(beam["EI"], "flexural stiffness", f"{p}beam.EI", units),
                             where=f"{p}beam"),)
@@ -225,7 +229,7 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
         if not isinstance(t, dict):
             raise BeamError(f"{where}: expected a table, got {t!r}")
         kind = _need(t, "type", where)
-        if kind not in _LOAD_KEYS:
+        if not isinstance(kind, str) or kind not in _LOAD_KEYS:
             raise BeamError(f"{where}.type: expected point, moment, udl or linear, got {kind!r}")
         _only(t, _LOAD_KEYS[kind] | {"type", "case"}, where)
         case = _need(t, "case", where)
@@ -243,17 +247,24 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
             loads.append(PointLoad(case, get("P", "force"), get("at", "length"), where=where))
         elif kind == "moment":
             loads.append(Couple(case, get("M", "moment"), get("at", "length"), where=where))
-        elif kind == "udl":
-            w = get("w", "force/length")
-            loads.append(DistributedLoad(case, w, w, get("from", "length", 0.0),
-                                         get("to", "length", length), where=where))
         else:
-            loads.append(DistributedLoad(case, get("w1", "force/length"), get("w2", "force/length"),
-                                         get("from", "length"), get("to", "length"), where=where))
+            # with a spacing (or tributary width) the intensities are per area: w = q x spacing
+            spacing = get("spacing", "length") if "spacing" in t else None
+            if spacing is not None and not spacing > 0:
+                raise BeamError(f"{where}.spacing: expected a positive length, got {t['spacing']!r}")
+            per = "pressure" if spacing is not None else "force/length"
+            scale = spacing if spacing is not None else 1.0
+            if kind == "udl":
+                w = get("w", per) * scale
+                loads.append(DistributedLoad(case, w, w, get("from", "length", 0.0),
+                                             get("to", "length", length), where=where))
+            else:
+                loads.append(DistributedLoad(case, get("w1", per) * scale, get("w2", per) * scale,
+                                             get("from", "length"), get("to", "length"), where=where))
     if not loads and self_weight is None:
         raise BeamError(f"{p}load: no loads; add [[load]] tables or beam.self_weight")
 
-    combos = []
+    combos, notes = [], []
     for i, t in enumerate(_tables(data, beam, "combination", p)):
         where = f"{p}combination[{i + 1}]"
         _only(t, {"name", "factors", "check", "limit", "pattern"}, where)
@@ -262,6 +273,8 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
         if not isinstance(factors, dict) or not factors:
             raise BeamError(f"{where}.factors: expected a table such as {{dead = 1.35, imposed = 1.5}}")
         check = t.get("check", "deflection" if "limit" in t else "strength")
+        if "limit" in t and "check" not in t:
+            notes.append(f"{where} {name!r}: a limit without check is taken as a deflection check")
         limit = parse_limit(t["limit"], f"{where}.limit", units) if "limit" in t else None
         pattern = t.get("pattern")
         if pattern is not None and not isinstance(pattern, str):
@@ -270,4 +283,4 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
 
     name = beam.get("name") or beam.get("title") or ""
     return BeamModel(length, tuple(sorted(supports.values(), key=lambda s: s.at)), pieces, tuple(loads),
-                     tuple(hinges), tuple(combos), mass, self_weight, str(name))
+                     tuple(hinges), tuple(combos), mass, self_weight, str(name), tuple(notes))

@@ -13,7 +13,7 @@ from contextlib import contextmanager
 import importlib
 import sys
 
-__all__ = ["main", "add_common", "emit_json", "option_paths"]
+__all__ = ["main", "add_common", "emit_json", "option_paths", "warn"]
 
 COMMANDS = ["section", "beam", "catalog", "materials", "select", "demo"]
 
@@ -96,6 +96,11 @@ def option_paths(*pairs):
             if path is not None and msg.startswith(f"{path}:"):
                 raise type(exc)(f"{flag} {msg}") from None
         raise
+
+
+def warn(command: str, text: str) -> None:
+    """One warning line on stderr, with the prefix every command uses."""
+    print(f"leanspan {command}: warning: {text}", file=sys.stderr)
 
 
 def add_common(p, units=True):

@@ -9,7 +9,7 @@ from __future__ import annotations
 from pathlib import Path
 
 from .. import CAUTION
-from . import add_common, emit_json, option_paths
+from . import add_common, emit_json, option_paths, warn
 
 __all__ = ["add_parser", "run"]
 
@@ -35,6 +35,8 @@ def run(args) -> int:
     path = Path(args.file)
     data = load_toml(path)
     model = parse_beam(data, path.parent, field_prefix=f"{path.name}: ", section_stiffness=section_stiffness)
+    for note in model.notes:
+        warn("beam", note)
     sol = solve(model)
     plots = []
     if args.plot:

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import sys
 
-from . import add_common, emit_json, option_paths
+from . import add_common, emit_json, option_paths, warn
 
 __all__ = ["add_parser", "run"]
 
@@ -80,7 +80,7 @@ def run(args) -> int:
                        max_width=_length(args.max_width, "--max-width"),
                        min_width=_length(args.min_width, "--min-width"))
     for w in df.attrs.get("warnings", []):
-        print(f"leanspan catalog: warning: {w}", file=sys.stderr)
+        warn("catalog", w)
     if args.csv:
         with option_paths(("--csv", args.csv)):
             atomic_write(args.csv, catalog_csv(df, args.units))

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from . import add_common, emit_json, option_paths
+from . import add_common, emit_json, option_paths, warn
 
 
 def add_parser(sub):
@@ -40,7 +40,7 @@ def run(args) -> int:
     section, out, extra = a.section, a.values, a.extra
     warning = pieces_warning(section, extra, args.file)
     if warning:
-        print(f"leanspan section: warning: {warning}", file=sys.stderr)
+        warn("section", warning)
     if args.plot:
         from ..report.diagrams import plot_section
 

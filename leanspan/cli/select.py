@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from . import add_common, emit_json, option_paths
+from . import add_common, emit_json, option_paths, warn
 
 
 def add_parser(sub):
@@ -54,7 +54,7 @@ def finish(args, job, source) -> int:
         raise InputError(f"--top: expected a positive number, got {args.top}")
     sel = run_selection(job)
     for w in sel.warnings:
-        print(f"warning: {w}", file=sys.stderr)
+        warn(args.command, w)
     with option_paths(("--csv", args.csv), ("--markdown", args.markdown)):
         write_table_exports(sel, csv_path=args.csv, markdown_path=args.markdown, units=args.units, top=args.top)
     if getattr(args, "report", None):
@@ -66,7 +66,7 @@ def finish(args, job, source) -> int:
         with option_paths(("--plot", args.plot)):
             plots = write_plots(sel, args.plot, args.units)
     if args.json:
-        emit_json(sel.to_json(args.top))
+        emit_json({**sel.to_json(args.top), "caution": CAUTION})
     else:
         print(ranked_table_text(sel, args.units, args.top))
         if getattr(args, "report", None):

@@ -29,7 +29,7 @@ import numpy as np
 
 from ..beam import Stiffness
 from ..catalog.materials import material_lookup
-from ..catalog.table import row_dims
+from ..catalog.table import catalog_table, row_dims
 from ..errors import InputError, LeanspanError
 from ..fileio import load_toml
 from ..sections.io import section_from_spec
@@ -154,25 +154,34 @@ def member_arrays(df, columns=()) -> dict:
     return out
 
 
-def section_stiffness(spec, material, base_dir, field: str = "beam.section", units=None):
+def section_stiffness(spec, material, base_dir, field: str = "beam.section", units=None, catalog=None):
     """EI (N m²) and mass per length (kg/m) of a beam's ``section`` + ``material``.
 
     The stiffness maker :func:`leanspan.beam.parse_beam` takes (the beam package knows
-    no sections). ``spec`` is a section file (relative to ``base_dir``) or an inline
-    table; ``units`` is the job file's unit system, used for an inline table's bare numbers.
+    no sections). ``spec`` is a section file (relative to ``base_dir``), an inline table,
+    or a name from the catalogue as ``leanspan select`` prints it (``"rect 47x200"``),
+    looked up in the built-in series and in the supplier list ``catalog`` if given;
+    ``material`` is then the grade (default: the row's own). ``units`` is the job file's
+    unit system, used for an inline table's bare numbers.
 
+    >>> from leanspan.units import UnitSystem
     >>> EI, mass = section_stiffness({"part": [{"shape": "rectangle", "b": 100, "d": 200}]},
-    ...                              "C24", ".", units=__import__("leanspan.units").units.UnitSystem.from_spec("mm"))
+    ...                              "C24", ".", units=UnitSystem.from_spec("mm"))
+    >>> round(EI / 1e3, 1), round(mass, 3)
+    (733.3, 8.4)
+    >>> EI, mass = section_stiffness("rect 100x200", "C24", ".")   # a catalogue name
     >>> round(EI / 1e3, 1), round(mass, 3)
     (733.3, 8.4)
     """
+    if isinstance(spec, str) and not (Path(base_dir) / spec).is_file() and not spec.endswith(".toml"):
+        return _catalogue_stiffness(spec, material, catalog, field)
     if isinstance(spec, str):
         path = Path(base_dir) / spec
         data, where, units = load_toml(path), "section", None  # a file declares its own units
     elif isinstance(spec, dict):
         data, where = spec, field
     else:
-        raise InputError(f"{field}: expected a section file name or a table, got {spec!r}")
+        raise InputError(f"{field}: expected a section file name, a catalogue name or a table, got {spec!r}")
     if material is not None:
         data = dict(data)
         data["material"] = material
@@ -184,6 +193,30 @@ def section_stiffness(spec, material, base_dir, field: str = "beam.section", uni
             raise type(exc)(f"{path}: {exc}") from None
         raise
     return member.EI, member.mass_per_length
+
+
+def _catalogue_stiffness(name, material, catalog, field):
+    """EI and mass of the catalogue (or supplier-list) row called ``name``, in ``material``."""
+    import difflib
+
+    df = catalog_table(user_csv=catalog, builtin=True)
+    rows = df[df["name"] == name]
+    if not len(rows):
+        near = difflib.get_close_matches(name, list(dict.fromkeys(df["name"])), n=3, cutoff=0.6)
+        hint = f"; near names: {', '.join(near)}" if near else ""
+        raise InputError(f"{field}: {name!r} is neither a section file nor a catalogue name"
+                         f"{' in the built-in series or ' + str(catalog) if catalog else ''}{hint}")
+    if material is not None:
+        rows = catalog_table(user_csv=catalog, builtin=True, materials=[material])
+        rows = rows[rows["name"] == name]
+        if not len(rows):
+            raise InputError(f"{field}: {name!r} does not come in {material!r} (its grades: "
+                             f"{', '.join(sorted(set(df[df['name'] == name]['material'])))})")
+    elif len(set(rows["material"])) > 1:
+        raise InputError(f"{field}: {name!r} comes in {', '.join(sorted(set(rows['material'])))}; "
+                         "give beam.material")
+    m = member_from_row(rows.iloc[0], with_section=False)
+    return m.EI, m.mass_per_length
 
 
 def beam_with_member(model, member: Member | None = None, *, EI=None, mass_per_length=None,

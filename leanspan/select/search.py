@@ -200,7 +200,7 @@ def run_selection(job, table=None) -> Selection:
         Catalogue rows to screen instead of the job's own search (used by tests).
     """
     df = candidate_table(job.search) if table is None else table
-    warnings = list(df.attrs.get("warnings", [])) if hasattr(df, "attrs") else []
+    warnings = (list(df.attrs.get("warnings", [])) if hasattr(df, "attrs") else []) + list(job.model.notes)
     if len(df) == 0:
         why = _why_empty(job.search) if table is None else "the given table"
         raise SelectionError(f"search: no catalogue rows match {why}; widen the search")
