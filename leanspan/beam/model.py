@@ -363,7 +363,9 @@ class BeamModel:
         object.__setattr__(self, "cases", tuple(cases))
         names = set()
         for c in self.combinations:
-            if c.name in names or c.name in cases or c.name == "envelope":
+            if c.name in ("envelope", "envelope_strength", "envelope_deflection"):
+                raise BeamError(f"{c.where}.name: {c.name!r} is the name of a result; choose another")
+            if c.name in names or c.name in cases:
                 raise BeamError(f"{c.where}.name: {c.name!r} is already used by a case or combination")
             names.add(c.name)
             for case, _ in c.factors:

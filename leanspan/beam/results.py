@@ -170,6 +170,22 @@ def _stations(resp, flds, n_regular, pre):
     return out
 
 
+ROUND_OFF = 1e-10  # extremes smaller than this fraction of the field's largest magnitude are zeros
+
+
+def snap_round_off(hi, lo):
+    """``hi``, ``lo`` with values below :data:`ROUND_OFF` of ``max(|hi|, |lo|)`` set to 0.
+
+    The exact fields are evaluated in floating point, so a zero (the moment at a free end)
+    comes out as about 1e-16 of the largest value; reported as such it reads as a real extreme.
+
+    >>> [float(v) for v in snap_round_off(7.3e-12, -14419.76)]
+    [0.0, -14419.76]
+    """
+    scale = np.maximum(np.abs(hi), np.abs(lo)) * ROUND_OFF
+    return np.where(np.abs(hi) < scale, 0.0, hi)[()], np.where(np.abs(lo) < scale, 0.0, lo)[()]
+
+
 def _extremes(resp, pre, names):
     out = {}
     x0 = resp.x_nodes[:-1]
@@ -178,8 +194,9 @@ def _extremes(resp, pre, names):
         i = np.unravel_index(np.argmax(vmax), vmax.shape)
         j = np.unravel_index(np.argmin(vmin), vmin.shape)
         many = len(names) > 1
-        out[f"{key}_max"] = Extreme(float(vmax[i]), float(x0[i[1]] + smax[i]), names[i[0]] if many else None)
-        out[f"{key}_min"] = Extreme(float(vmin[j]), float(x0[j[1]] + smin[j]), names[j[0]] if many else None)
+        hi, lo = snap_round_off(float(vmax[i]), float(vmin[j]))
+        out[f"{key}_max"] = Extreme(float(hi), float(x0[i[1]] + smax[i]), names[i[0]] if many else None)
+        out[f"{key}_min"] = Extreme(float(lo), float(x0[j[1]] + smin[j]), names[j[0]] if many else None)
     return {k: out[k] for k in ("M_max", "M_min", "V_max", "V_min", "theta_max", "theta_min", "v_max", "v_min")}
 
 
@@ -268,7 +285,8 @@ def solve(model: BeamModel, stations: int = 48) -> BeamSolution:
         boundaries and exact extreme locations).
 
     The envelope covers every concrete combination (pattern members included), or every
-    load case when there are no combinations.
+    load case when there are no combinations. When there are both strength and deflection
+    combinations, ``envelope_strength`` and ``envelope_deflection`` cover each kind alone.
     """
     sw = model.self_weight
     if sw is not None and model.mass_per_length is None:
@@ -301,6 +319,13 @@ def solve(model: BeamModel, stations: int = 48) -> BeamSolution:
         all_rows.append(Fm)
     if all_members:
         specs.append(("envelope", "envelope", None, np.vstack(all_rows), all_members))
+        # strength and serviceability kept apart: one envelope per kind when there are both
+        kinds = {c.name: c.check for c in model.combinations}
+        for check in ("strength", "deflection"):
+            pick = [i for i, k in enumerate(all_members) if kinds[k.parent or k.name] == check]
+            if pick and len(pick) < len(all_members):
+                specs.append((f"envelope_{check}", "envelope", check, np.vstack(all_rows)[pick],
+                              [all_members[i] for i in pick]))
     else:
         cases = list(model.cases)
         specs.append(("envelope", "envelope", None, np.array([case_rows[c] for c in cases]), cases))

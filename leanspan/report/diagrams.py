@@ -428,8 +428,9 @@ DIAGRAM_HEIGHT = 5.6  # inches, the three V, M, v panels
 
 
 def diagram_figure(solution, units: str = "si", picks: dict | None = None, fig=None):
-    """V, M and v along the beam: the envelope of every combination as a grey band and the
-    governing combination (see :func:`governing`) as a line, with its extremes annotated.
+    """V, M and v along the beam: the envelope as a grey band (V and M of the strength
+    combinations, v of the deflection combinations, where the job has both kinds; else of
+    all) and the governing combination (see :func:`governing`) as a line, extremes annotated.
 
     Sagging moment is drawn below the axis (on the tension side); deflection upward-positive.
     ``fig``: draw into this (sub)figure of a constrained-layout figure instead of a new one.
@@ -438,7 +439,13 @@ def diagram_figure(solution, units: str = "si", picks: dict | None = None, fig=N
     picks = picks or governing(solution)
     sl, sx = display_factor("span", units)
     model = solution.model
-    env = solution.results["envelope"]
+    # strength and serviceability apart: V and M bands from the strength combinations, v from
+    # the deflection combinations, where the job has both kinds
+    results = solution.results
+    envelopes = {"V": results.get("envelope_strength"), "M": results.get("envelope_strength"),
+                 "v": results.get("envelope_deflection")}
+    band = {"envelope_strength": "envelope (strength combinations)",
+            "envelope_deflection": "envelope (deflection combinations)"}
     if fig is None:
         fig = plt.figure(figsize=(7.2, DIAGRAM_HEIGHT), layout="constrained")
     axes = fig.subplots(3, 1, sharex=True)
@@ -450,10 +457,12 @@ def diagram_figure(solution, units: str = "si", picks: dict | None = None, fig=N
     for ax, key in zip(axes, ("V", "M", "v")):
         kind, label = CURVE_KEYS[key]
         ul, uf = display_factor(kind, units)
+        env = envelopes[key] or results["envelope"]
         ex = np.asarray(env.stations["x"], float) / sx
         lo = np.asarray(env.stations.get(f"{key}_min", env.stations[key]), float) / uf
         hi = np.asarray(env.stations.get(f"{key}_max", env.stations[key]), float) / uf
-        ax.fill_between(ex, lo, hi, color="#bbbbbb", alpha=0.45, lw=0, label="envelope (all combinations)")
+        ax.fill_between(ex, lo, hi, color="#bbbbbb", alpha=0.45, lw=0,
+                        label=band.get(env.name, "envelope (all combinations)"))
         ax.plot(ex, lo, color="#888888", lw=0.5)
         ax.plot(ex, hi, color="#888888", lw=0.5)
         name = picks.get(key)

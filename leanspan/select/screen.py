@@ -25,6 +25,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..beam import G, respond, solve
+from ..beam.results import snap_round_off
 from .checks import Effects, registered
 from .job import Limits
 from .member import beam_with_member
@@ -312,7 +313,7 @@ def screen_effects(model, cand: Candidates, self_weight_case=None) -> Effects:
         if combo.check == "strength":
             m = _field_extremes(resp.M, F, sw, t, None, lengths, x0, all_elems)
             v = _field_extremes(resp.V, F, sw, t, None, lengths, x0, all_elems)
-            out["M_max"][:, ci], out["M_min"][:, ci] = m[1][0], m[-1][0]
+            out["M_max"][:, ci], out["M_min"][:, ci] = snap_round_off(m[1][0], m[-1][0])
             out["V_abs"][:, ci] = np.maximum(np.abs(v[1][0]), np.abs(v[-1][0]))
         elif combo.limit is not None:
             ratio = np.full(K, np.nan)

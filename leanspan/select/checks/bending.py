@@ -32,10 +32,10 @@ def _allowable(props, limits, eff):
 
 
 def _action(eff, c):
-    out = [("M max", float(eff.M_max[0, c]), "moment")]
-    if eff.M_min[0, c] < 0:
-        out.append(("M min", float(eff.M_min[0, c]), "moment"))
-    return tuple(out)
+    """The sagging and hogging moments behind the demand (a zero one is left out)."""
+    hi, lo = float(eff.M_max[0, c]), float(eff.M_min[0, c])
+    out = ([("M max", hi, "moment")] if hi > 0 else []) + ([("M min", lo, "moment")] if lo < 0 else [])
+    return tuple(out) or (("M", 0.0, "moment"),)
 
 
 BENDING = register(Check(
