@@ -28,7 +28,7 @@ import math
 
 from .errors import UnitsError
 
-__all__ = ["KINDS", "UnitSystem", "parse", "unit_factor", "registry", "DISPLAY", "display_factor", "fmt"]
+__all__ = ["KINDS", "UnitSystem", "parse", "unit_factor", "registry", "DISPLAY", "display_factor", "fmt", "utilisation_text"]
 
 # Exact definitions: 1 in = 0.0254 m, 1 ft = 0.3048 m, 1 lbf = 4.4482216152605 N,
 # 1 lb = 0.45359237 kg. Every conversion in the program uses these.
@@ -319,3 +319,14 @@ def fmt(value: float, digits: int = 4, strip: bool = True) -> str:
             text = text.rstrip("0").rstrip(".")
         return text
     return f"{value:.{digits - 1}e}"
+
+
+def utilisation_text(u) -> str:
+    """A utilisation to 3 decimals, rounded up, so a failure never reads as within the limit.
+
+    >>> utilisation_text(1.0003), utilisation_text(0.9335), utilisation_text(1.0), utilisation_text(None)
+    ('1.001', '0.934', '1.000', '-')
+    """
+    if u is None:
+        return "-"
+    return f"{math.ceil(round(float(u) * 1000.0, 6)) / 1000.0:.3f}"

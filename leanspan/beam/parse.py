@@ -281,6 +281,6 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
             raise BeamError(f"{where}.pattern: expected the name of a load case, got {pattern!r}")
         combos.append(Combination(str(name), tuple(factors.items()), check, limit, pattern, where=where))
 
-    name = beam.get("name") or beam.get("title") or ""
+    name = beam.get("title") or beam.get("name") or ""
     return BeamModel(length, tuple(sorted(supports.values(), key=lambda s: s.at)), pieces, tuple(loads),
                      tuple(hinges), tuple(combos), mass, self_weight, str(name), tuple(notes))

@@ -301,7 +301,16 @@ def check_mechanism(model: BeamModel) -> None:
     lo, hi = cuts[moving[0]], cuts[moving[-1] + 1]
     a, b = vec[2 * moving[0]], vec[2 * moving[0] + 1]
     hint = ""
-    if abs(b) > 1e-8 * scale:
+    slopes = [vec[2 * j + 1] for j in moving]
+    folds = [cuts[j + 1] for j, k in zip(moving[:-1], moving[1:])
+             if abs(slopes[moving.index(k)] - slopes[moving.index(j)]) > 1e-8 * scale]
+    if folds:  # several pieces moving together: say where the chain folds and what it turns about
+        still = [s.at for s in model.supports if s.vertical and lo - 1e-9 * L <= s.at <= hi + 1e-9 * L]
+        where = " and ".join(f"x = {x + 0.0:.4g} m" for x in folds)
+        about = (f", turning about the support{'s' if len(still) > 1 else ''} at "
+                 + " and ".join(f"x = {x + 0.0:.4g} m" for x in still)) if still else ""
+        hint = f" (it folds at the hinge{'s' if len(folds) > 1 else ''} at {where}{about})"
+    elif abs(b) > 1e-8 * scale:
         pivot = -a / b * L
         if lo - 1e-9 * L <= pivot <= hi + 1e-9 * L:
             near = [h for h in model.hinges if abs(h - pivot) <= 1e-9 * L]

@@ -49,7 +49,7 @@ from .series import RENAMED, SERIES
 from .user import TABULATED, read_user_catalog
 
 __all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "dims_of", "row_dims", "cache_dir",
-           "cache_file", "builtin_frame"]
+           "cache_file", "cache_enabled", "builtin_frame"]
 
 DIM_KEYS = ("d", "b", "tw", "tf", "t", "r", "b_top", "tf_top", "b_bot", "tf_bot")
 MATERIAL_COLUMNS = ("kind", "E", "G", "density", "strength_bending", "strength_shear",
@@ -103,9 +103,18 @@ def _source_hash() -> str:
 
 
 def cache_dir() -> Path:
-    """The user cache folder: ``$XDG_CACHE_HOME/leanspan`` or ``~/.cache/leanspan``."""
+    """The user cache folder: ``$LEANSPAN_CACHE`` if set, else ``$XDG_CACHE_HOME/leanspan`` or
+    ``~/.cache/leanspan``."""
+    own = os.environ.get("LEANSPAN_CACHE")
+    if own:
+        return Path(own)
     base = os.environ.get("XDG_CACHE_HOME") or os.path.join(os.path.expanduser("~"), ".cache")
     return Path(base) / "leanspan"
+
+
+def cache_enabled() -> bool:
+    """False when ``LEANSPAN_NO_CACHE`` is set (to anything but "" or "0"): nothing is read or written."""
+    return os.environ.get("LEANSPAN_NO_CACHE", "") in ("", "0")
 
 
 def cache_file() -> Path:
@@ -158,7 +167,7 @@ def builtin_frame(use_cache: bool = True):
     """
     import pandas as pd
 
-    cols = _build_builtin() if not use_cache else _builtin_columns(_source_hash(), True)
+    cols = _build_builtin() if not (use_cache and cache_enabled()) else _builtin_columns(_source_hash(), True)
     return pd.DataFrame({k: v.copy() for k, v in cols.items()})
 
 

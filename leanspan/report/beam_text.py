@@ -78,7 +78,7 @@ def beam_text(sol, system: str = "si", title: str = "") -> str:
     checks = [(n, r) for n, r in sol.results.items() if r.kind == "combination" and r.deflection_checks]
     limits = {c.name: c.limit.describe(system) for c in m.combinations if c.limit is not None}
     if checks:
-        lines += ["", f"Deflection checks (v in {dl})"]
+        lines += ["", f"Deflection checks (v [{dl}])"]
         for n, r in checks:
             for c in r.deflection_checks:
                 verdict = "ok" if c["utilisation"] <= 1.0 else "EXCEEDS"
@@ -88,6 +88,11 @@ def beam_text(sol, system: str = "si", title: str = "") -> str:
     patterns = [n for n, r in sol.results.items() if r.kind == "combination" and len(r.members) > 1]
     if patterns:
         lines += ["", "Pattern combinations report the envelope of their on/off patterns "
-                      "(1 = case on that span/overhang): " + ", ".join(patterns)]
+                      "(1 = case on that span/overhang, in span order); the pattern behind each extreme:"]
+        for n in patterns:
+            r = sol.results[n]
+            picks = [f"{k} {r.extremes[k].member.removeprefix(n).strip()}" for k in
+                     ("M_max", "M_min", "V_max", "V_min", "v_min", "v_max") if r.extremes[k].member]
+            lines.append(f"  {n} ({len(r.members)} patterns): " + "; ".join(picks))
     lines += ["", CAUTION]
     return "\n".join(lines)

@@ -9,18 +9,6 @@ from .text import aligned_table
 __all__ = ["section_text", "pieces_warning"]
 
 
-def _shown_values(out: dict, extra: dict) -> dict:
-    """The values to list, with a mesh-noise shear-centre offset snapped to the centroid."""
-    values = dict(out, **extra)
-    size = max(out["depth"], out["width"])
-    for s_key, c_key in (("zs", "zc"), ("ys", "yc")):
-        # the finite-element shear centre is good to about 1e-3 of the size: a shift below 1e-4
-        # of it from the centroid is mesh noise (a symmetric section's lies on the axis)
-        if s_key in values and abs(values[s_key] - values[c_key]) < 1e-4 * size:
-            values[s_key] = values[c_key]
-    return values
-
-
 def section_text(section, out: dict, extra: dict, units: str = "si", source: str = "") -> str:
     """The readable listing of a section.
 
@@ -36,7 +24,7 @@ def section_text(section, out: dict, extra: dict, units: str = "si", source: str
     source : str
         The section file, named in the first line.
     """
-    values = _shown_values(out, extra)
+    values = dict(out, **extra)
     rows = []
     for key in labels.SECTION_KEYS:
         if key in values:

@@ -27,9 +27,9 @@ from ..errors import InputError
 from ..select.checks import not_checked, registered
 from ..select.chosen import check_rows
 from ..units import display_factor, fmt
+from ..units import utilisation_text as _util
 from . import labels as prop_labels
 from .markup import Cell, esc, inline_svg, num, page, section, table, util_bar
-from .tables import utilisation_text as _util
 
 __all__ = ["write_selection_sheet", "write_beam_sheet", "write_section_sheet",
            "selection_sheet_html", "beam_sheet_html", "section_sheet_html"]
@@ -116,11 +116,19 @@ def _header(title: str, kind: str, source: str, units: str, invented: bool, cont
     return "\n".join(out)
 
 
-def _closing(assumptions) -> str:
+SECTION_NOT_CHECKED = [
+    "any member check: stresses under loads, deflection, buckling and bearing "
+    "(this sheet gives section properties only; leanspan select makes the listed checks)",
+    "the connection between the parts of a built-up section (they are taken to act as one, without slip)",
+    "local buckling of thin parts, and the effect of holes on anything but these properties",
+]
+
+
+def _closing(assumptions, not_checked_items=None) -> str:
     out = ["<h3>Assumptions</h3><ul>"]
     out += [f"<li>{esc(a)}</li>" for a in assumptions]
     out.append("</ul><h3>Not checked</h3><p>This sheet does <b>not</b> check:</p><ul>")
-    out += [f"<li>{esc(n)}</li>" for n in not_checked()]
+    out += [f"<li>{esc(n)}</li>" for n in (not_checked() if not_checked_items is None else not_checked_items)]
     out.append("</ul>")
     out.append(f"<p><b>{esc(_DEFER)}</b></p>")
     out.append(f'<p class="caution">{esc(CAUTION)}</p>')
@@ -322,7 +330,8 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
     ctable = table(["check / combination", "action", "demand", "limit", "utilisation", "", "result"],
                    crow, cls="checks", row_classes=cls)
     how = " ".join(esc(c.sentence) for c in registered())
-    note = ("<p class=\"small\">Utilisation = demand / limit (the bar's black mark is 1.0); each check "
+    note = ("<p class=\"small\">Utilisation = demand / limit, printed rounded up to 3 decimals (the bar's "
+            "black mark is 1.0); each check "
             f"is shown at its governing combination. Stress limits: {esc(job.limits.describe(units))} "
             f"(for {esc(cand['material'])}). {how}</p>")
     parts.append(section("Checks", ctable + note, anchor="checks"))
@@ -338,8 +347,8 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
     rtable = table(labels, cells, cls="ranked", row_classes=rcls)
     rnote = ("<p class=\"small\">Passing candidates in order of the objective (least "
              f"{esc(job.search.objective)}), then the nearest failures: the heaviest lighter "
-             "sections that fail, marked NO, closest to passing first (by rank). "
-             "Utilisations are demand / limit.</p>")
+             "sections that fail, marked NO, closest to passing first (ranks count every candidate "
+             "screened). Utilisations are demand / limit, rounded up to 3 decimals.</p>")
     parts.append(section("Ranked candidates", rtable + rnote, anchor="candidates"))
 
     assumptions = [
@@ -485,8 +494,8 @@ def section_sheet_html(section_obj, out: dict, units: str = "si", source: str = 
     parts_rows = []
     for p in section_obj.parts:
         a = p.polygon.area
-        parts_rows.append([p.label, p.material or "-", num(_q(a, "area", units))])
-    ptab = table(["part", "material", f"area [{_u('area', units)[0]}]"], parts_rows,
+        parts_rows.append([p.label, p.shape or "-", p.material or "-", num(_q(a, "area", units))])
+    ptab = table(["part", "shape (mm)", "material", f"area [{_u('area', units)[0]}]"], parts_rows,
                  caption=f"{len(section_obj.parts)} part(s)")
     props = dict(values)
     fig = _figure(section_figure(section_obj, props, units, title), "section",
@@ -507,7 +516,8 @@ def section_sheet_html(section_obj, out: dict, units: str = "si", source: str = 
         "parts act together with no slip at their interfaces.",
         "y is up and z is horizontal; Iz is about the horizontal centroidal axis.",
     ]
-    parts.append(section("Assumptions and what is not checked", _closing(assumptions) + _footer(source),
+    parts.append(section("Assumptions and what is not checked",
+                         _closing(assumptions, SECTION_NOT_CHECKED) + _footer(source),
                          anchor="assumptions"))
     return page(f"{title} — leanspan calculation sheet", "\n".join(parts))
 

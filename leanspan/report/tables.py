@@ -5,7 +5,7 @@ from __future__ import annotations
 from .. import CAUTION
 from ..fileio import atomic_write
 from ..select.checks import registered
-from ..units import display_factor, fmt
+from ..units import display_factor, fmt, utilisation_text
 from .labels import generated_note
 from .text import aligned_table, csv_text, numeric_columns
 
@@ -14,19 +14,6 @@ __all__ = ["utilisation_text", "table_rows", "ranked_table_text", "ranked_table_
 
 HEADERS = ["rank", "name", "material", "mass", "depth", "width", "governing", "pass"]
 """The fixed columns; one column per registered check stands between width and governing."""
-
-
-def utilisation_text(u) -> str:
-    """A utilisation to 3 decimals, rounded up, so a failure never reads as within the limit.
-
-    >>> utilisation_text(1.0003), utilisation_text(0.9335), utilisation_text(1.0), utilisation_text(None)
-    ('1.001', '0.934', '1.000', '-')
-    """
-    import math
-
-    if u is None:
-        return "-"
-    return f"{math.ceil(round(float(u) * 1000.0, 6)) / 1000.0:.3f}"
 
 
 def table_rows(sel, units: str = "si", top: int = 10):

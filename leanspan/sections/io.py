@@ -25,6 +25,9 @@ Examples
 
 from __future__ import annotations
 
+import numpy as np
+
+
 from ..errors import GeometryError, InputError
 from ..fileio import load_toml
 from ..units import UnitSystem, parse
@@ -97,8 +100,23 @@ def _no_unknown(table, allowed, field):
             raise InputError(f"{field}.{key}: unknown key; expected {', '.join(sorted(allowed))}")
 
 
-def _placed(table, field, units):
+def _describe(table, poly, field, units) -> str:
+    """``"I 300x150x7.1x10.7"`` or ``"polygon, 5 points"``: the part as given, in mm."""
+    shape = table.get("shape")
+    if shape == "polygon":
+        holes = len(table.get("holes", []))
+        return f"polygon, {len(table['points'])} points" + (f", {holes} hole(s)" if holes else "")
+    fam = get_family(shape)
+    dims = fam.complete({k: np.atleast_1d(parse(table[k], "length", f"{field}.{k}", units))
+                         for k in fam.all_keys if k in table})
+    return fam.designation(dims)[0]
+
+
+def _placed(table, field, units, describe=None):
     poly = _shape_polygon(table, field, units)
+    if describe is not None:
+        local = UnitSystem.from_spec(table["units"], f"{field}.units") if "units" in table else units
+        describe.append(_describe(table, poly, field, local))
     units = UnitSystem.from_spec(table["units"], f"{field}.units") if "units" in table else units
     at = _point(table["at"], f"{field}.at", units) if "at" in table else (0.0, 0.0)
     rotate = table.get("rotate", 0.0)
@@ -135,10 +153,10 @@ def section_from_spec(spec: dict, field: str = "section", units: UnitSystem | No
     default_material = spec.get("material")
     if default_material is not None and not isinstance(default_material, str):
         raise InputError(f"{prefix}material: expected a material name, got {default_material!r}")
-    polys = []
+    polys, shapes = [], []
     for i, table in enumerate(parts_spec):
         label = f"{prefix}part[{i + 1}]"
-        polys.append((label, _placed(table, label, units), table.get("material", default_material)))
+        polys.append((label, _placed(table, label, units, shapes), table.get("material", default_material)))
     holes_spec = spec.get("hole", [])
     if not isinstance(holes_spec, list) or not all(isinstance(h, dict) for h in holes_spec):
         raise InputError(f"{prefix}hole: expected [[hole]] tables")
@@ -161,11 +179,11 @@ def section_from_spec(spec: dict, field: str = "section", units: UnitSystem | No
         if mat is not None and not isinstance(mat, str):
             raise InputError(f"{label}.material: expected a material name, got {mat!r}")
     parts = []
-    for label, poly, mat in polys:
+    for (label, poly, mat), shape in zip(polys, shapes):
         # a hole may cut a part into pieces (a bolt hole through a plate): keep each piece
         pieces = [poly] if poly.geom_type == "Polygon" else [g for g in poly.geoms if g.area > 0]
         for k, piece in enumerate(pieces):
-            parts.append(Part(piece, mat, label if len(pieces) == 1 else f"{label} piece {k + 1}"))
+            parts.append(Part(piece, mat, label if len(pieces) == 1 else f"{label} piece {k + 1}", shape))
     return Section(tuple(parts))
 
 

@@ -306,12 +306,13 @@ def mesh_section(polygons, element_size: float | None = None, max_elements: int 
         except (TypeError, ValueError):
             raise GeometryError(f"element_size: expected a positive length, got {element_size!r}") from None
         if not (np.isfinite(h) and h > 0):
-            raise GeometryError(f"element_size: expected a positive length, got {element_size!r}")
+            raise GeometryError(f"element_size: expected a positive length, got {h * 1e3:g} mm")
     whole = shapely.union_all(parts)
     n_est = whole.area / (0.433 * h * h)
     if n_est > 50 * MAX_ELEMENTS:
         raise GeometryError(
-            f"element_size: {h:.4g} would give about {n_est:.3g} triangles; expected a larger element size"
+            f"element_size: {h * 1e3:.4g} mm would give about {n_est:.3g} triangles; expected a larger "
+            f"element size (at least {np.sqrt(whole.area / (0.433 * 50 * MAX_ELEMENTS)) * 1e3:.3g} mm)"
         )
     bpts, seg = _noded_segments(parts, h)
     boundary = shapely.union_all([p.boundary for p in parts])

@@ -97,11 +97,13 @@ def _oriented_rings(poly) -> list[np.ndarray]:
 
 @dataclass(frozen=True)
 class Part:
-    """A polygon (SI metres, ``[z, y]``) with an optional material name and a label."""
+    """A polygon (SI metres, ``[z, y]``) with an optional material name, a label and the shape
+    it was built from (``"I 300x150x7.1x10.7"``, for tables and sheets)."""
 
     polygon: object
     material: str | None = None
     label: str = "part"
+    shape: str = ""
 
     def __post_init__(self):
         from shapely.geometry import MultiPolygon, Polygon

@@ -14,6 +14,7 @@ import numpy as np
 
 from ..catalog.table import catalog_table, row_dims
 from ..errors import SelectionError
+from ..units import utilisation_text
 from .checks import registered
 from .chosen import chosen_member
 from .member import member_arrays
@@ -217,5 +218,5 @@ def run_selection(job, table=None) -> Selection:
         best = first
         g = best["governing"]
         msg = (f"no candidate passes ({len(df)} screened); closest is {best['name']} "
-               f"({best['material']}) with {g} at {best['utilisation'][g]:.2f} of its limit")
+               f"({best['material']}) with {g} at {utilisation_text(best['utilisation'][g])} × its limit")
     return Selection(bool(n_pass), msg, chosen, order, len(df), df, res, job, warnings)

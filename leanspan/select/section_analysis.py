@@ -85,5 +85,12 @@ def analyse_section(path, torsion: bool = False, element_size: float | None = No
         else:
             tors = solve_torsion([p.polygon for p in gross.parts], None, element_size)
         out.update(J=tors.J, Cw=tors.Cw, ys=tors.ys, zs=tors.zs)
+        size = max(out["depth"], out["width"])
+        for s_key, c_key in (("zs", "zc"), ("ys", "yc")):
+            # the finite-element shear centre is good to about 1e-3 of the size: a shift below 1e-4
+            # of it from the centroid is mesh noise (a symmetric section's lies on the axis), so the
+            # JSON, the listing and the sheet all show the centroid's value
+            if abs(out[s_key] - out[c_key]) < 1e-4 * size:
+                out[s_key] = out[c_key]
         extra["torsion_elements"] = int(tors.mesh.triangles.shape[0]) if hasattr(tors.mesh, "triangles") else None
     return SectionAnalysis(section, out, extra, tors)
