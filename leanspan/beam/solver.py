@@ -1,15 +1,24 @@
 """Exact beam solver: Hermite stiffness method for the nodes, exact polynomial fields inside.
 
-The beam is cut into elements at every support, hinge, load point, load start/end and
-stiffness step, so each element is prismatic and carries a load that is linear in x.
-For such an element the cubic Hermite shape functions are exact homogeneous solutions
-and the consistent load vector equals the exact fixed-end forces, so the nodal
-deflections and rotations are exact. Inside each element the fields follow exactly:
-``V`` and ``M`` by statics from the left end (reactions and loads are known), ``v`` is
-the quintic ``v0 + theta0 s + M0 s^2/(2EI) - V0 s^3/(6EI) + q0 s^4/(24EI) + q1 s^5/(120EI)``.
+The beam is cut into stiffness *elements* at every support, hinge and stiffness step, so
+each element is prismatic; the cubic Hermite shape functions are then its exact homogeneous
+solutions, and the load vector built from the loads' exact fixed-end forces (point forces
+through the shape functions, couples through their slopes, linear loads by an exact Gauss
+rule) gives exact nodal deflections and rotations. Loads do not add elements: many or close
+loads neither grow the system nor make short, stiff elements whose ``K d`` would be a
+difference of huge terms (that lost equilibrium digits before).
 
-The stiffness matrix is factored once and every *unit case* is a column of the
-right-hand side; combinations are superpositions (factor vectors over unit cases).
+The fields are cut further into *pieces* at every load point and load start/end, so each
+piece carries a load linear in x: ``V`` and ``M`` by statics from the left end (reactions
+and loads are known), ``v`` is the quintic
+``v0 + theta0 s + M0 s^2/(2EI) - V0 s^3/(6EI) + q0 s^4/(24EI) + q1 s^5/(120EI)``, with
+``v0, theta0`` of each piece integrated from its element's left node.
+
+The stiffness matrix is symmetric and banded (half-bandwidth 3, 4 with hinges), assembled in
+long double, factored once by a banded Cholesky in double and refined with long double
+residuals; every *unit case* is a column of the right-hand side; combinations are
+superpositions (factor vectors over unit cases). Memory and time are linear in the number
+of features.
 
 Public entry point: :func:`respond` (arrays for many stiffness candidates at once);
 :func:`leanspan.beam.solve` builds readable results on top of it.
@@ -555,6 +564,14 @@ def respond(model: BeamModel, EI=None, unit_self_weight: bool = True, self_weigh
         Candidate stiffnesses for a stepped member, non-positive EI, too many pattern spans.
     """
     check_mechanism(model)
+    with np.errstate(all="ignore"):  # a non-finite result is turned into an error below
+        out = _respond(model, EI, unit_self_weight, self_weight_case)
+    if not all(np.all(np.isfinite(a)) for a in (out.M, out.v, out.reactions)):
+        raise _singular()
+    return out
+
+
+def _respond(model, EI, unit_self_weight, self_weight_case):
     mesh = _mesh(model)
     sw_case = self_weight_case if self_weight_case is not None else model.self_weight
     pattern_cases = list(dict.fromkeys(c.pattern for c in model.combinations if c.pattern))
