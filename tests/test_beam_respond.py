@@ -94,3 +94,20 @@ def test_poly_extremes_against_dense_sampling():
     cubic = np.array([0.0, 3.0, 0.0, -1.0, 0.0, 0.0])  # 3s - s^3: max 2 at s = 1
     hi, at, lo, _ = poly.extremes(cubic, 1.5)
     assert float(hi) == pytest.approx(2.0, rel=1e-15) and float(at) == pytest.approx(1.0, rel=1e-15)
+
+
+def test_springs_too_soft_raise_a_mechanism_error_without_numpy_warnings():
+    """Two springs of 1e-30 N/m under a 6 m beam: EI/L^3 / k ~ 1e34 is far beyond 1/eps of double
+    precision (2.2e-16, IEEE 754), so the beam is a mechanism to working precision."""
+    import warnings
+
+    from leanspan.errors import MechanismError
+
+    m = BeamModel(6.0, (Support(0.0, "spring", k=1e-30), Support(6.0, "spring", k=1e-30)),
+                  (Stiffness(0.0, 6.0, 1e7),), (PointLoad("A", 1e3, 2.0),))
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        with pytest.raises(MechanismError, match="singular"):
+            solve(m)
+        with pytest.raises(MechanismError, match="singular"):
+            respond(m, EI=np.array([1e6, 1e7]))

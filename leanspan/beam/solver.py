@@ -1,15 +1,24 @@
 """Exact beam solver: Hermite stiffness method for the nodes, exact polynomial fields inside.
 
-The beam is cut into elements at every support, hinge, load point, load start/end and
-stiffness step, so each element is prismatic and carries a load that is linear in x.
-For such an element the cubic Hermite shape functions are exact homogeneous solutions
-and the consistent load vector equals the exact fixed-end forces, so the nodal
-deflections and rotations are exact. Inside each element the fields follow exactly:
-``V`` and ``M`` by statics from the left end (reactions and loads are known), ``v`` is
-the quintic ``v0 + theta0 s + M0 s^2/(2EI) - V0 s^3/(6EI) + q0 s^4/(24EI) + q1 s^5/(120EI)``.
+The beam is cut into stiffness *elements* at every support, hinge and stiffness step, so
+each element is prismatic; the cubic Hermite shape functions are then its exact homogeneous
+solutions, and the load vector built from the loads' exact fixed-end forces (point forces
+through the shape functions, couples through their slopes, linear loads by an exact Gauss
+rule) gives exact nodal deflections and rotations. Loads do not add elements: many or close
+loads neither grow the system nor make short, stiff elements whose ``K d`` would be a
+difference of huge terms (that lost equilibrium digits before).
 
-The stiffness matrix is factored once and every *unit case* is a column of the
-right-hand side; combinations are superpositions (factor vectors over unit cases).
+The fields are cut further into *pieces* at every load point and load start/end, so each
+piece carries a load linear in x: ``V`` and ``M`` by statics from the left end (reactions
+and loads are known), ``v`` is the quintic
+``v0 + theta0 s + M0 s^2/(2EI) - V0 s^3/(6EI) + q0 s^4/(24EI) + q1 s^5/(120EI)``, with
+``v0, theta0`` of each piece integrated from its element's left node.
+
+The stiffness matrix is symmetric and banded (half-bandwidth 3, 4 with hinges), assembled in
+long double, factored once by a banded Cholesky in double and refined with long double
+residuals; every *unit case* is a column of the right-hand side; combinations are
+superpositions (factor vectors over unit cases). Memory and time are linear in the number
+of features.
 
 Public entry point: :func:`respond` (arrays for many stiffness candidates at once);
 :func:`leanspan.beam.solve` builds readable results on top of it.
@@ -33,6 +42,7 @@ import itertools
 from dataclasses import dataclass
 
 import numpy as np
+from scipy.linalg import cho_solve_banded, cholesky_banded
 
 from ..errors import BeamError, MechanismError
 from .model import FEATURE_GAP, BeamModel, Couple, DeflectionLimit, DistributedLoad, PointLoad
@@ -117,59 +127,90 @@ class Response:
 
 @dataclass(frozen=True)
 class _Mesh:
-    x: np.ndarray
-    L: np.ndarray
-    EI: np.ndarray
-    v_dof: np.ndarray
+    """Two levels: *pieces* (cut at every feature, the fields' polynomials) and stiffness
+    *elements* (cut only at supports, hinges and stiffness steps: the banded system).
+
+    Loads do not cut elements: their exact fixed-end forces go into the element's load
+    vector, so close or many loads neither add degrees of freedom nor make short, stiff
+    elements.
+    """
+
+    x: np.ndarray         # (n+1,) piece boundaries
+    L: np.ndarray         # (n,) piece lengths
+    EI: np.ndarray        # (n,) piece stiffness
+    elem: np.ndarray      # (n,) element of each piece
+    xe: np.ndarray        # (m+1,) element boundaries (the nodes)
+    Le: np.ndarray        # (m,) element lengths
+    EIe: np.ndarray       # (m,) element stiffness
+    node_piece: np.ndarray  # (m+1,) piece boundary index of each node
+    v_dof: np.ndarray     # per node
     th_left: np.ndarray
     th_right: np.ndarray
-    edofs: np.ndarray
+    edofs: np.ndarray     # (m, 4)
     ndof: int
 
 
+def _nearest(x, values):
+    """Index of the nearest entry of the sorted array ``x`` for each of ``values``."""
+    values = np.asarray(values, float)
+    i = np.clip(np.searchsorted(x, values), 1, max(x.size - 1, 1))
+    return np.where(np.abs(values - x[i - 1]) <= np.abs(x[i] - values), i - 1, i)
+
+
 def _node_index(x, value):
-    return int(np.argmin(np.abs(x - value)))
+    return int(_nearest(x, [value])[0])
 
 
 SNAP = FEATURE_GAP
-"""Feature positions closer than SNAP * length share a node (short elements are ill-conditioned)."""
+"""Supports, hinges and stiffness steps closer than SNAP * length share a node."""
+
+LOAD_SNAP = 1e-12
+"""Load positions closer than LOAD_SNAP * length share a piece boundary (round-off only)."""
+
+
+def _merge(pts, tol):
+    pts = np.sort(pts)
+    return pts[np.concatenate([[True], np.diff(pts) > tol])]
+
+
+def _load_points(model):
+    pts = [np.array([ld.at for ld in model.loads if not isinstance(ld, DistributedLoad)], float)]
+    pts += [np.array([[ld.start, ld.end] for ld in model.loads if isinstance(ld, DistributedLoad)],
+                     float).reshape(-1)]
+    return np.concatenate(pts)
 
 
 def _mesh(model: BeamModel) -> _Mesh:
     L = model.length
     tol = SNAP * L
-    pts = [0.0, L]
-    pts += [s.at for s in model.supports] + list(model.hinges)
+    pts = [0.0, L] + [s.at for s in model.supports] + list(model.hinges)
     for p in model.stiffness:
         pts += [p.start, p.end]
-    for ld in model.loads:
-        pts += [ld.start, ld.end] if isinstance(ld, DistributedLoad) else [ld.at]
-    pts = np.sort(np.clip(np.asarray(pts, float), 0.0, L))
-    keep = np.concatenate([[True], np.diff(pts) > tol])
-    x = pts[keep]
-    if x[-1] < L - tol:
-        x = np.append(x, L)
-    x[0], x[-1] = 0.0, L
-    n = x.size
-    mid = 0.5 * (x[:-1] + x[1:])
-    EI = np.empty(n - 1)
+    xe = _merge(np.clip(np.asarray(pts, float), 0.0, L), tol)
+    if xe[-1] < L - tol:
+        xe = np.append(xe, L)
+    xe[0], xe[-1] = 0.0, L
+    m = xe.size
+    mid = 0.5 * (xe[:-1] + xe[1:])
+    EIe = np.empty(m - 1)
     for p in model.stiffness:  # few pieces
-        EI[(mid >= p.start) & (mid <= p.end)] = p.EI
-    hinge_nodes = {_node_index(x, h) for h in model.hinges}
-    v_dof = np.empty(n, int)
-    th_left = np.empty(n, int)
-    th_right = np.empty(n, int)
-    k = 0
-    for i in range(n):  # one pass over nodes to number the degrees of freedom
-        v_dof[i], th_left[i] = k, k + 1
-        k += 2
-        if i in hinge_nodes:
-            th_right[i] = k
-            k += 1
-        else:
-            th_right[i] = th_left[i]
+        EIe[(mid >= p.start) & (mid <= p.end)] = p.EI
+    # pieces: the nodes plus every load position (those at a node's round-off take the node)
+    lp = np.clip(_load_points(model), 0.0, L)
+    lp = lp[np.abs(lp - xe[_nearest(xe, lp)]) > LOAD_SNAP * L]
+    x = np.union1d(xe, _merge(lp, LOAD_SNAP * L)) if lp.size else xe.copy()
+    node_piece = np.searchsorted(x, xe)
+    elem = np.searchsorted(xe, 0.5 * (x[:-1] + x[1:])) - 1
+    hinge = np.zeros(m, bool)
+    hinge[_nearest(xe, list(model.hinges))] = bool(model.hinges)
+    # per node: v, theta (left), theta (right, a separate dof only at a hinge); banded order
+    step = 2 + hinge
+    v_dof = np.concatenate([[0], np.cumsum(step)[:-1]])
+    th_left = v_dof + 1
+    th_right = np.where(hinge, v_dof + 2, th_left)
     edofs = np.stack([v_dof[:-1], th_right[:-1], v_dof[1:], th_left[1:]], axis=1)
-    return _Mesh(x, np.diff(x), EI, v_dof, th_left, th_right, edofs, k)
+    return _Mesh(x, np.diff(x), EIe[elem], elem, xe, np.diff(xe), EIe, node_piece, v_dof, th_left,
+                 th_right, edofs, int(step.sum()))
 
 
 def _span_index(spans, x):
@@ -178,7 +219,8 @@ def _span_index(spans, x):
 
 
 def _unit_cases(model, mesh, unit_self_weight, pattern_cases):
-    """Names, nodal point forces/couples (U, N) and element loads q0, q1 (U, E), upward +."""
+    """Names, point forces/couples at the piece boundaries (U, n+1) and piece loads q0, q1
+    (U, n), upward +."""
     spans = model.spans
     names = list(model.cases)
     sub = {}
@@ -194,28 +236,35 @@ def _unit_cases(model, mesh, unit_self_weight, pattern_cases):
     C = np.zeros((U, n))
     q0 = np.zeros((U, E))
     q1 = np.zeros((U, E))
-    x0, x1 = mesh.x[:-1], mesh.x[1:]
-    tol = SNAP * model.length
-    espan = _span_index(spans, 0.5 * (x0 + x1))
-    for ld in model.loads:  # loads are a small set; each is vectorised over elements
-        u = names.index(ld.case)
-        if isinstance(ld, DistributedLoad):
-            inside = (x0 >= ld.start - tol) & (x1 <= ld.end + tol)
-            slope = (ld.w2 - ld.w1) / (ld.end - ld.start)
-            a = np.where(inside, -(ld.w1 + slope * (x0 - ld.start)), 0.0)
-            b = np.where(inside, -slope, 0.0)
-            q0[u] += a
-            q1[u] += b
-            if ld.case in sub:
-                rows = sub[ld.case] + espan
-                np.add.at(q0, (rows, np.arange(E)), a)
-                np.add.at(q1, (rows, np.arange(E)), b)
-        else:
-            i = _node_index(mesh.x, ld.at)
-            target, val = (P, -ld.P) if isinstance(ld, PointLoad) else (C, ld.M)
-            target[u, i] += val
-            if ld.case in sub:
-                target[sub[ld.case] + _span_index(spans, mesh.x[i]), i] += val
+    x0 = mesh.x[:-1]
+    espan = _span_index(spans, 0.5 * (x0 + mesh.x[1:]))
+    case_of = {c: i for i, c in enumerate(names)}
+    conc = [ld for ld in model.loads if not isinstance(ld, DistributedLoad)]
+    if conc:  # point loads and couples, vectorised (there may be many)
+        at = _nearest(mesh.x, [ld.at for ld in conc])
+        u = np.array([case_of[ld.case] for ld in conc])
+        val = np.array([-ld.P if isinstance(ld, PointLoad) else ld.M for ld in conc])
+        is_p = np.array([isinstance(ld, PointLoad) for ld in conc])
+        pat = np.array([ld.case in sub for ld in conc])
+        rows = np.array([sub.get(ld.case, 0) for ld in conc]) + _span_index(spans, mesh.x[at])
+        for target, mask in ((P, is_p), (C, ~is_p)):
+            np.add.at(target, (u[mask], at[mask]), val[mask])
+            np.add.at(target, (rows[mask & pat], at[mask & pat]), val[mask & pat])
+    for ld in model.loads:  # distributed loads are few; each touches only its own pieces
+        if not isinstance(ld, DistributedLoad):
+            continue
+        u = case_of[ld.case]
+        i0, i1 = _nearest(mesh.x, [ld.start, ld.end])
+        sl = slice(i0, i1)
+        slope = (ld.w2 - ld.w1) / (ld.end - ld.start)
+        a = -(ld.w1 + slope * (x0[sl] - ld.start))
+        q0[u, sl] += a
+        q1[u, sl] -= slope
+        if ld.case in sub:
+            rows = sub[ld.case] + espan[sl]
+            idx = np.arange(i0, i1)
+            np.add.at(q0, (rows, idx), a)
+            np.add.at(q1, (rows, idx), -slope)
     if sw is not None:
         q0[sw] = -1.0
     return names, P, C, q0, q1, sw
@@ -338,19 +387,88 @@ def _element_stiffness(L, EI):
     return k
 
 
-def _consistent_loads(L, q0, q1):
-    """Exact fixed-end forces of q = q0 + q1 s on each element: (U, E, 4)."""
-    L2 = L * L
-    return np.stack([L * (q0 / 2 + 3 * q1 * L / 20),
-                     L2 * (q0 / 12 + q1 * L / 30),
-                     L * (q0 / 2 + 7 * q1 * L / 20),
-                     -L2 * (q0 / 12 + q1 * L / 20)], axis=-1)
+_GAUSS = (np.array([-np.sqrt(0.6), 0.0, np.sqrt(0.6)]), np.array([5.0, 8.0, 5.0]) / 9.0)
+"""3-point Gauss-Legendre rule on [-1, 1]: exact for the quartic N_i(s) q(s)."""
+
+
+def _hermite(s, L, derivative=False):
+    """Cubic Hermite shape functions (or their slopes) at ``s`` on elements of length ``L``: (..., 4)."""
+    t = s / L
+    if derivative:
+        return np.stack([6 * (t * t - t) / L, 1 - 4 * t + 3 * t * t, 6 * (t - t * t) / L, 3 * t * t - 2 * t], -1)
+    return np.stack([1 - t * t * (3 - 2 * t), L * t * (1 - t) ** 2, t * t * (3 - 2 * t), L * t * t * (t - 1)], -1)
+
+
+def _load_vector(mesh, P, C, q0, q1):
+    """Exact fixed-end forces of all loads, assembled: (ndof, U).
+
+    Point forces work through the shape functions at their position, couples through their
+    slopes, piece loads ``q0 + q1 t`` by a Gauss rule that is exact for them; the pieces and
+    boundaries of one element are contiguous, so ``reduceat`` sums them per element.
+    """
+    x0 = mesh.xe[mesh.elem]
+    Lp = mesh.L[:, None]
+    g, w = _GAUSS
+    t = Lp * (1 + g[None, :]) / 2  # (n, 3) Gauss points on each piece
+    N = _hermite(mesh.x[:-1, None] - x0[:, None] + t, mesh.Le[mesh.elem][:, None])  # (n, 3, 4)
+    q = q0[:, :, None] + q1[:, :, None] * t[None]  # (U, n, 3)
+    fq = np.einsum("ung,ngk->nku", q * (w * Lp / 2)[None], N)
+    belem = np.append(mesh.elem, mesh.elem[-1])  # each boundary belongs to the element on its right
+    s = mesh.x - mesh.xe[belem]
+    Lb = mesh.Le[belem]
+    fc = _hermite(s, Lb)[:, :, None] * P.T[:, None, :] + _hermite(s, Lb, True)[:, :, None] * C.T[:, None, :]
+    first = mesh.node_piece[:-1]
+    fe = np.add.reduceat(fq, first, axis=0) + np.add.reduceat(fc, first, axis=0)  # (m, 4, U)
+    F = np.zeros((mesh.ndof, P.shape[0]))
+    for a in range(4):  # each local dof number meets every global dof at most once
+        F[mesh.edofs[:, a]] += fe[:, a]
+    return F
+
+
+def _band(mesh, dtype=np.longdouble):
+    """Stiffness matrix in upper band storage ``ab[u + i - j, j] = K[i, j]``: (u + 1, ndof)."""
+    Ke = _element_stiffness(mesh.Le.astype(dtype), mesh.EIe.astype(dtype))
+    u = int((mesh.edofs[:, 3] - mesh.edofs[:, 0]).max())
+    ab = np.zeros((u + 1, mesh.ndof), dtype)
+    for a, b in itertools.combinations_with_replacement(range(4), 2):
+        i, j = mesh.edofs[:, a], mesh.edofs[:, b]
+        ab[u + i - j, j] += Ke[:, a, b]
+    return ab
+
+
+def _band_matvec(ab, x):
+    """``A x`` for symmetric ``A`` in upper band storage; ``x`` (..., n, U) in ``ab``'s precision."""
+    u = ab.shape[0] - 1
+    y = ab[u][:, None] * x
+    for d in range(1, u + 1):  # off-diagonals
+        a = ab[u - d, d:][:, None]
+        y[..., :-d, :] += a * x[..., d:, :]
+        y[..., d:, :] += a * x[..., :-d, :]
+    return y
+
+
+def _restrain(ab, fixed):
+    """Band with the rows and columns of ``fixed`` dofs set to zero (the caller puts 1 on their
+    diagonal, so that d = 0 there)."""
+    u = ab.shape[0] - 1
+    out = ab.copy()
+    mask = np.zeros(ab.shape[1], bool)
+    mask[fixed] = True
+    for d in range(u + 1):
+        hit = mask[d:] | mask[:ab.shape[1] - d]  # column j or row j - d restrained
+        out[u - d, d:][hit] = 0.0
+    return out
+
+
+def _singular():
+    return MechanismError("beam: the stiffness system is singular or not finite (a spring far too soft "
+                          "for the beam, or stiffnesses out of range); stiffen the springs or add a support")
 
 
 def _supports_dofs(model, mesh):
     fixed, springs = [], []  # (dof, support index, component) / (dof, stiffness, support index, component)
     for i, s in enumerate(model.supports):
-        n = _node_index(mesh.x, s.at)
+        n = _node_index(mesh.xe, s.at)
         if s.fixes_v:
             fixed.append((mesh.v_dof[n], i, 0))
         if s.fixes_theta:
@@ -363,24 +481,33 @@ def _supports_dofs(model, mesh):
     return fixed, springs
 
 
-def _refined_solve(A, b, steps: int = 2):
-    """Solve stacked systems ``A x = b`` (``A`` in long double) by double-precision LU with
-    iterative refinement (residuals in long double).
+def _refined_solve(ab, b, steps: int = 2):
+    """Solve ``A x = b`` (``A`` symmetric positive definite, long double upper band) by a
+    double-precision banded Cholesky factor and iterative refinement; the iterate and its
+    residuals are kept in long double. Returns ``x`` in long double.
 
     Short elements next to soft springs make ``A`` ill-conditioned (element terms EI/L^3 far
-    above k); refinement with an extended-precision residual recovers full double accuracy.
+    above k); the extended-precision residual recovers the lost digits.
     """
-    Ad = A.astype(float)
-    x = np.linalg.solve(Ad, b)
-    Al, bl = A.astype(np.longdouble), b.astype(np.longdouble)
-    for _ in range(steps):
-        r = (bl - np.matmul(Al, x.astype(np.longdouble))).astype(float)
-        x = x + np.linalg.solve(Ad, r)
+    try:
+        with np.errstate(all="ignore"):
+            cb = cholesky_banded(ab.astype(float), lower=False)
+            x = cho_solve_banded((cb, False), b).astype(ab.dtype)
+            bl = b.astype(ab.dtype)
+            for _ in range(steps):
+                r = (bl - _band_matvec(ab, x)).astype(float)
+                x += cho_solve_banded((cb, False), r)
+    except (np.linalg.LinAlgError, ValueError):
+        raise _singular() from None
+    if not np.all(np.isfinite(x)):
+        raise _singular()
     return x
 
 
-def _spring_batch_solve(K, springs, F, ratio):
-    """Solve ``(r K + diag(springs)) d = F`` for every stiffness ratio ``r`` in ``ratio``.
+def _spring_batch_solve(ab, restrained, springs, F, ratio):
+    """Solve ``(r K + diag(springs)) d = F`` for every stiffness ratio ``r`` in ``ratio``
+    (``ab``: ``K`` in long double band storage with the rows and columns of restrained dofs
+    zero; ``restrained`` is 1 on those dofs, whose identity rows are not scaled).
 
     Only the few spring terms differ from a reference system ``A0 = r0 K + S`` (``r0`` the
     geometric mean of the ratios): ``r K + S = (r / r0) (A0 + c S)`` with ``c = r0 / r - 1``,
@@ -392,19 +519,28 @@ def _spring_batch_solve(K, springs, F, ratio):
     Returns (R, n, U) displacements.
     """
     sp = np.flatnonzero(springs)
-    m, n, U = sp.size, K.shape[0], F.shape[1]
+    m, n, U = sp.size, ab.shape[1], F.shape[1]
     r0 = float(np.exp(np.mean(np.log(ratio))))
-    A0 = r0 * K + np.diag(springs).astype(K.dtype)
+    u = ab.shape[0] - 1
+    A0 = r0 * ab
+    A0[u] += springs + restrained
     E = np.zeros((n, m))
     E[sp, np.arange(m)] = 1.0
-    sol = _refined_solve(A0[None], np.concatenate([F, E], axis=1)[None])[0]
+    sol = _refined_solve(A0, np.concatenate([F, E], axis=1)).astype(float)
     u0, G = sol[:, :U], sol[:, U:]
     H = G[sp]  # (m, m) flexibility of the reference system at the spring terms
     C = (r0 / ratio - 1.0)[:, None] * springs[sp][None, :]  # (R, m): diagonal of c S
     Msys = np.eye(m)[None] + H[None] * C[:, None, :]  # I + H diag(C)
-    y = np.linalg.solve(Msys, np.broadcast_to(u0[sp], (ratio.size, m, U)))
-    corr = np.einsum("nm,rmu->rnu", G, C[:, :, None] * y)
-    return (r0 / ratio)[:, None, None] * (u0[None] - corr)
+    try:
+        with np.errstate(all="ignore"):
+            y = np.linalg.solve(Msys, np.broadcast_to(u0[sp], (ratio.size, m, U)))
+            corr = np.einsum("nm,rmu->rnu", G, C[:, :, None] * y)
+            out = (r0 / ratio)[:, None, None] * (u0[None] - corr)
+    except np.linalg.LinAlgError:
+        raise _singular() from None
+    if not np.all(np.isfinite(out)):
+        raise _singular()
+    return out
 
 
 def respond(model: BeamModel, EI=None, unit_self_weight: bool = True, self_weight_case: str | None = None,
@@ -437,6 +573,14 @@ def respond(model: BeamModel, EI=None, unit_self_weight: bool = True, self_weigh
         Candidate stiffnesses for a stepped member, non-positive EI, too many pattern spans.
     """
     check_mechanism(model)
+    with np.errstate(all="ignore"):  # a non-finite result is turned into an error below
+        out = _respond(model, EI, unit_self_weight, self_weight_case)
+    if not all(np.all(np.isfinite(a)) for a in (out.M, out.v, out.reactions)):
+        raise _singular()
+    return out
+
+
+def _respond(model, EI, unit_self_weight, self_weight_case):
     mesh = _mesh(model)
     sw_case = self_weight_case if self_weight_case is not None else model.self_weight
     pattern_cases = list(dict.fromkeys(c.pattern for c in model.combinations if c.pattern))
@@ -458,55 +602,48 @@ def respond(model: BeamModel, EI=None, unit_self_weight: bool = True, self_weigh
 
     # assembled in long double: short stiff elements then keep their rigid-body modes free of
     # spurious stiffness far below round-off of EI/L^3 (which would pollute soft springs)
-    LD = np.longdouble
-    Ke = _element_stiffness(mesh.L.astype(LD), mesh.EI.astype(LD))
-    Kl = np.zeros((mesh.ndof, mesh.ndof), LD)
-    np.add.at(Kl, (mesh.edofs[:, :, None], mesh.edofs[:, None, :]), Ke)
-    K = Kl.astype(float)
+    Kb = _band(mesh)
     S = np.zeros(mesh.ndof)
     for dof, k, _, _ in springs:
         S[dof] += k
-    F = np.zeros((mesh.ndof, len(names)))
-    fe = _consistent_loads(mesh.L, q0, q1)  # (U, E, 4)
-    np.add.at(F, mesh.edofs.ravel(), fe.transpose(1, 2, 0).reshape(-1, len(names)))
-    np.add.at(F, mesh.v_dof, P.T)
-    # couples act on the rotation of the element to the right (never at a hinge: checked in the model)
-    np.add.at(F, mesh.th_left, C.T)
+    F = _load_vector(mesh, P, C, q0, q1)
     fixed_dofs = np.array([f[0] for f in fixed], int)
-    free = np.setdiff1d(np.arange(mesh.ndof), fixed_dofs)
-    Kff = Kl[np.ix_(free, free)]
+    restrained = np.zeros(mesh.ndof)
+    restrained[fixed_dofs] = 1.0  # identity rows: d = 0 there
+    Kz = _restrain(Kb, fixed_dofs)
+    Ff = F.copy()
+    Ff[fixed_dofs] = 0.0
     batched = ratio is not None and bool(springs)
     if batched:
-        d_free = _spring_batch_solve(Kff, S[free], F[free], ratio)
+        d = _spring_batch_solve(Kz, restrained, S, Ff, ratio)
         kfac = ratio
     else:
-        d_free = _refined_solve((Kff + np.diag(S[free]).astype(LD))[None], F[free][None])
+        Kz[-1] += S + restrained
+        d = _refined_solve(Kz, Ff)[None]
         kfac = np.ones(1)
-    nk = d_free.shape[0]
-    d = np.zeros((nk, mesh.ndof, len(names)))
-    d[:, free] = d_free
+    nk = d.shape[0]
 
-    # reactions (nk, U, nsup, 2): rigid ones from K d - F, springs -k d
+    # reactions (nk, U, nsup, 2): rigid ones from K d - F (in long double, from the long double
+    # solution where there is one), springs -k d
     R = np.zeros((nk, len(names), len(model.supports), 2))
     if fixed:
-        # K d - F in extended precision: stiff short elements make it a difference of large terms
-        Kr = Kl[fixed_dofs]
-        Rf = (kfac[:, None, None].astype(np.longdouble) * np.matmul(Kr[None], d.astype(np.longdouble))
-              - F[fixed_dofs][None]).astype(float)
+        Kd = _band_matvec(Kb, d.astype(np.longdouble))[:, fixed_dofs]
+        Rf = (kfac[:, None, None].astype(np.longdouble) * Kd - F[fixed_dofs][None]).astype(float)
         for r, (_, i, comp) in enumerate(fixed):
             R[:, :, i, comp] += Rf[:, r]
+    d = d.astype(float)
     for dof, k, i, comp in springs:
         R[:, :, i, comp] -= k * d[:, dof]
 
-    # statics from the left: nodal concentrated forces and couples including reactions
+    # statics from the left: concentrated forces and couples at piece boundaries, with reactions
     Fn = np.broadcast_to(P, (nk,) + P.shape).copy()
     Cn = np.broadcast_to(C, (nk,) + C.shape).copy()
     for i, s in enumerate(model.supports):
-        n = _node_index(mesh.x, s.at)
+        n = mesh.node_piece[_node_index(mesh.xe, s.at)]
         Fn[:, :, n] += R[:, :, i, 0]
         Cn[:, :, n] += R[:, :, i, 1]
     Le = mesh.L
-    Q = q0 * Le + q1 * Le**2 / 2  # load resultant on each element (upward)
+    Q = q0 * Le + q1 * Le**2 / 2  # load resultant on each piece (upward)
     excl = lambda a: np.concatenate([np.zeros(a.shape[:-1] + (1,)), np.cumsum(a, -1)[..., :-1]], -1)  # noqa: E731
     V0 = -np.cumsum(Fn, -1)[..., :-1] - excl(Q)[None]
     dM = -V0 * Le + q0 * Le**2 / 2 + q1 * Le**3 / 6
@@ -516,11 +653,22 @@ def respond(model: BeamModel, EI=None, unit_self_weight: bool = True, self_weigh
     zeros = np.zeros_like(V0)
     Mc = np.stack([M0, -V0, q0b / 2, q1b / 6], -1)
     Vc = np.stack([V0, -q0b, -q1b / 2, zeros], -1)
-    EIk = kfac[:, None] * mesh.EI[None]  # (nk, E)
+    EIk = kfac[:, None] * mesh.EI[None]  # (nk, n)
     inv = 1.0 / EIk[:, None, :]
-    v0 = d[:, mesh.v_dof[:-1], :].transpose(0, 2, 1)
-    t0 = d[:, mesh.th_right[:-1], :].transpose(0, 2, 1)
-    vc = np.stack([v0, t0, M0 * inv / 2, -V0 * inv / 6, q0b * inv / 24, q1b * inv / 120], -1)
+    bend = np.stack([M0 * inv / 2, -V0 * inv / 6, q0b * inv / 24, q1b * inv / 120], -1)  # s^2 .. s^5
+    # v, theta at each piece start: the element's left node, then integrated along its pieces
+    powers = Le[:, None] ** np.arange(1, 6)
+    dth = np.sum(bend * np.arange(2, 6) * powers[:, :4], -1)
+    first = mesh.node_piece[:-1]
+
+    def along(a):  # sum of a over the earlier pieces of the same element
+        ex = excl(a)
+        return ex - ex[..., first][..., mesh.elem]
+
+    node = lambda dofs: d[:, dofs[:-1][mesh.elem], :].transpose(0, 2, 1)  # noqa: E731
+    t0 = node(mesh.th_right) + along(dth)
+    v0 = node(mesh.v_dof) + along(t0 * Le + np.sum(bend * powers[:, 1:], -1))
+    vc = np.concatenate([v0[..., None], t0[..., None], bend], -1)
     EIout = EIk
     if ratio is not None and not batched:
         # no springs: forces do not depend on EI, deflections scale with 1/EI

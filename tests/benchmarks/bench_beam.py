@@ -2,11 +2,15 @@
 
 beam_solve_ms          three spans, 20 loads, 10 combinations, full stations (target < 20 ms)
 beam_batch_10k_seconds respond() for 10,000 EI candidates of a beam on a spring (target < 1 s)
+beam_10k_loads_seconds  solve() of a two-span beam with 10,000 point loads (target < 0.5 s)
+beam_10k_loads_peak_mb  peak memory allocated by that solve (tracemalloc; linear in the loads)
+beam_100k_loads_seconds the same with 100,000 point loads (target: a few seconds)
 """
 
 from __future__ import annotations
 
 import time
+import tracemalloc
 
 import numpy as np
 
@@ -44,6 +48,24 @@ def _sprung():
                      self_weight="dead")
 
 
+def _many_loads(n):
+    rng = np.random.default_rng(2)
+    L = 12.0
+    loads = tuple(PointLoad("imposed", float(p), float(a))
+                  for p, a in zip(rng.uniform(10.0, 100.0, n), rng.uniform(0.0, L, n)))
+    return BeamModel(L, (Support(0, "pin"), Support(7.0, "roller"), Support(L, "roller")),
+                     (Stiffness(0, L, 2e7),), loads)
+
+
+def _peak_mb(fn):
+    tracemalloc.start()
+    try:
+        fn()
+        return tracemalloc.get_traced_memory()[1] / 2**20
+    finally:
+        tracemalloc.stop()
+
+
 def _best(fn, repeat):
     best = float("inf")
     for _ in range(repeat):
@@ -61,7 +83,14 @@ def run() -> dict[str, float]:
     EI = np.linspace(5e5, 5e7, 10_000)
     respond(sp, EI=EI[:10])
     batch = _best(lambda: respond(sp, EI=EI), 3)
-    return {"beam_solve_ms": solve_ms, "beam_batch_10k_seconds": batch}
+    many = _many_loads(10_000)
+    solve(many)
+    many_s = _best(lambda: solve(many), 3)
+    many_mb = _peak_mb(lambda: solve(many))
+    huge = _many_loads(100_000)
+    huge_s = _best(lambda: solve(huge), 1)
+    return {"beam_solve_ms": solve_ms, "beam_batch_10k_seconds": batch, "beam_10k_loads_seconds": many_s,
+            "beam_10k_loads_peak_mb": many_mb, "beam_100k_loads_seconds": huge_s}
 
 
 if __name__ == "__main__":
