@@ -110,6 +110,12 @@ def test_screen_matches_loop(job, cand):
     np.testing.assert_allclose(fast.M_min, ref.M_min, rtol=1e-9, atol=1e-9 * np.abs(ref.M_min).max() + 1e-6)
     np.testing.assert_allclose(fast.V_abs, ref.V_abs, rtol=1e-9, atol=1e-6)
     assert list(fast.passes) == list(ref.passes)
+    # the fields at any x (what buckling and point checks read) agree too
+    x = np.linspace(0.0, job.model.length, 7)
+    for name in ("M", "V", "v"):
+        a, b = fast.effects.sampler.at(name, x), ref.effects.sampler.at(name, x)
+        scale = np.abs(b).max() + 1e-30
+        np.testing.assert_allclose(a, b, rtol=1e-9, atol=1e-9 * scale, err_msg=name)
     df = pd.DataFrame({"mass_per_length": cand.mass_per_length, "depth": np.sqrt(cand.props["Sz_top"]),
                        "name": [f"c{i}" for i in range(cand.size)]})
     for objective in ("mass", "depth"):

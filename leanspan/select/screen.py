@@ -329,7 +329,74 @@ def screen_effects(model, cand: Candidates, self_weight_case=None) -> Effects:
                 ratio = np.where(upd, r, ratio)
                 out["v_abs"][:, ci] = np.where(upd, mag, out["v_abs"][:, ci])
                 out["v_allowed"][:, ci] = np.where(upd, allowed, out["v_allowed"][:, ci])
-    return Effects(**out, combinations=tuple(model.combinations))
+    names = [c.name for c in model.combinations]
+    parents = np.array([names.index(c.parent or c.name) for c in resp.combos], int)
+    sampler = FieldSampler(resp, parents, mass_g, None if not fixed else v_scale)
+    return Effects(**_by_parent(out, parents, len(names)), combinations=tuple(model.combinations),
+                   sampler=sampler, EI=np.asarray(cand.EI, float),
+                   mass_per_length=np.asarray(cand.mass_per_length, float), model=model)
+
+
+def _by_parent(out, parents, C):
+    """Effects of the concrete combinations (pattern members) reduced to their model combination:
+    the largest moments and shears, and each member's worst span where its ratio is the largest."""
+    K = next(iter(out.values())).shape[0]
+    red = {k: np.full((K, C), np.nan) for k in out}
+    for c in range(C):  # a small set
+        cols = np.flatnonzero(parents == c)
+        if cols.size == 1:
+            for k in out:
+                red[k][:, c] = out[k][:, cols[0]]
+            continue
+        with np.errstate(invalid="ignore"):
+            red["M_max"][:, c] = np.fmax.reduce(out["M_max"][:, cols], axis=1)
+            red["M_min"][:, c] = np.fmin.reduce(out["M_min"][:, cols], axis=1)
+            red["V_abs"][:, c] = np.fmax.reduce(out["V_abs"][:, cols], axis=1)
+            ratio = out["v_abs"][:, cols] / out["v_allowed"][:, cols]
+        j = np.argmax(np.where(np.isnan(ratio), -np.inf, ratio), axis=1)
+        rows = np.arange(K)
+        red["v_abs"][:, c] = out["v_abs"][:, cols][rows, j]
+        red["v_allowed"][:, c] = out["v_allowed"][:, cols][rows, j]
+    return red
+
+
+class FieldSampler:
+    """The combined fields of every candidate under every concrete combination, at any x.
+
+    ``at(name, x)`` gives an array (K, C_concrete, P) of ``"M"``, ``"V"`` or ``"v"`` at the
+    points ``x`` (P,); ``parents[c]`` is the model combination of concrete combination c
+    (pattern members share their parent). Checks that need more than the extremes
+    (buckling segments, point deflections) read the fields here, still vectorised.
+    """
+
+    def __init__(self, resp, parents, mass_g, v_scale=None):
+        self.resp, self.parents, self.mass_g, self.v_scale = resp, parents, mass_g, v_scale
+        self.F = np.array([np.asarray(c.factors, float) for c in resp.combos]).reshape(len(resp.combos), -1)
+
+    def at(self, name: str, x) -> np.ndarray:
+        r = self.resp
+        x = np.atleast_1d(np.asarray(x, float))
+        e = np.clip(np.searchsorted(r.x_nodes, x, side="right") - 1, 0, r.lengths.size - 1)
+        field = {"M": r.M, "V": r.V, "v": r.v}[name]
+        if name == "v" and self.v_scale is not None:  # unit-EI deflections, scaled per candidate below
+            field = r.v[:1] * r.EI[:1, None, :, None]
+        vals = _horner(field[:, :, e, :], (x - r.x_nodes[e])[None, None, :])  # (K|1, U, P)
+        sw = r.self_weight_index
+        F = self.F.copy()
+        t = self.mass_g[:, None] * (F[:, sw][None, :] if sw is not None else 0.0)  # (K, C)
+        if sw is not None:
+            F[:, sw] = 0.0
+        if vals.shape[0] == 1:
+            out = np.einsum("cu,up->cp", F, vals[0])[None] + (
+                t[:, :, None] * vals[0, sw][None, None, :] if sw is not None else 0.0)
+        else:
+            Fk = np.broadcast_to(F, (vals.shape[0],) + F.shape).copy()
+            if sw is not None:
+                Fk[:, :, sw] = t
+            out = np.einsum("kcu,kup->kcp", Fk, vals)
+        if name == "v" and self.v_scale is not None:
+            out = out * self.v_scale[:, None, None]
+        return np.broadcast_to(out, (self.mass_g.size,) + out.shape[1:])
 
 
 def screen_loop(model, cand: Candidates, self_weight_case=None) -> Screen:
@@ -340,10 +407,15 @@ def screen_loop(model, cand: Candidates, self_weight_case=None) -> Screen:
     sw_case = self_weight_case if self_weight_case is not None else model.self_weight
     K, C = cand.size, len(model.combinations)
     out = {k: np.full((K, C), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
+    samplers = []
+    names = [c.name for c in model.combinations]
     for k in range(K):
         m = beam_with_member(model, EI=cand.EI[k], mass_per_length=cand.mass_per_length[k],
                              self_weight=sw_case)
         sol = solve(m)
+        r = sol.response
+        samplers.append(FieldSampler(r, np.array([names.index(c.parent or c.name) for c in r.combos], int),
+                                     np.asarray(cand.mass_per_length[k:k + 1], float) * G))
         for ci, c in enumerate(m.combinations):
             r = sol.results[c.name]
             if c.check == "strength":
@@ -353,4 +425,17 @@ def screen_loop(model, cand: Candidates, self_weight_case=None) -> Screen:
             elif r.deflection_checks:
                 row = max(r.deflection_checks, key=lambda row: row["utilisation"])
                 out["v_abs"][k, ci], out["v_allowed"][k, ci] = abs(row["v_extreme"]), row["allowed"]
-    return evaluate(Effects(**out, combinations=tuple(model.combinations)), cand)
+    return evaluate(Effects(**out, combinations=tuple(model.combinations), sampler=_StackedSampler(samplers),
+                            EI=np.asarray(cand.EI, float), mass_per_length=np.asarray(cand.mass_per_length, float),
+                            model=model), cand)
+
+
+class _StackedSampler:
+    """One :class:`FieldSampler` per candidate (the reference path), read as one."""
+
+    def __init__(self, samplers):
+        self.samplers = samplers
+        self.parents = samplers[0].parents if samplers else np.zeros(0, int)
+
+    def at(self, name, x):
+        return np.concatenate([s.at(name, x) for s in self.samplers], axis=0)

@@ -59,12 +59,17 @@ class Effects:
     v_abs: np.ndarray
     v_allowed: np.ndarray
     combinations: tuple  # the model's Combination objects, in column order
+    sampler: object = None  # the fields at any x: leanspan.select.screen.FieldSampler
+    EI: np.ndarray | None = None  # the candidates' flexural stiffness (K,)
+    mass_per_length: np.ndarray | None = None  # (K,)
+    model: object = None  # the job's BeamModel
 
     def take(self, index) -> "Effects":
         """The effects of candidates ``index`` (keeps the (K, C) shape)."""
         index = np.atleast_1d(index)
+        pick = (lambda a: None if a is None else np.asarray(a)[index])  # noqa: E731
         return Effects(*(getattr(self, f)[index] for f in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")),
-                       self.combinations)
+                       self.combinations, None, pick(self.EI), pick(self.mass_per_length), self.model)
 
 
 @dataclass(frozen=True)
