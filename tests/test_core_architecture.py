@@ -174,3 +174,26 @@ at = 2000
     # C24: E0,mean = 11 kN/mm^2 (EN 338 Table 1); centre deflection P L^3 / (48 E I) (handbooks)
     EI = 11e9 * 0.1 * 0.2**3 / 12
     assert out["results"]["imposed"]["v_min"]["value"] == pytest.approx(-10e3 * 4.0**3 / (48 * EI), rel=1e-9)
+
+
+def test_an_inactive_check_adds_nothing(tmp_path, capsys):
+    """A check that the job does not ask for adds no column, key, row or cover."""
+    import dataclasses
+
+    lazy = dataclasses.replace(TOY, active=lambda limits: limits.get("plastic_stress") is not None)
+    job = tmp_path / "toy.toml"
+    job.write_text(JOB.replace('plastic_stress = "20 MPa"\n', ""), encoding="utf-8")
+    sheet = tmp_path / "toy.html"
+    with registered_check(lazy):
+        out = _json_select(capsys, job, sheet)
+        assert set(out["chosen"]["utilisation"]) == {"bending", "shear", "deflection"}
+        html = sheet.read_text(encoding="utf-8")
+        assert "plastic_bending" not in html and "local buckling of flanges" in html
+        job.write_text(JOB, encoding="utf-8")  # now asked for
+        out = _json_select(capsys, job, sheet)
+        assert "plastic_bending" in out["chosen"]["utilisation"]
+
+
+def _json_select(capsys, job, sheet):
+    assert main(["select", str(job), "--json", "--report", str(sheet)]) == 0
+    return json.loads(capsys.readouterr().out)

@@ -4,7 +4,6 @@ from __future__ import annotations
 
 from .. import CAUTION
 from ..fileio import atomic_write
-from ..select.checks import registered
 from ..units import display_factor, fmt, utilisation_text
 from .labels import generated_note
 from .text import aligned_table, csv_text, numeric_columns
@@ -21,7 +20,7 @@ def table_rows(sel, units: str = "si", top: int = 10):
     one utilisation column per registered check."""
     mu, mf = display_factor("mass/length", units)
     lu, lf = display_factor("length", units)
-    checks = registered()
+    checks = sel.result.checks
     labels = ["rank", "name", "material", f"mass [{mu}]", f"depth [{lu}]", f"width [{lu}]",
               *(c.label for c in checks), "governing", "pass"]
     rows = []

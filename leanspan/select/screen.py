@@ -26,7 +26,7 @@ import numpy as np
 
 from ..beam import G, respond, solve
 from ..beam.results import snap_round_off
-from .checks import Effects, registered
+from .checks import Effects, active_checks
 from .job import Limits
 from .member import beam_with_member
 
@@ -36,9 +36,9 @@ _SAMPLES = 12  # grid points per element before the Newton polish
 _BLOCK = 2048  # candidates per block (keeps the grid work in cache)
 
 
-def check_names() -> tuple:
-    """Names of the registered checks, in order (the utilisation keys)."""
-    return tuple(c.name for c in registered())
+def check_names(limits=None) -> tuple:
+    """Names of the checks the job's ``limits`` ask for, in order (the utilisation keys)."""
+    return tuple(c.name for c in active_checks(limits))
 
 
 @dataclass(frozen=True)
@@ -96,6 +96,7 @@ class Screen:
     utilisation: dict
     governing: np.ndarray
     passes: np.ndarray
+    checks: tuple = ()  # the Check entries applied, in order
 
     def _over(self, name, reduce):
         a = getattr(self.effects, name)
@@ -133,7 +134,7 @@ class Screen:
     def demands(self, k: int) -> dict:
         """The demands of candidate ``k`` (JSON ``demands``): the effects and each check's own."""
         out = {"M_max": float(self.M_max[k]), "M_min": float(self.M_min[k]), "V_abs": float(self.V_abs[k])}
-        for c in registered():
+        for c in self.checks:
             if c.name in self.demand:
                 v = float(self.demand[c.name][k])
                 out[c.demand_key] = None if np.isnan(v) else v
@@ -145,7 +146,8 @@ def evaluate(effects: Effects, cand: Candidates) -> Screen:
     K = cand.size
     demand, allow, combo, util = {}, {}, {}, {}
     rows = np.arange(K)
-    for check in registered():  # a small fixed set
+    checks = active_checks(cand.limits)
+    for check in checks:  # a small fixed set
         d = np.asarray(check.demand(effects, cand.props), float)
         a = np.broadcast_to(np.asarray(check.allowable(cand.props, cand.limits, effects), float), d.shape)
         with np.errstate(divide="ignore", invalid="ignore"):
@@ -164,7 +166,7 @@ def evaluate(effects: Effects, cand: Candidates) -> Screen:
     filled = np.where(np.isnan(stack), -np.inf, stack)
     governing = np.asarray(names, dtype=object)[np.argmax(filled, axis=1)]
     passes = np.all(np.isnan(stack) | (stack <= 1.0), axis=1)
-    return Screen(effects, demand, allow, combo, util, governing, passes)
+    return Screen(effects, demand, allow, combo, util, governing, passes, checks)
 
 
 def _grid(lengths):

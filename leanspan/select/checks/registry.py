@@ -26,7 +26,7 @@ import numpy as np
 
 from ...errors import SelectionError
 
-__all__ = ["Check", "Effects", "CheckRow", "register", "unregister", "registered", "get_check",
+__all__ = ["Check", "Effects", "CheckRow", "register", "unregister", "registered", "active_checks", "get_check",
            "registered_check", "not_checked", "NOT_CHECKED", "limit_keys"]
 
 #: What a sizing run may leave unchecked: topic -> the sentence on the sheet. A check that
@@ -123,6 +123,9 @@ class Check:
     limit_keys : dict
         ``[limits]`` keys this check reads -> their kind (``"pressure"``, ``"number"``,
         ``"text"``); parsed into ``Limits.extra``.
+    active : callable, optional
+        ``active(limits) -> bool``: whether the job asks for this check (default: always). An
+        inactive check adds no column, JSON key or sheet row, and covers nothing.
     action : callable, optional
         ``action(effects_row, combination_index) -> ((label, value, kind), ...)`` for the sheet.
     sheet_rows : callable, optional
@@ -140,6 +143,7 @@ class Check:
     sentence: str
     covers: tuple = ()
     limit_keys: dict = field(default_factory=dict)
+    active: Callable | None = None
     action: Callable | None = None
     sheet_rows: Callable | None = None
 
@@ -187,9 +191,16 @@ def get_check(name: str) -> Check:
     return _REGISTRY[name]
 
 
-def not_checked() -> list:
-    """The "not checked" sentences left after every registered check's ``covers``."""
-    covered = {t for c in _REGISTRY.values() for t in c.covers}
+def active_checks(limits=None) -> tuple:
+    """The registered checks the job's ``limits`` ask for, in order (all when ``limits`` is None)."""
+    return tuple(c for c in _REGISTRY.values() if c.active is None or limits is None or c.active(limits))
+
+
+def not_checked(checks=None) -> list:
+    """The "not checked" sentences left after the ``covers`` of ``checks`` (default: every
+    registered check that is always active)."""
+    checks = [c for c in _REGISTRY.values() if c.active is None] if checks is None else checks
+    covered = {t for c in checks for t in c.covers}
     return [text for topic, text in NOT_CHECKED.items() if topic not in covered]
 
 
