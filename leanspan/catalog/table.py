@@ -39,10 +39,10 @@ from pathlib import Path
 import numpy as np
 
 from .. import __version__
-from ..errors import CatalogError
+from ..errors import CatalogError, LeanspanError
 from ..fileio import atomic_write
 from ..sections.families import FAMILIES
-from ..sections.properties import KEYS, family_properties
+from ..sections.properties import KEYS, STABILITY_KEYS, family_properties, family_stability
 from .csvfile import column_factor
 from .materials import get_material, materials_table
 from .series import RENAMED, SERIES
@@ -74,11 +74,17 @@ def _block(series: str, family: str, dims: dict, names: list, materials) -> dict
         cols[k] = dims[k] if k in dims else np.full(n, np.nan)
     for k in _keys():
         cols[k] = np.asarray(props[k], float)
+    try:
+        stab = family_stability(family, dims, cols["yc"], cols["zc"])
+    except LeanspanError:  # a closed form that does not fit these walls: buckling checks refuse the row
+        stab = {k: np.full(n, np.nan) for k in STABILITY_KEYS}
+    for k in STABILITY_KEYS:
+        cols[k] = np.asarray(stab[k], float)
     return cols
 
 
 def _concat(blocks: list[dict]) -> dict:
-    keys = _TEXT_COLUMNS + DIM_KEYS + _keys()
+    keys = _TEXT_COLUMNS + DIM_KEYS + _keys() + STABILITY_KEYS
     return {k: np.concatenate([b[k] for b in blocks]) for k in keys}
 
 

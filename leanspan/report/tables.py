@@ -53,13 +53,27 @@ def _summary(sel, units):
 def ranked_table_text(sel, units: str = "si", top: int = 10) -> str:
     """Summary lines and an aligned table of the shown candidates (numeric columns to the right)."""
     labels, rows = table_rows(sel, units, top)
+    marked = _unrestrained(sel, top)
+    rows = [r[:-1] + [r[-1] + ("*" if m else "")] for r, m in zip(rows, marked)]
     out = _summary(sel, units) + ["", aligned_table(labels, rows, rule=True)]
     out.append("Utilisation = demand / limit, rounded up to 3 decimals; rows marked NO fail (the heaviest "
                "lighter sections that fail, closest to passing first; ranks count every candidate screened).")
+    if any(marked):
+        out.append("* assumes full lateral restraint: lateral-torsional buckling is not checked; set "
+                   "lateral_restraint = \"supports\" in [limits] to check it.")
     note = generated_note(c["series"] for c in sel.shown(top))
     if note:
         out.append(note)
     return "\n".join(out)
+
+
+def _unrestrained(sel, top):
+    """Which shown rows lean on full lateral restraint: open metal shapes and timber deeper than
+    twice its width (common practice), while the buckling check is off."""
+    if any(c.name == "lateral_torsional" for c in sel.result.checks):
+        return [False] * len(sel.shown_positions(top))
+    return [c["family"] in ("ibeam", "channel", "tee", "angle")
+            or (c["family"] == "rectangle" and c["depth"] > 2 * c["width"]) for c in sel.shown(top)]
 
 
 def ranked_table_markdown(sel, units: str = "si", top: int = 10) -> str:

@@ -21,7 +21,8 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["Edges", "edges_from_rings", "moments", "area_above", "width_at", "swap_axes", "bounds"]
+__all__ = ["Edges", "edges_from_rings", "moments", "third_moments", "area_above", "width_at", "swap_axes",
+           "bounds"]
 
 
 class Edges:
@@ -114,6 +115,30 @@ def moments(e: Edges, origin=None) -> dict[str, np.ndarray]:
         "Syy": (cross * (y0 * y0 + y0 * y1 + y1 * y1)).sum(axis=1) / 12.0,
         "Szz": (cross * (z0 * z0 + z0 * z1 + z1 * z1)).sum(axis=1) / 12.0,
         "Syz": (cross * (z0 * y1 + 2.0 * z0 * y0 + 2.0 * z1 * y1 + z1 * y0)).sum(axis=1) / 24.0,
+    }
+
+
+def third_moments(e: Edges, origin=None) -> dict[str, np.ndarray]:
+    """Third moments ``Syyy`` = ∫y³ dA and ``Syzz`` = ∫y z² dA about axes through ``origin``.
+
+    The general polygon-moment formula (Green's theorem, each edge's term a polynomial in its
+    end points; e.g. C. Steger, "On the calculation of arbitrary moments of polygons", 1996).
+    They give the Wagner term of mono-symmetric sections, ``∫y (y² + z²) dA``.
+
+    >>> ring = np.array([[[0.0, 0.0], [2.0, 0.0], [0.0, 3.0]]])   # right triangle, legs 2 and 3
+    >>> t = third_moments(edges_from_rings([ring]))
+    >>> round(float(t["Syyy"][0]), 9), round(float(t["Syzz"][0]), 9)  # b h^4 / 20, b^3 h^2 / 60
+    (8.1, 1.2)
+    """
+    z0, y0, z1, y1 = e
+    if origin is not None:
+        oz, oy = (np.asarray(o, float)[:, None] for o in origin)
+        z0, z1, y0, y1 = z0 - oz, z1 - oz, y0 - oy, y1 - oy
+    cross = z0 * y1 - z1 * y0
+    return {
+        "Syyy": (cross * (y0 + y1) * (y0 * y0 + y1 * y1)).sum(axis=1) / 20.0,
+        "Syzz": (cross * (3.0 * z0 * z0 * y0 + z0 * z0 * y1 + 2.0 * z0 * z1 * (y0 + y1) + z1 * z1 * y0
+                          + 3.0 * z1 * z1 * y1)).sum(axis=1) / 60.0,
     }
 
 

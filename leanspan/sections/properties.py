@@ -24,9 +24,10 @@ import numpy as np
 
 from ..errors import GeometryError
 from .families import get_family
-from .geometry import Edges, bounds, edges_from_rings, moments, swap_axes
+from .geometry import Edges, bounds, edges_from_rings, moments, swap_axes, third_moments
+from .thin_walled import shear_centre_height, thin_walled_torsion
 
-__all__ = ["properties", "family_properties", "KEYS", "elastic_properties"]
+__all__ = ["properties", "family_properties", "family_stability", "KEYS", "STABILITY_KEYS", "elastic_properties"]
 
 KEYS = ("A yc zc Iz Iy Iyz I1 I2 theta Sz_top Sz_bot Sy_left Sy_right Zz Zy rz ry "
         "depth width shear_factor").split()
@@ -289,6 +290,34 @@ def family_properties(family: str, dims: dict, private: bool = False) -> dict[st
     chunks = [properties(edges_from_family(fam, {k: v[s:s + _CHUNK] for k, v in dims.items()}), private, s)
               for s in range(0, n, _CHUNK)]
     return {k: np.concatenate([c[k] for c in chunks]) for k in chunks[0]}
+
+
+#: What lateral-torsional buckling needs beyond :data:`KEYS`: the torsion constant ``J``, the
+#: warping constant ``Cw`` (closed forms), the shear centre's height above the base ``ys`` and
+#: the Wagner integral ``wagner`` = ∫y (y² + z²) dA about the centroid (zero for a section
+#: symmetric about its horizontal axis).
+STABILITY_KEYS = ("J", "Cw", "ys", "wagner")
+
+
+def family_stability(family: str, dims: dict, yc, zc) -> dict[str, np.ndarray]:
+    """:data:`STABILITY_KEYS` of N sections of one family (centroid ``yc``, ``zc`` given), SI.
+
+    >>> import numpy as np
+    >>> out = family_stability("rectangle", {"b": np.array([0.1]), "d": np.array([0.2])},
+    ...                        np.array([0.1]), np.array([0.0]))
+    >>> round(float(out["ys"][0]), 12), abs(float(out["wagner"][0])) < 1e-15
+    (0.1, True)
+    """
+    fam = get_family(family)
+    dims = fam.complete(dims)
+    tw = thin_walled_torsion(family, dims)
+    n = len(next(iter(dims.values())))
+    wagner = np.empty(n)
+    for s in range(0, n, _CHUNK):  # chunks keep the polygons small
+        e = edges_from_family(fam, {k: v[s:s + _CHUNK] for k, v in dims.items()})
+        t = third_moments(e, (np.asarray(zc[s:s + _CHUNK], float), np.asarray(yc[s:s + _CHUNK], float)))
+        wagner[s:s + _CHUNK] = t["Syyy"] + t["Syzz"]
+    return {"J": tw["J"], "Cw": tw["Cw"], "ys": shear_centre_height(family, dims), "wagner": wagner}
 
 
 def edges_from_family(fam, dims) -> Edges:

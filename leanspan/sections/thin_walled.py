@@ -37,7 +37,7 @@ import numpy as np
 
 from ..errors import CatalogError, GeometryError
 
-__all__ = ["thin_walled_torsion", "FAMILY_DIMENSIONS"]
+__all__ = ["thin_walled_torsion", "shear_centre_height", "FAMILY_DIMENSIONS"]
 
 #: Required and optional dimension keys of each family.
 FAMILY_DIMENSIONS = {
@@ -228,3 +228,34 @@ def thin_walled_torsion(family: str, dims: dict) -> dict:
         _require(family, (t < d) & (t < b), "t smaller than both legs", dims)
         J, Cw = _angle(d, b, t, r)
     return {"J": np.asarray(J, float), "Cw": np.asarray(Cw, float)}
+
+
+def shear_centre_height(family: str, dims: dict) -> np.ndarray:
+    """Height of the shear centre above the base (bottom of the bounding box), thin-walled theory.
+
+    - ibeam: on the web, between the flanges' mid-planes in the ratio of the flanges' own
+      second moments about the web: ``tf_bot/2 + h_s I_top / (I_top + I_bot)`` with
+      ``h_s = d - (tf_top + tf_bot) / 2`` (thin-walled open sections, e.g. Timoshenko & Gere,
+      Theory of Elastic Stability, ch. 6; from memory);
+    - tee (flange on top): where the flange and web mid-lines meet, ``d - tf/2``;
+    - angle: where the legs' mid-lines meet, ``t/2`` (the horizontal leg at the base);
+    - channel (symmetric about its horizontal axis), rectangle, circle, tube, box: mid-height.
+
+    >>> import numpy as np
+    >>> float(shear_centre_height("ibeam", {"d": np.array([0.3]), "b": np.array([0.15]),
+    ...                                     "tw": np.array([0.007]), "tf": np.array([0.01])})[0])
+    0.15
+    """
+    v = _check(family, dims)
+    d = v.get("d", v.get("b"))
+    if family == "ibeam":
+        b, tf = v["b"], v["tf"]
+        bt, tft = v.get("b_top", b), v.get("tf_top", tf)
+        bb, tfb = v.get("b_bot", b), v.get("tf_bot", tf)
+        It, Ib = tft * bt**3, tfb * bb**3  # the common factor 1/12 cancels
+        return np.asarray(tfb / 2 + (d - (tft + tfb) / 2) * It / (It + Ib), float)
+    if family == "tee":
+        return np.asarray(d - v["tf"] / 2, float)
+    if family == "angle":
+        return np.asarray(v["t"] / 2 + 0 * d, float)
+    return np.asarray(d / 2, float)

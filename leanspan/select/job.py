@@ -249,6 +249,11 @@ def _limit_value(value, kind, field, units):
         if not isinstance(value, str):
             raise SelectionError(f"{field}: expected a text value, got {value!r}")
         return value
+    if kind == "lengths":
+        if not isinstance(value, list):
+            raise SelectionError(f"{field}: expected a list of positions such as [\"1.6 m\", \"3.2 m\"], "
+                                 f"got {value!r}")
+        return tuple(parse(v, "length", f"{field}[{i + 1}]", units) for i, v in enumerate(value))
     return parse(value, kind, field, units)
 
 

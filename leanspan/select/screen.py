@@ -20,6 +20,7 @@ registered check (:mod:`leanspan.select.checks`) to them.
 
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -147,6 +148,7 @@ def evaluate(effects: Effects, cand: Candidates) -> Screen:
     demand, allow, combo, util = {}, {}, {}, {}
     rows = np.arange(K)
     checks = active_checks(cand.limits)
+    effects = dataclasses.replace(effects, limits=cand.limits)
     for check in checks:  # a small fixed set
         d = np.asarray(check.demand(effects, cand.props), float)
         a = np.broadcast_to(np.asarray(check.allowable(cand.props, cand.limits, effects), float), d.shape)
@@ -375,6 +377,54 @@ class FieldSampler:
         self.resp, self.parents, self.mass_g, self.v_scale = resp, parents, mass_g, v_scale
         self.F = np.array([np.asarray(c.factors, float) for c in resp.combos]).reshape(len(resp.combos), -1)
 
+    def _combined(self, name, elems):
+        """Coefficients (K, C_concrete, len(elems), n) of the combined field on elements ``elems``."""
+        r = self.resp
+        field = {"M": r.M, "V": r.V}[name][:, :, elems, :]
+        sw = r.self_weight_index
+        F = self.F.copy()
+        t = self.mass_g[:, None] * (F[:, sw][None, :] if sw is not None else 0.0)  # (K, C)
+        if sw is not None:
+            F[:, sw] = 0.0
+        if field.shape[0] == 1:
+            out = np.einsum("cu,uen->cen", F, field[0])[None]
+            if sw is not None:
+                out = out + t[:, :, None, None] * field[0, sw][None, None]
+        else:
+            Fk = np.broadcast_to(F, (field.shape[0],) + F.shape).copy()
+            if sw is not None:
+                Fk[:, :, sw] = t
+            out = np.einsum("kcu,kuen->kcen", Fk, field)
+        return np.broadcast_to(out, (self.mass_g.size,) + out.shape[1:])
+
+    def peak(self, name: str, a: float, b: float) -> np.ndarray:
+        """The signed value of largest magnitude of ``"M"`` or ``"V"`` on [a, b], exact: the cubic
+        (or quadratic) of every element at the interval ends and at the roots of its derivative.
+        Returns (K, C_concrete)."""
+        r = self.resp
+        x0, x1 = r.x_nodes[:-1], r.x_nodes[1:]
+        elems = np.flatnonzero((x0 < b) & (x1 > a))
+        coef = self._combined(name, elems)  # (K, C, E', n)
+        lo = np.maximum(a, x0[elems]) - x0[elems]
+        hi = np.minimum(b, x1[elems]) - x0[elems]
+        n = coef.shape[-1]
+        c1 = coef[..., 1]
+        c2 = 2.0 * coef[..., 2] if n > 2 else np.zeros_like(c1)
+        c3 = 3.0 * coef[..., 3] if n > 3 else np.zeros_like(c1)
+        disc = c2 * c2 - 4.0 * c3 * c1
+        root = np.sqrt(np.maximum(disc, 0.0))
+        q = -0.5 * (c2 + np.where(c2 >= 0, root, -root))
+        with np.errstate(divide="ignore", invalid="ignore"):
+            r1 = np.where(c3 != 0, q / c3, np.nan)
+            r2 = np.where(q != 0, c1 / q, np.nan)
+        pts = [np.broadcast_to(lo, c1.shape), np.broadcast_to(hi, c1.shape)]
+        for rt in (r1, r2):
+            pts.append(np.where((disc >= 0) & (rt > lo) & (rt < hi), rt, lo))
+        s = np.stack(pts, axis=-1)  # (K, C, E', 4)
+        vals = _horner(coef[..., None, :], s).reshape(coef.shape[0], coef.shape[1], -1)
+        j = np.argmax(np.abs(vals), axis=2)[..., None]
+        return np.take_along_axis(vals, j, axis=2)[..., 0]
+
     def at(self, name: str, x) -> np.ndarray:
         r = self.resp
         x = np.atleast_1d(np.asarray(x, float))
@@ -438,6 +488,10 @@ class _StackedSampler:
     def __init__(self, samplers):
         self.samplers = samplers
         self.parents = samplers[0].parents if samplers else np.zeros(0, int)
+        self.resp = samplers[0].resp if samplers else None  # the combinations are the same for all
 
     def at(self, name, x):
         return np.concatenate([s.at(name, x) for s in self.samplers], axis=0)
+
+    def peak(self, name, a, b):
+        return np.concatenate([s.peak(name, a, b) for s in self.samplers], axis=0)

@@ -6,7 +6,7 @@ deflection. See :mod:`.registry` for how to add one.
 
 from .registry import (NOT_CHECKED, Check, CheckRow, Effects, active_checks, get_check, limit_keys, not_checked,
                        register, registered, registered_check, unregister)
-from . import bending, shear, deflection  # noqa: E402,F401  (each registers itself)
+from . import bending, shear, deflection, lateral_torsional  # noqa: E402,F401  (each registers itself)
 
 __all__ = ["Check", "CheckRow", "Effects", "NOT_CHECKED", "register", "unregister", "registered", "active_checks",
            "registered_check", "get_check", "not_checked", "limit_keys"]

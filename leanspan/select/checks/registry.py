@@ -63,6 +63,7 @@ class Effects:
     EI: np.ndarray | None = None  # the candidates' flexural stiffness (K,)
     mass_per_length: np.ndarray | None = None  # (K,)
     model: object = None  # the job's BeamModel
+    limits: object = None  # the job's Limits (set by the screen before the checks run)
 
     def take(self, index) -> "Effects":
         """The effects of candidates ``index`` (keeps the (K, C) shape)."""

@@ -1,0 +1,223 @@
+"""Lateral-torsional buckling: the moment of every segment between lateral restraints against
+the buckling-reduced bending resistance, for every candidate and strength combination.
+
+Active when the job's ``[limits]`` sets ``lateral_restraint`` (``"supports"``: lateral and
+torsional restraint at the supports only; ``"continuous"``: restrained all along, nothing to
+check), optionally ``lateral_restraint_at`` (more restraint positions), ``load_height``
+(``"top"``, default, ``"centroid"`` or ``"bottom"``: where gravity loads act),
+``overhang_length_factor`` (effective length of a cantilever or overhang segment / its
+length, default 2.0, common practice for a tip free to twist and move sideways),
+``lateral_torsional_method`` (``"curve"``, default, or ``"ratio"``) with
+``max_moment_ratio`` (M / Mcr allowed, for ``"ratio"``).
+
+**Elastic critical moment** per segment of length L (the three-factor form for doubly and
+mono-symmetric sections, Timoshenko & Gere, *Theory of Elastic Stability*, ch. 6, in the form
+of the European guidance on Mcr, from memory)::
+
+    Mcr = C1 pi^2 E Iy / (k L)^2 { sqrt(Cw / Iy + (k L)^2 G J / (pi^2 E Iy) + (C2 zg - C3 zj)^2)
+                                   - (C2 zg - C3 zj) }
+
+with Iy the minor-axis second moment (about the vertical axis), J, Cw the torsion and warping
+constants, zg the height of the load above the shear centre and zj the mono-symmetry
+parameter ``(ys - yc) - wagner / (2 Iz)``, both measured towards the compressed flange
+(they change sign where the moment hogs). C1 comes from the segment's own moment diagram by
+the quarter-point formula ``12.5 Mmax / (2.5 Mmax + 3 MA + 4 MB + 3 MC)`` (capped at 3; ANSI/AISC
+360 Eq. F1-1, from memory); C2 and C3 from the segment's loading: 0.454 and 0.525 under a
+distributed load, 0.630 and 0.411 with a point load inside it, 0 and 1.0 under end moments
+alone (the tabulated values for those diagrams, from memory). Cantilever segments take C1 = 1.
+
+**Resistance.** ``"curve"``: the general method of EN 1993-1-1 6.3.2.2 (from memory) with the
+relative slenderness ``lam = sqrt(S fy / Mcr)`` (S the smaller elastic modulus, fy the
+material's bending strength), ``Phi = 0.5 (1 + alpha (lam - lam0) + lam^2)``,
+``chi = 1 / (Phi + sqrt(Phi^2 - lam^2)) <= 1``: steel alpha 0.21 (curve a, rolled I with
+d/b <= 2), 0.34 (b, rolled, d/b > 2), 0.49 (c, welded, d/b <= 2), 0.76 (d, welded d/b > 2 and
+other shapes), lam0 = 0.2 (EN 1993-1-1 Tables 6.3 and 6.4); stainless alpha 0.76, lam0 0.4
+(EN 1993-1-4 6.3.4); aluminium alpha 0.20, lam0 0.4 (EN 1999-1-1 6.3.2.2, elastic sections);
+timber and glulam by kcrit of EN 1995-1-1 6.3.3 (lam = sqrt(fm / sigma_crit); kcrit 1 up to
+0.75, 1.56 - 0.75 lam up to 1.4, 1 / lam^2 beyond), with E and G at their 5 % fractiles taken as
+0.67 (solid timber, EN 338) and 0.83 (glulam, EN 14080) of the mean values (from memory).
+``"ratio"``: chi = max_moment_ratio Mcr / (S f), at most 1. The demand is the segment moment as
+a stress, M / (chi S), against the same allowable bending stress as the bending check.
+Sections with tilted principal axes (angles) cannot be checked this way and fail it.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ...errors import SelectionError
+from .registry import Check, register
+
+__all__ = ["LATERAL_TORSIONAL", "critical_moment", "reduction_factor", "moment_factor"]
+
+_SAMPLES = 5  # the ends and quarter points of a segment, for C1
+_CURVES = {"a": 0.21, "b": 0.34, "c": 0.49, "d": 0.76}
+_ROLLED = ("gen_steel_i", "gen_steel_h")
+_FRACTILE = {"timber": 0.67, "glulam": 0.83}
+
+
+def critical_moment(E, G, Iy, J, Cw, L, C1=1.0, C2=0.0, C3=1.0, zg=0.0, zj=0.0, k=1.0):
+    """Elastic critical moment of a segment (SI), the three-factor form; arrays broadcast.
+
+    >>> import math
+    >>> E, G, Iy, J, Cw, L = 210e9, 81e9, 6.04e-6, 2.0e-7, 1.26e-7, 6.0
+    >>> uniform = math.pi / L * math.sqrt(E * Iy * G * J * (1 + math.pi**2 * E * Cw / (G * J * L**2)))
+    >>> round(float(critical_moment(E, G, Iy, J, Cw, L)) / uniform, 12)   # uniform moment, closed form
+    1.0
+    """
+    a = C2 * np.asarray(zg, float) - C3 * np.asarray(zj, float)
+    kL2 = (k * np.asarray(L, float)) ** 2
+    with np.errstate(divide="ignore", invalid="ignore"):
+        root = np.sqrt(Cw / Iy + kL2 * G * J / (np.pi**2 * E * Iy) + a * a)
+        return C1 * np.pi**2 * E * Iy / kL2 * (root - a)
+
+
+def moment_factor(Mmax, MA, MB, MC):
+    """C1 from the quarter-point moments of a segment (magnitudes), capped at 3.
+
+    >>> float(moment_factor(1.0, 0.75, 1.0, 0.75))   # a parabola, simply supported under a UDL
+    1.1363636363636365
+    """
+    with np.errstate(divide="ignore", invalid="ignore"):
+        c = 12.5 * Mmax / (2.5 * Mmax + 3.0 * MA + 4.0 * MB + 3.0 * MC)
+    return np.where(Mmax > 0, np.minimum(c, 3.0), 1.0)
+
+
+def reduction_factor(lam, alpha, lam0):
+    """chi of the general buckling-curve method, at most 1.
+
+    >>> f"{float(reduction_factor(1.0, 0.34, 0.2)):.4f}"   # curve b at lam = 1
+    '0.5970'
+    """
+    phi = 0.5 * (1.0 + alpha * (lam - lam0) + lam * lam)
+    with np.errstate(invalid="ignore"):
+        return np.minimum(1.0, 1.0 / (phi + np.sqrt(np.maximum(phi * phi - lam * lam, 0.0))))
+
+
+def _kcrit(lam):
+    """EN 1995-1-1 eq. (6.34) (from memory)."""
+    with np.errstate(divide="ignore"):
+        return np.where(lam <= 0.75, 1.0, np.where(lam <= 1.4, 1.56 - 0.75 * lam, 1.0 / (lam * lam)))
+
+
+_CHOICES = {"lateral_restraint": ("supports", "continuous"), "load_height": ("top", "centroid", "bottom"),
+            "lateral_torsional_method": ("curve", "ratio")}
+
+
+def _active(limits):
+    for key, choices in _CHOICES.items():
+        value = limits.get(key)
+        if value is not None and value not in choices:
+            raise SelectionError(f"limits.{key}: expected {' or '.join(repr(c) for c in choices)}, got {value!r}")
+    for key in ("overhang_length_factor", "max_moment_ratio"):
+        value = limits.get(key)
+        if value is not None and not value > 0:
+            raise SelectionError(f"limits.{key}: expected a positive number, got {value!r}")
+    return limits.get("lateral_restraint") == "supports"
+
+
+def _segments(model, limits):
+    """(start, end, cantilever) of the segments between lateral restraints."""
+    L = model.length
+    at = [s.at for s in model.supports]
+    extra = limits.get("lateral_restraint_at") or ()
+    for x in extra:
+        if not 0.0 <= x <= L:
+            raise SelectionError(f"limits.lateral_restraint_at: {x:g} m is off the beam (0 to {L:g} m)")
+    points = sorted(set(at) | set(extra))
+    segs = [(a, b, False) for a, b in zip(points[:-1], points[1:]) if b - a > 1e-9 * L]
+    if points[0] > 1e-9 * L:  # an overhang beyond the last restraint: its tip is free
+        segs.insert(0, (0.0, points[0], True))
+    if points[-1] < L * (1 - 1e-9):
+        segs.append((points[-1], L, True))
+    return segs
+
+
+def _loading(model, a, b):
+    """C2, C3 of a segment from the loads on it (self-weight counts as distributed)."""
+    inside = lambda x: a + 1e-9 < x < b - 1e-9  # noqa: E731
+    if any(hasattr(ld, "P") and inside(ld.at) for ld in model.loads):
+        return 0.630, 0.411
+    if model.self_weight or any(hasattr(ld, "w1") and ld.start < b and ld.end > a for ld in model.loads):
+        return 0.454, 0.525
+    return 0.0, 1.0
+
+
+def _resistance_factor(Mcr, props, limits):
+    """chi (K, ...) per candidate from Mcr (K, ...) by the material's method."""
+    S = np.minimum(props["Sz_top"], props["Sz_bot"])[:, None, None]
+    f = np.asarray(props["strength_bending"], float)[:, None, None]
+    with np.errstate(divide="ignore", invalid="ignore"):
+        if limits.get("lateral_torsional_method", "curve") == "ratio":
+            r = limits.get("max_moment_ratio", 1.0)
+            return np.minimum(1.0, r * Mcr / (S * limits.bending_allowable(f)))
+        lam = np.sqrt(S * f / Mcr)
+    kind = np.asarray(props["kind"]).astype(str)[:, None, None]
+    h_b = (props["depth"] / props["width"])[:, None, None]
+    rolled = np.isin(np.asarray(props["series"]).astype(str), _ROLLED)[:, None, None]
+    is_i = np.asarray(props["family"]).astype(str)[:, None, None] == "ibeam"
+    alpha = np.where(is_i & rolled, np.where(h_b <= 2, 0.21, 0.34),
+                     np.where(is_i, np.where(h_b <= 2, 0.49, 0.76), 0.76))
+    chi = reduction_factor(lam, alpha, 0.2)
+    chi = np.where(kind == "stainless", reduction_factor(lam, 0.76, 0.4), chi)
+    chi = np.where(kind == "aluminium", reduction_factor(lam, 0.20, 0.4), chi)
+    return np.where(np.isin(kind, ("timber", "glulam")), _kcrit(lam), chi)
+
+
+def _demand(eff, props):
+    limits, model, sampler = eff.limits, eff.model, eff.sampler
+    K, C = eff.M_max.shape
+    strength = np.array([c.check == "strength" for c in sampler.resp.combos])
+    fractile = np.array([_FRACTILE.get(k, 1.0) for k in np.asarray(props["kind"]).astype(str)])
+    E, G = props["E"] * fractile, props["G"] * fractile
+    Iy, Iz, J, Cw = props["Iy"], props["Iz"], props["J"], props["Cw"]
+    ys, yc, depth = props["ys"], props["yc"], props["depth"]
+    y_load = {"top": depth, "centroid": yc, "bottom": np.zeros_like(depth)}[limits.get("load_height", "top")]
+    zj_up = (ys - yc) - props["wagner"] / (2.0 * Iz)  # mono-symmetry, measured upwards
+    S = np.minimum(props["Sz_top"], props["Sz_bot"])
+    k_over = limits.get("overhang_length_factor", 2.0)
+    worst = np.full((K, len(strength)), -np.inf)
+    for a, b, cantilever in _segments(model, limits):  # a small set
+        x = np.linspace(a, b, _SAMPLES)
+        M = sampler.at("M", x)  # (K, Cc, P): the quarter points for C1
+        Mpk = sampler.peak("M", a, b)  # the exact extreme on the segment
+        up = np.where(Mpk >= 0, 1.0, -1.0)  # sagging: the top flange is compressed
+        C1 = 1.0 if cantilever else moment_factor(np.abs(Mpk), *(np.abs(M[..., j]) for j in (1, 2, 3)))
+        C2, C3 = _loading(model, a, b)
+        Mcr = critical_moment(E[:, None], G[:, None], Iy[:, None], J[:, None], Cw[:, None], b - a, C1, C2, C3,
+                              zg=up * (y_load - ys)[:, None], zj=up * zj_up[:, None],
+                              k=k_over if cantilever else 1.0)
+        chi = _resistance_factor(Mcr[..., None], props, limits)[..., 0]
+        with np.errstate(divide="ignore", invalid="ignore"):
+            d = np.abs(Mpk) / (chi * S[:, None])
+        worst = np.fmax(worst, np.where(np.isnan(d), np.inf, d))
+    tilted = ~np.isclose(np.abs(np.sin(np.radians(2 * props["theta"]))), 0.0, atol=1e-9)
+    worst = np.where(tilted[:, None], np.inf, worst)  # principal axes tilted: not checkable here
+    worst = np.where(strength[None, :], worst, np.nan)
+    out = np.full((K, C), np.nan)
+    for c in range(C):  # reduce pattern members to their combination
+        cols = np.flatnonzero(sampler.parents == c)
+        if cols.size:
+            out[:, c] = np.fmax.reduce(worst[:, cols], axis=1)
+    return out
+
+
+def _allowable(props, limits, eff):
+    return limits.bending_allowable(props["strength_bending"])[:, None]
+
+
+LATERAL_TORSIONAL = register(Check(
+    name="lateral_torsional", label="buckling",
+    columns=("E", "G", "Iy", "Iz", "J", "Cw", "ys", "yc", "wagner", "depth", "width", "theta", "Sz_top",
+             "Sz_bot", "strength_bending", "kind", "series", "family"),
+    demand=_demand, allowable=_allowable, kind="pressure", demand_key="sigma_lt",
+    sentence="Lateral-torsional buckling: the largest moment of each segment between lateral "
+             "restraints as a stress, M / (χ Sz), against the bending stress limit; χ from the "
+             "elastic critical moment Mcr of the segment (three-factor form, C1 from its moment "
+             "diagram) by the material's buckling curve (steel EN 1993-1-1 6.3.2.2, timber "
+             "kcrit of EN 1995-1-1 6.3.3).",
+    covers=("lateral_torsional_buckling",),
+    limit_keys={"lateral_restraint": "text", "lateral_restraint_at": "lengths", "load_height": "text",
+                "overhang_length_factor": "number", "lateral_torsional_method": "text",
+                "max_moment_ratio": "number"},
+    active=_active))
