@@ -326,7 +326,11 @@ def utilisation_text(u) -> str:
 
     >>> utilisation_text(1.0003), utilisation_text(0.9335), utilisation_text(1.0), utilisation_text(None)
     ('1.001', '0.934', '1.000', '-')
+    >>> utilisation_text(float("inf"))   # a check the section cannot pass (it cannot be made for it)
+    'inf'
     """
     if u is None:
         return "-"
+    if math.isinf(float(u)):
+        return "inf"
     return f"{math.ceil(round(float(u) * 1000.0, 6)) / 1000.0:.3f}"

@@ -241,3 +241,16 @@ def test_vectorised_equals_the_per_candidate_loop():
     assert np.all(np.isfinite(a))
     np.testing.assert_allclose(a, b, rtol=1e-9)
     assert np.all(a >= fast.utilisation["bending"] * (1 - 1e-12))
+
+
+def test_an_angle_fails_the_check_without_a_crash(tmp_path, capsys):
+    """Tilted principal axes: the check cannot be made, so the angle fails it (printed inf)."""
+    csv = tmp_path / "list.csv"
+    csv.write_text("family,d,b,t,tw,tf\nangle,80,80,8,,\nibeam,200,100,,5.6,8.5\n", encoding="utf-8")
+    job = tmp_path / "j.toml"
+    job.write_text(JOB.format(L=2.0, M=1.0, restraint="supports", extra="").replace(
+        'families = ["gen_steel_i"]', 'catalog = "list.csv"\nmaterials = ["S355"]'), encoding="utf-8")
+    assert main(["select", str(job), "--top", "5"]) == 0
+    out = capsys.readouterr().out
+    line = next(ln for ln in out.splitlines() if "angle" in ln)
+    assert " inf " in line and line.rstrip().endswith("NO")

@@ -320,7 +320,7 @@ def catalog_table(series=None, families=None, materials=None, user_csv=None, max
         for name in materials:  # a small set of materials
             m = get_material(name, mats)
             accepts = {s: m.kind in SERIES[s].kinds for s in SERIES}
-            ok = df["series"].map(accepts).fillna(False).to_numpy(bool)
+            ok = np.isin(df["series"].to_numpy(), [s for s, yes in accepts.items() if yes])
             user = (df["series"] == "user").to_numpy()
             if user.any():  # user rows pair with materials of their own material's kind
                 own = {x: mats[x].kind == m.kind for x in df["material"][user].unique()}
