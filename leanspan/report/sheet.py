@@ -24,7 +24,7 @@ from pathlib import Path
 
 from .. import CAUTION, __version__
 from ..errors import InputError
-from ..select.checks import not_checked, registered
+from ..select.checks import active_checks, not_checked
 from ..select.chosen import check_rows
 from ..units import display_factor, fmt
 from ..units import utilisation_text as _util
@@ -329,7 +329,7 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
     crow, cls = _check_rows(sel, chosen, units)
     ctable = table(["check / combination", "action", "demand", "limit", "utilisation", "", "result"],
                    crow, cls="checks", row_classes=cls)
-    how = " ".join(esc(c.sentence) for c in registered())
+    how = " ".join(esc(c.sentence) for c in active_checks(job.limits))
     note = ("<p class=\"small\">Utilisation = demand / limit, printed rounded up to 3 decimals (the bar's "
             "black mark is 1.0); each check "
             f"is shown at its governing combination. Stress limits: {esc(job.limits.describe(units))} "
@@ -339,7 +339,7 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
     labels, trows = table_rows(sel, units, top)
     shown = sel.shown(top)
     numeric = {0: "rank", 3: "mass_per_length", 4: "depth", 5: "width",
-               **{6 + i: c.name for i, c in enumerate(registered())}}
+               **{6 + i: c.name for i, c in enumerate(active_checks(job.limits))}}
     cells, rcls = [], []
     for c, r in zip(shown, trows):
         cells.append([num(v, f"rank{c['rank']}.{numeric[i]}") if i in numeric else v for i, v in enumerate(r)])
@@ -362,8 +362,8 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
         "for the material, load duration and service class is the user's responsibility.",
         "Section properties are gross-section values from the catalogue dimensions.",
     ]
-    parts.append(section("Assumptions and what is not checked", _closing(assumptions) + _footer(source),
-                         anchor="assumptions"))
+    parts.append(section("Assumptions and what is not checked",
+                         _closing(assumptions, not_checked(job.limits)) + _footer(source), anchor="assumptions"))
     return page(f"{title} — leanspan calculation sheet", "\n".join(parts))
 
 

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from .. import CAUTION
 from ..fileio import atomic_write
-from ..select.checks import registered
+from ..select.checks import active_checks
 from ..units import display_factor, fmt, utilisation_text
 from .labels import generated_note
 from .text import aligned_table, csv_text, numeric_columns
@@ -13,7 +13,7 @@ __all__ = ["utilisation_text", "table_rows", "ranked_table_text", "ranked_table_
            "write_table_exports", "HEADERS"]
 
 HEADERS = ["rank", "name", "material", "mass", "depth", "width", "governing", "pass"]
-"""The fixed columns; one column per registered check stands between width and governing."""
+"""The fixed columns; one column per active check stands between width and governing."""
 
 
 def table_rows(sel, units: str = "si", top: int = 10):
@@ -21,7 +21,7 @@ def table_rows(sel, units: str = "si", top: int = 10):
     one utilisation column per registered check."""
     mu, mf = display_factor("mass/length", units)
     lu, lf = display_factor("length", units)
-    checks = registered()
+    checks = active_checks(sel.job.limits)
     labels = ["rank", "name", "material", f"mass [{mu}]", f"depth [{lu}]", f"width [{lu}]",
               *(c.label for c in checks), "governing", "pass"]
     rows = []

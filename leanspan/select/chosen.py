@@ -14,7 +14,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..beam import solve
-from .checks import CheckRow, registered
+from .checks import CheckRow, active_checks
 from .member import Member, beam_with_member, member_from_row
 
 __all__ = ["ChosenMember", "chosen_member", "check_rows"]
@@ -66,8 +66,9 @@ def _default_row(check, chosen) -> list:
 
 
 def check_rows(chosen: ChosenMember) -> list:
-    """The sheet's check rows of the chosen member, check by check in registry order."""
+    """The sheet's check rows of the chosen member, check by check in registry order (the
+    checks the job asks for)."""
     out = []
-    for check in registered():
+    for check in active_checks(chosen.selection.job.limits):
         out += check.sheet_rows(chosen) if check.sheet_rows is not None else _default_row(check, chosen)
     return out

@@ -26,7 +26,7 @@ import numpy as np
 
 from ..beam import G, respond, solve
 from ..beam.results import snap_round_off
-from .checks import Effects, registered
+from .checks import Effects, active_checks, get_check
 from .job import Limits
 from .member import beam_with_member
 
@@ -36,9 +36,9 @@ _SAMPLES = 12  # grid points per element before the Newton polish
 _BLOCK = 2048  # candidates per block (keeps the grid work in cache)
 
 
-def check_names() -> tuple:
-    """Names of the registered checks, in order (the utilisation keys)."""
-    return tuple(c.name for c in registered())
+def check_names(limits=None) -> tuple:
+    """Names of the checks active for ``limits``, in order (the utilisation keys)."""
+    return tuple(c.name for c in active_checks(limits))
 
 
 @dataclass(frozen=True)
@@ -96,6 +96,7 @@ class Screen:
     utilisation: dict
     governing: np.ndarray
     passes: np.ndarray
+    columns: dict = field(default_factory=dict)  # full (K, C) demand of checks with demand_json
 
     def _over(self, name, reduce):
         a = getattr(self.effects, name)
@@ -133,20 +134,25 @@ class Screen:
     def demands(self, k: int) -> dict:
         """The demands of candidate ``k`` (JSON ``demands``): the effects and each check's own."""
         out = {"M_max": float(self.M_max[k]), "M_min": float(self.M_min[k]), "V_abs": float(self.V_abs[k])}
-        for c in registered():
-            if c.name in self.demand:
-                v = float(self.demand[c.name][k])
-                out[c.demand_key] = None if np.isnan(v) else v
+        for name in self.utilisation:
+            c = get_check(name)
+            if c.demand_json is not None:
+                out.update(c.demand_json(self.columns[name][k]))
+                continue
+            v = float(self.demand[name][k])
+            out[c.demand_key] = None if np.isnan(v) else v
         return out
 
 
 def evaluate(effects: Effects, cand: Candidates) -> Screen:
-    """Apply every registered check to ``effects`` (K, C) of candidates ``cand``."""
+    """Apply every check active for ``cand.limits`` to ``effects`` (K, C) of candidates ``cand``."""
     K = cand.size
-    demand, allow, combo, util = {}, {}, {}, {}
+    demand, allow, combo, util, columns = {}, {}, {}, {}, {}
     rows = np.arange(K)
-    for check in registered():  # a small fixed set
+    for check in active_checks(cand.limits):  # a small fixed set
         d = np.asarray(check.demand(effects, cand.props), float)
+        if check.demand_json is not None:
+            columns[check.name] = d
         a = np.broadcast_to(np.asarray(check.allowable(cand.props, cand.limits, effects), float), d.shape)
         with np.errstate(divide="ignore", invalid="ignore"):
             u = d / a
@@ -164,7 +170,7 @@ def evaluate(effects: Effects, cand: Candidates) -> Screen:
     filled = np.where(np.isnan(stack), -np.inf, stack)
     governing = np.asarray(names, dtype=object)[np.argmax(filled, axis=1)]
     passes = np.all(np.isnan(stack) | (stack <= 1.0), axis=1)
-    return Screen(effects, demand, allow, combo, util, governing, passes)
+    return Screen(effects, demand, allow, combo, util, governing, passes, columns)
 
 
 def _grid(lengths):
@@ -334,7 +340,7 @@ def screen_effects(model, cand: Candidates, self_weight_case=None) -> Effects:
     sampler = FieldSampler(resp, parents, mass_g, None if not fixed else v_scale)
     return Effects(**_by_parent(out, parents, len(names)), combinations=tuple(model.combinations),
                    sampler=sampler, EI=np.asarray(cand.EI, float),
-                   mass_per_length=np.asarray(cand.mass_per_length, float), model=model)
+                   mass_per_length=np.asarray(cand.mass_per_length, float), model=model, limits=cand.limits)
 
 
 def _by_parent(out, parents, C):
@@ -427,7 +433,7 @@ def screen_loop(model, cand: Candidates, self_weight_case=None) -> Screen:
                 out["v_abs"][k, ci], out["v_allowed"][k, ci] = abs(row["v_extreme"]), row["allowed"]
     return evaluate(Effects(**out, combinations=tuple(model.combinations), sampler=_StackedSampler(samplers),
                             EI=np.asarray(cand.EI, float), mass_per_length=np.asarray(cand.mass_per_length, float),
-                            model=model), cand)
+                            model=model, limits=cand.limits), cand)
 
 
 class _StackedSampler:

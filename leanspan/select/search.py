@@ -15,10 +15,10 @@ import numpy as np
 from ..catalog.table import catalog_table, row_dims
 from ..errors import SelectionError
 from ..units import utilisation_text
-from .checks import registered
+from .checks import active_checks
 from .chosen import chosen_member
 from .member import member_arrays
-from .screen import Candidates, Screen, check_names, screen
+from .screen import Candidates, Screen, screen
 
 __all__ = ["Selection", "run_selection", "candidate_table", "candidates_from_table"]
 
@@ -98,7 +98,7 @@ class Selection:
         out = pd.DataFrame({"rank": np.arange(1, len(self.order) + 1)})
         for c in ("name", "family", "series", "material", "mass_per_length", "depth", "width"):
             out[c] = df[c].to_numpy()
-        for c in check_names():
+        for c in self.result.utilisation:
             out[c] = self.result.utilisation[c][self.order]
         out["governing"] = self.result.governing[self.order].astype(str)
         out["passes"] = self.result.passes[self.order]
@@ -141,7 +141,7 @@ def _why_empty(search) -> str:
 def candidates_from_table(df, limits) -> Candidates:
     """Arrays for :func:`screen` from catalogue rows: each member's EI and mass, and the
     columns the registered checks read."""
-    columns = sorted({c for check in registered() for c in check.columns})
+    columns = sorted({c for check in active_checks(limits) for c in check.columns})
     missing = [c for c in columns if c not in df]
     if missing:
         raise SelectionError(f"search: the catalogue has no column {missing[0]!r}, which a check needs")
@@ -157,7 +157,7 @@ def _rows(df, res: Screen, order, positions) -> list:
         rank = pos + 1
         row = df.iloc[k]
         util = {c: (None if np.isnan(res.utilisation[c][k]) else float(res.utilisation[c][k]))
-                for c in check_names()}
+                for c in res.utilisation}
         out.append({
             "rank": rank,
             "name": str(names[k]),
@@ -182,7 +182,7 @@ def rank_order(df, res: Screen, objective: str) -> np.ndarray:
     mass = df["mass_per_length"].to_numpy(float)
     depth = df["depth"].to_numpy(float)
     names = df["name"].to_numpy().astype(str)
-    worst = np.fmax.reduce(np.stack([res.utilisation[c] for c in check_names()], axis=1), axis=1)
+    worst = np.fmax.reduce(np.stack([res.utilisation[c] for c in res.utilisation], axis=1), axis=1)
     first, second = (mass, depth) if objective == "mass" else (depth, mass)
     p = np.flatnonzero(res.passes)
     f = np.flatnonzero(~res.passes)

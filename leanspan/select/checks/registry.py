@@ -27,7 +27,7 @@ import numpy as np
 from ...errors import SelectionError
 
 __all__ = ["Check", "Effects", "CheckRow", "register", "unregister", "registered", "get_check",
-           "registered_check", "not_checked", "NOT_CHECKED", "limit_keys"]
+           "registered_check", "not_checked", "NOT_CHECKED", "limit_keys", "active_checks"]
 
 #: What a sizing run may leave unchecked: topic -> the sentence on the sheet. A check that
 #: covers a topic (``Check.covers``) takes its sentence off the list.
@@ -63,13 +63,15 @@ class Effects:
     EI: np.ndarray | None = None  # the candidates' flexural stiffness (K,)
     mass_per_length: np.ndarray | None = None  # (K,)
     model: object = None  # the job's BeamModel
+    limits: object = None  # the job's Limits (checks that read [limits] keys in their demand)
 
     def take(self, index) -> "Effects":
         """The effects of candidates ``index`` (keeps the (K, C) shape)."""
         index = np.atleast_1d(index)
         pick = (lambda a: None if a is None else np.asarray(a)[index])  # noqa: E731
         return Effects(*(getattr(self, f)[index] for f in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")),
-                       self.combinations, None, pick(self.EI), pick(self.mass_per_length), self.model)
+                       self.combinations, None, pick(self.EI), pick(self.mass_per_length), self.model,
+                       self.limits)
 
 
 @dataclass(frozen=True)
@@ -122,12 +124,20 @@ class Check:
         Topics of :data:`NOT_CHECKED` this check answers.
     limit_keys : dict
         ``[limits]`` keys this check reads -> their kind (``"pressure"``, ``"number"``,
-        ``"text"``); parsed into ``Limits.extra``.
+        ``"text"``, ``"names"`` for a name or list of names); parsed into ``Limits.extra``.
     action : callable, optional
         ``action(effects_row, combination_index) -> ((label, value, kind), ...)`` for the sheet.
     sheet_rows : callable, optional
         ``sheet_rows(chosen) -> [CheckRow]`` replacing the one default row (e.g. one row
         per span); ``chosen`` is a :class:`leanspan.select.chosen.ChosenMember`.
+    active : callable, optional
+        ``active(limits) -> bool``: whether the job asks for this check (default: always).
+        An inactive check adds no utilisation key, column, sheet row or sentence, and
+        covers nothing.
+    demand_json : callable, optional
+        ``demand_json(demand_row) -> {key: value}``: the candidate's ``demands`` entries from
+        its demand row (C,), replacing the one ``demand_key`` entry (for a check whose
+        columns are sub-checks in different units rather than combinations).
     """
 
     name: str
@@ -142,6 +152,8 @@ class Check:
     limit_keys: dict = field(default_factory=dict)
     action: Callable | None = None
     sheet_rows: Callable | None = None
+    active: Callable | None = None
+    demand_json: Callable | None = None
 
     def __post_init__(self):
         if not self.name.isidentifier():
@@ -187,9 +199,15 @@ def get_check(name: str) -> Check:
     return _REGISTRY[name]
 
 
-def not_checked() -> list:
-    """The "not checked" sentences left after every registered check's ``covers``."""
-    covered = {t for c in _REGISTRY.values() for t in c.covers}
+def active_checks(limits) -> tuple:
+    """The registered checks a job with ``limits`` asks for, in order (see ``Check.active``)."""
+    return tuple(c for c in _REGISTRY.values() if c.active is None or c.active(limits))
+
+
+def not_checked(limits=None) -> list:
+    """The "not checked" sentences left after the ``covers`` of every check active for
+    ``limits`` (``None``: the checks that are always active)."""
+    covered = {t for c in active_checks(limits) for t in c.covers}
     return [text for topic, text in NOT_CHECKED.items() if topic not in covered]
 
 
