@@ -49,6 +49,8 @@ KINDS: dict[str, tuple[str, int, int, int, str]] = {
     "flexural stiffness": ("[mass] * [length] ** 3 / [time] ** 2", 2, 1, 0, "'2e13 N*mm^2'"),
     "density": ("[mass] / [length] ** 3", -3, 0, 1, "'500 kg/m^3'"),
     "mass/length": ("[mass] / [length]", -1, 0, 1, "'25 kg/m'"),
+    "frequency": ("1 / [time]", 0, 0, 0, "'8 Hz'"),
+    "compliance": ("[time] ** 2 / [mass]", 1, -1, 0, "'1.5 mm/kN'"),
 }
 
 _KIND_WORDS = {
@@ -62,6 +64,8 @@ _KIND_WORDS = {
     "flexural stiffness": "a flexural stiffness EI",
     "density": "a density",
     "mass/length": "a mass per length",
+    "frequency": "a frequency",
+    "compliance": "a deflection per force",
 }
 
 
@@ -262,6 +266,8 @@ DISPLAY: dict[str, dict[str, tuple[str, float]]] = {
         "shear factor": ("1/mm²", 1e6),
         "spring": ("kN/m", 1e3),
         "rotational spring": ("kN·m/rad", 1e3),
+        "frequency": ("Hz", 1.0),
+        "compliance": ("mm/kN", 1e-6),
     },
     "us": {
         "length": ("in", _IN),
@@ -283,6 +289,8 @@ DISPLAY: dict[str, dict[str, tuple[str, float]]] = {
         "shear factor": ("1/in²", 1 / _IN**2),
         "spring": ("kip/in", _KIP / _IN),
         "rotational spring": ("kip·ft/rad", _KIP * _FT),
+        "frequency": ("Hz", 1.0),
+        "compliance": ("in/kip", _IN / _KIP),
     },
 }
 

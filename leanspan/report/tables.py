@@ -12,7 +12,7 @@ __all__ = ["utilisation_text", "table_rows", "ranked_table_text", "ranked_table_
            "write_table_exports", "HEADERS"]
 
 HEADERS = ["rank", "name", "material", "mass", "depth", "width", "governing", "pass"]
-"""The fixed columns; one column per registered check stands between width and governing."""
+"""The fixed columns; one column per active check stands between width and governing."""
 
 
 def table_rows(sel, units: str = "si", top: int = 10):

@@ -66,7 +66,8 @@ def _default_row(check, chosen) -> list:
 
 
 def check_rows(chosen: ChosenMember) -> list:
-    """The sheet's check rows of the chosen member, check by check in registry order."""
+    """The sheet's check rows of the chosen member, check by check in registry order (the
+    checks the job asks for)."""
     out = []
     for check in chosen.selection.result.checks:
         out += check.sheet_rows(chosen) if check.sheet_rows is not None else _default_row(check, chosen)

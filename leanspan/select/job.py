@@ -242,7 +242,9 @@ def _factor(value, field):
 
 
 def _limit_value(value, kind, field, units):
-    """A ``[limits]`` value of a registered check: a number, a text or a quantity of ``kind``."""
+    """A ``[limits]`` value of a registered check: a number, a text, names or a quantity of ``kind``."""
+    if kind == "names":
+        return _names(value, field)
     if kind == "number":
         return _factor(value, field)
     if kind == "text":

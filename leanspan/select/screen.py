@@ -98,6 +98,7 @@ class Screen:
     governing: np.ndarray
     passes: np.ndarray
     checks: tuple = ()  # the Check entries applied, in order
+    columns: dict = field(default_factory=dict)  # full (K, C) demand of checks with demand_json
 
     def _over(self, name, reduce):
         a = getattr(self.effects, name)
@@ -136,21 +137,25 @@ class Screen:
         """The demands of candidate ``k`` (JSON ``demands``): the effects and each check's own."""
         out = {"M_max": float(self.M_max[k]), "M_min": float(self.M_min[k]), "V_abs": float(self.V_abs[k])}
         for c in self.checks:
-            if c.name in self.demand:
+            if c.demand_json is not None:
+                out.update(c.demand_json(self.columns[c.name][k]))
+            elif c.name in self.demand:
                 v = float(self.demand[c.name][k])
                 out[c.demand_key] = None if np.isnan(v) else v
         return out
 
 
 def evaluate(effects: Effects, cand: Candidates) -> Screen:
-    """Apply every registered check to ``effects`` (K, C) of candidates ``cand``."""
+    """Apply every check active for ``cand.limits`` to ``effects`` (K, C) of candidates ``cand``."""
     K = cand.size
-    demand, allow, combo, util = {}, {}, {}, {}
+    demand, allow, combo, util, columns = {}, {}, {}, {}, {}
     rows = np.arange(K)
     checks = active_checks(cand.limits)
     effects = dataclasses.replace(effects, limits=cand.limits)
     for check in checks:  # a small fixed set
         d = np.asarray(check.demand(effects, cand.props), float)
+        if check.demand_json is not None:
+            columns[check.name] = d
         a = np.broadcast_to(np.asarray(check.allowable(cand.props, cand.limits, effects), float), d.shape)
         with np.errstate(divide="ignore", invalid="ignore"):
             u = d / a
@@ -168,7 +173,7 @@ def evaluate(effects: Effects, cand: Candidates) -> Screen:
     filled = np.where(np.isnan(stack), -np.inf, stack)
     governing = np.asarray(names, dtype=object)[np.argmax(filled, axis=1)]
     passes = np.all(np.isnan(stack) | (stack <= 1.0), axis=1)
-    return Screen(effects, demand, allow, combo, util, governing, passes, checks)
+    return Screen(effects, demand, allow, combo, util, governing, passes, checks, columns)
 
 
 def _grid(lengths):
@@ -338,7 +343,7 @@ def screen_effects(model, cand: Candidates, self_weight_case=None) -> Effects:
     sampler = FieldSampler(resp, parents, mass_g, None if not fixed else v_scale)
     return Effects(**_by_parent(out, parents, len(names)), combinations=tuple(model.combinations),
                    sampler=sampler, EI=np.asarray(cand.EI, float),
-                   mass_per_length=np.asarray(cand.mass_per_length, float), model=model)
+                   mass_per_length=np.asarray(cand.mass_per_length, float), model=model, limits=cand.limits)
 
 
 def _by_parent(out, parents, C):
@@ -479,7 +484,7 @@ def screen_loop(model, cand: Candidates, self_weight_case=None) -> Screen:
                 out["v_abs"][k, ci], out["v_allowed"][k, ci] = abs(row["v_extreme"]), row["allowed"]
     return evaluate(Effects(**out, combinations=tuple(model.combinations), sampler=_StackedSampler(samplers),
                             EI=np.asarray(cand.EI, float), mass_per_length=np.asarray(cand.mass_per_length, float),
-                            model=model), cand)
+                            model=model, limits=cand.limits), cand)
 
 
 class _StackedSampler:

@@ -70,7 +70,8 @@ class Effects:
         index = np.atleast_1d(index)
         pick = (lambda a: None if a is None else np.asarray(a)[index])  # noqa: E731
         return Effects(*(getattr(self, f)[index] for f in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")),
-                       self.combinations, None, pick(self.EI), pick(self.mass_per_length), self.model)
+                       self.combinations, None, pick(self.EI), pick(self.mass_per_length), self.model,
+                       self.limits)
 
 
 @dataclass(frozen=True)
@@ -123,7 +124,7 @@ class Check:
         Topics of :data:`NOT_CHECKED` this check answers.
     limit_keys : dict
         ``[limits]`` keys this check reads -> their kind (``"pressure"``, ``"number"``,
-        ``"text"``); parsed into ``Limits.extra``.
+        ``"text"``, ``"lengths"``, ``"names"`` for a name or list of names); parsed into ``Limits.extra``.
     active : callable, optional
         ``active(limits) -> bool``: whether the job asks for this check (default: always). An
         inactive check adds no column, JSON key or sheet row, and covers nothing.
@@ -132,6 +133,14 @@ class Check:
     sheet_rows : callable, optional
         ``sheet_rows(chosen) -> [CheckRow]`` replacing the one default row (e.g. one row
         per span); ``chosen`` is a :class:`leanspan.select.chosen.ChosenMember`.
+    active : callable, optional
+        ``active(limits) -> bool``: whether the job asks for this check (default: always).
+        An inactive check adds no utilisation key, column, sheet row or sentence, and
+        covers nothing.
+    demand_json : callable, optional
+        ``demand_json(demand_row) -> {key: value}``: the candidate's ``demands`` entries from
+        its demand row (C,), replacing the one ``demand_key`` entry (for a check whose
+        columns are sub-checks in different units rather than combinations).
     """
 
     name: str
@@ -147,6 +156,7 @@ class Check:
     active: Callable | None = None
     action: Callable | None = None
     sheet_rows: Callable | None = None
+    demand_json: Callable | None = None
 
     def __post_init__(self):
         if not self.name.isidentifier():
