@@ -22,6 +22,7 @@ __all__ = [
     "BeamError",
     "MechanismError",
     "SelectionError",
+    "NumericalError",
 ]
 
 
@@ -59,3 +60,7 @@ class MechanismError(BeamError):
 
 class SelectionError(InputError):
     """A bad search or limits table in a selection job."""
+
+
+class NumericalError(LeanspanError):
+    """A computation overflowed or gave no finite value (inputs at the edge of their ranges)."""

@@ -85,9 +85,14 @@ def atomic_write(path, data: str | bytes) -> None:
     Raises
     ------
     InputError
-        If ``path`` is one of the inputs read in this run, or its folder is missing.
+        If ``path`` is empty, an existing folder, one of the inputs read in this run, or its
+        folder is missing.
     """
+    if not str(path).strip():
+        raise InputError("empty file name; expected a file to write")
     path = Path(path)
+    if path.is_dir():
+        raise InputError(f"{path}: is a folder; expected a file name")
     if path.resolve() in _INPUTS:
         raise InputError(f"{path}: refusing to overwrite an input file; choose another output name")
     folder = path.parent if str(path.parent) else Path(".")

@@ -37,7 +37,7 @@ import re
 from pathlib import Path
 
 from ..errors import BeamError
-from ..units import UnitSystem, parse
+from ..units import UnitSystem, check_number, parse
 from .model import (BeamModel, Combination, Couple, DeflectionLimit, DistributedLoad, PointLoad,
                     Stiffness, Support)
 
@@ -88,6 +88,7 @@ def parse_limit(value, where: str = "limit", units: UnitSystem | None = None) ->
             ratio = float(m.group(1))
             if ratio <= 0:
                 raise BeamError(f"{where}: expected span/N with N > 0, got {value!r}")
+            check_number(ratio, "factor", f"{where}: N in span/N", BeamError)
             return DeflectionLimit(ratio=ratio, text=value)
         if "/" in value and not any(ch.isdigit() for ch in value.split("/")[0]):
             raise BeamError(f"{where}: expected \"span/N\" (e.g. \"span/360\") or a length such as "
@@ -269,9 +270,13 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
         where = f"{p}combination[{i + 1}]"
         _only(t, {"name", "factors", "check", "limit", "pattern"}, where)
         name = _need(t, "name", where)
+        if not isinstance(name, str) or not name.strip():
+            raise BeamError(f"{where}.name: expected a combination name (text), got {name!r}")
         factors = _need(t, "factors", where)
         if not isinstance(factors, dict) or not factors:
             raise BeamError(f"{where}.factors: expected a table such as {{dead = 1.35, imposed = 1.5}}")
+        for case, f in factors.items():
+            check_number(f, "factor", f"{where}.factors.{case}", BeamError)
         check = t.get("check", "deflection" if "limit" in t else "strength")
         if "limit" in t and "check" not in t:
             notes.append(f"{where} {name!r}: a limit without check is taken as a deflection check")
@@ -281,6 +286,9 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
             raise BeamError(f"{where}.pattern: expected the name of a load case, got {pattern!r}")
         combos.append(Combination(str(name), tuple(factors.items()), check, limit, pattern, where=where))
 
+    for key in ("name", "title", "description"):
+        if key in beam and not isinstance(beam[key], str):
+            raise BeamError(f"{p}beam.{key}: expected text, got {beam[key]!r}")
     name = beam.get("title") or beam.get("name") or ""
     return BeamModel(length, tuple(sorted(supports.values(), key=lambda s: s.at)), pieces, tuple(loads),
                      tuple(hinges), tuple(combos), mass, self_weight, str(name), tuple(notes))

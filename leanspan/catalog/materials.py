@@ -34,7 +34,7 @@ from pathlib import Path
 
 from ..errors import InputError, MaterialError
 from ..fileio import load_toml, protect_inputs
-from ..units import parse
+from ..units import check_range, parse
 from .csvfile import column_factor, read_table, to_float
 
 __all__ = ["KINDS", "Material", "materials_table", "get_material", "load_user_materials", "material_lookup",
@@ -141,8 +141,9 @@ def _rows_from_csv(path, text=None, default_source="") -> list[dict]:
                 continue
             if name in _QUANTITIES:
                 words = _QUANTITIES[name][2]
-                row[name] = to_float(cell, f"{path}: row {line}: column {name!r}", words,
-                                     MaterialError) * factors[name]
+                where = f"{path}: row {line}: column {name!r}"
+                row[name] = check_range(to_float(cell, where, words, MaterialError) * factors[name],
+                                        _QUANTITIES[name][0], where, MaterialError, shown=cell)
             else:
                 row[name] = cell
         if not row.get("name"):
@@ -175,9 +176,8 @@ def _rows_from_toml(path) -> list[dict]:
                 kind, default, _ = _QUANTITIES[key]
                 try:
                     if isinstance(value, (int, float)) and not isinstance(value, bool):
-                        row[key] = float(value) * column_factor(default, kind, where, MaterialError)
-                        if not math.isfinite(row[key]):
-                            raise MaterialError(f"{where}.{key}: expected a finite number, got {value!r}")
+                        row[key] = check_range(float(value) * column_factor(default, kind, where, MaterialError),
+                                               kind, f"{where}.{key}", MaterialError, shown=value)
                     else:
                         row[key] = parse(value, kind, f"{where}.{key}")
                 except MaterialError:

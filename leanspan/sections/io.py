@@ -30,11 +30,14 @@ import numpy as np
 
 from ..errors import GeometryError, InputError
 from ..fileio import load_toml
-from ..units import UnitSystem, parse
+from ..units import RANGES, UnitSystem, check_number, parse
 from .families import FAMILIES, get_family
 from .section import Part, Section, check_polygon, polygon_from_family, transform
 
 __all__ = ["section_from_spec", "load_section_file"]
+
+#: Most vertices one polygon part or hole may have (outline and holes together).
+MAX_POINTS = int(RANGES["points"][1])
 
 _PLACEMENT = ("shape", "material", "at", "rotate", "mirror", "units")
 _SECTION_KEYS = ("part", "hole", "units", "material", "title", "name", "description")
@@ -43,12 +46,13 @@ _SECTION_KEYS = ("part", "hole", "units", "material", "title", "name", "descript
 def _point(value, field, units):
     if not isinstance(value, (list, tuple)) or len(value) != 2:
         raise InputError(f"{field}: expected a point [z, y], got {value!r}")
-    return tuple(parse(v, "length", f"{field}[{k}]", units) for k, v in enumerate(value))
+    return tuple(parse(v, "length", f"{field}[{k}]", units, within="section length")
+                 for k, v in enumerate(value))
 
 
 def _ring(value, field, units):
     if not isinstance(value, (list, tuple)) or len(value) < 3:
-        raise GeometryError(f"{field}: expected at least three points [[z, y], ...], got {value!r}")
+        raise GeometryError(f"{field}: expected at least three points [[z, y], ...], got {_short(value)}")
     return [_point(p, f"{field}[{i + 1}]", units) for i, p in enumerate(value)]
 
 
@@ -70,6 +74,10 @@ def _shape_polygon(table: dict, field: str, units: UnitSystem, extra_keys=()):
         holes = table.get("holes", [])
         if not isinstance(holes, list):
             raise InputError(f"{field}.holes: expected a list of point lists")
+        count = len(table["points"]) + sum(len(h) if isinstance(h, list) else 0 for h in holes)
+        if count > MAX_POINTS:
+            raise GeometryError(f"{field}.points: {count} points (outline and holes); at most "
+                                f"{MAX_POINTS} are accepted (simplify the outline)")
         inner = [_ring(h, f"{field}.holes[{i + 1}]", units) for i, h in enumerate(holes)]
         outline = check_polygon(Polygon(outer), f"{field}.points")
         for i, h in enumerate(inner):
@@ -85,13 +93,19 @@ def _shape_polygon(table: dict, field: str, units: UnitSystem, extra_keys=()):
     dims = {}
     for key in fam.all_keys:
         if key in table:
-            dims[key] = parse(table[key], "length", f"{field}.{key}", units)
+            dims[key] = parse(table[key], "length", f"{field}.{key}", units, within="section length")
         elif key in fam.keys:
             raise GeometryError(f"{field}.{key}: missing; a {shape} needs {', '.join(fam.keys)}")
     for key, v in dims.items():
         if v < 0 or (v == 0 and key in fam.keys):
             raise GeometryError(f"{field}.{key}: {table[key]!r}; expected a positive length")
     return polygon_from_family(shape, dims, where=field)
+
+
+def _short(value, limit: int = 80) -> str:
+    """``repr(value)``, cut to ``limit`` characters with "… and N more" (keeps messages one line)."""
+    text = repr(value)
+    return text if len(text) <= limit else f"{text[:limit]}… and {len(text) - limit} more characters"
 
 
 def _no_unknown(table, allowed, field):
@@ -119,9 +133,8 @@ def _placed(table, field, units, describe=None):
         describe.append(_describe(table, poly, field, local))
     units = UnitSystem.from_spec(table["units"], f"{field}.units") if "units" in table else units
     at = _point(table["at"], f"{field}.at", units) if "at" in table else (0.0, 0.0)
-    rotate = table.get("rotate", 0.0)
-    if isinstance(rotate, bool) or not isinstance(rotate, (int, float)):
-        raise InputError(f"{field}.rotate: expected an angle in degrees (a number), got {rotate!r}")
+    rotate = check_number(table.get("rotate", 0.0), "angle", f"{field}.rotate", InputError,
+                          "an angle in degrees (a number)")
     mirror = table.get("mirror", False)
     if not isinstance(mirror, bool):
         raise InputError(f"{field}.mirror: expected true or false, got {mirror!r}")

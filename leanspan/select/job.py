@@ -36,7 +36,7 @@ from ..beam import parse_beam
 from ..catalog.materials import get_material, materials_table
 from ..catalog.table import check_shape_names
 from ..errors import LeanspanError, SelectionError
-from ..units import UnitSystem, display_factor, fmt, parse
+from ..units import UnitSystem, check_number, display_factor, fmt, parse
 from .checks import limit_keys
 
 __all__ = ["SearchSpec", "Limits", "Job", "parse_job"]
@@ -171,15 +171,18 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
         if not isinstance(catalog, str):
             raise SelectionError(f"{p}search.catalog: expected a CSV file name, got {catalog!r}")
         catalog = Path(base_dir) / catalog
-        if not catalog.is_file():
+        if not catalog.is_file() or not str(search_t["catalog"]).strip():
             raise SelectionError(f"{p}search.catalog: file {catalog} not found")
     mat_file = search_t.get("materials_file")
     if mat_file is not None:
-        mat_file = Path(base_dir) / str(mat_file)
+        if not isinstance(mat_file, str) or not mat_file.strip():
+            raise SelectionError(f"{p}search.materials_file: expected a file name, got {mat_file!r}")
+        mat_file = Path(base_dir) / mat_file
         if not mat_file.is_file():
             raise SelectionError(f"{p}search.materials_file: file {mat_file} not found")
     _check_names(families, series, materials, mat_file, p)
-    sizes = {k: parse(search_t[k], "length", f"{p}search.{k}", units) if k in search_t else None
+    sizes = {k: parse(search_t[k], "length", f"{p}search.{k}", units, within="section length")
+             if k in search_t else None
              for k in ("max_depth", "min_depth", "max_width", "min_width")}
     for k, v in sizes.items():
         if v is not None and not v > 0:
@@ -199,13 +202,16 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
     if sw is not None:
         beam["self_weight"] = sw
     beam_data["beam"] = beam
-    combos = list(beam_data.get("combination", data["beam"].get("combination", [])) or [])
-    if not combos:
-        cases = {t.get("case") for t in beam_data.get("load", []) if isinstance(t, dict)}
+    combos = beam_data.get("combination", data["beam"].get("combination"))
+    if combos is None or combos == []:  # anything else (a table, a number) goes to parse_beam
+        loads = beam_data.get("load", data["beam"].get("load", []))
+        loads = [loads] if isinstance(loads, dict) else loads if isinstance(loads, list) else []
+        cases = {t.get("case") for t in loads if isinstance(t, dict)}
         if sw is not None:
             cases.add(sw)
         # no combinations: one strength combination of every case at factor 1
-        beam_data["combination"] = [{"name": "all cases", "factors": {c: 1.0 for c in sorted(cases) if c}}]
+        beam_data["combination"] = [{"name": "all cases",
+                                     "factors": {c: 1.0 for c in sorted(cases) if isinstance(c, str) and c}}]
         beam.pop("combination", None)
     model = parse_beam(beam_data, Path(base_dir), p, units=units)
     if sw is not None:
@@ -236,9 +242,7 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
 def _factor(value, field):
     if value is None:
         return None
-    if isinstance(value, bool) or not isinstance(value, (int, float)):
-        raise SelectionError(f"{field}: expected a number such as 0.6, got {value!r}")
-    return float(value)
+    return check_number(value, "factor", field, SelectionError, "a number such as 0.6")
 
 
 def _limit_value(value, kind, field, units):
