@@ -23,7 +23,18 @@ __all__ = [
     "MechanismError",
     "SelectionError",
     "NumericalError",
+    "brief",
 ]
+
+
+def brief(value, limit: int = 80) -> str:
+    """``repr(value)`` cut to ``limit`` characters, so that a message stays one short line.
+
+    >>> brief(list(range(100)), 20)
+    '[0, 1, 2, 3, 4, 5, 6… and 370 more characters'
+    """
+    text = repr(value)
+    return text if len(text) <= limit else f"{text[:limit]}… and {len(text) - limit} more characters"
 
 
 class LeanspanError(ValueError):

@@ -27,7 +27,7 @@ from functools import lru_cache
 import math
 import re
 
-from .errors import UnitsError
+from .errors import UnitsError, brief
 
 __all__ = ["KINDS", "RANGES", "UnitSystem", "parse", "check_range", "check_number", "unit_factor", "registry", "DISPLAY", "display_factor", "fmt", "utilisation_text"]
 
@@ -63,14 +63,15 @@ RANGES: dict[str, tuple[float, float, str]] = {
     "area": (1e-12, 1e4, "m^2"),
     "section modulus": (1e-18, 1e6, "m^3"),
     "second moment": (1e-24, 1e8, "m^4"),
-    "force": (1e-9, 1e12, "N"),
-    "force/length": (1e-9, 1e12, "N/m"),     # distributed loads and spring stiffnesses
-    "moment": (1e-9, 1e12, "N*m"),           # couples and rotational springs
+    "force": (0.0, 1e12, "N"),
+    "force/length": (0.0, 1e12, "N/m"),     # distributed loads and spring stiffnesses
+    "moment": (0.0, 1e12, "N*m"),           # couples and rotational springs
     "pressure": (1e-6, 1e12, "Pa"),          # stresses, moduli, area loads
     "flexural stiffness": (1e-6, 1e16, "N*m^2"),
     "density": (1e-3, 1e5, "kg/m^3"),
-    "mass/length": (1e-9, 1e6, "kg/m"),
-    "factor": (1e-9, 1e6, ""),               # combination factors, stress_factor, span/N
+    "mass/length": (0.0, 1e6, "kg/m"),
+    "factor": (0.0, 1e6, ""),                 # combination factors, span/N
+    "stress factor": (1e-6, 1e6, ""),        # limits.stress_factor
     "angle": (0.0, 1e6, "degrees"),
     "points": (3, 20000, "points"),          # vertices of one polygon (outline plus holes)
 }
@@ -111,7 +112,7 @@ def check_number(value, within: str, field: str, error=UnitsError, expected: str
     leanspan.errors.UnitsError: combination[1].factors.dead: expected a number, got 'x'
     """
     if isinstance(value, bool) or not isinstance(value, (int, float)):
-        raise error(f"{field}: expected {expected}, got {value!r}")
+        raise error(f"{field}: expected {expected}, got {brief(value)}")
     try:
         x = float(value)
     except OverflowError:  # an integer beyond any float
@@ -163,7 +164,7 @@ class UnitSystem:
             spec = {"length": spec}
         if not isinstance(spec, dict):
             raise UnitsError(f"{field}: expected a length unit such as \"mm\" or a table "
-                             f"{{length = \"mm\", force = \"kN\"}}, got {spec!r}")
+                             f"{{length = \"mm\", force = \"kN\"}}, got {brief(spec)}")
         unknown = set(spec) - {"length", "force", "mass"}
         if unknown:
             raise UnitsError(f"{field}: unknown key {sorted(unknown)[0]!r}; expected length, force or mass")
@@ -172,7 +173,7 @@ class UnitSystem:
             if key in spec:
                 text = spec[key]
                 if not isinstance(text, str):
-                    raise UnitsError(f"{field}.{key}: expected a unit name such as \"mm\", got {text!r}")
+                    raise UnitsError(f"{field}.{key}: expected a unit name such as \"mm\", got {brief(text)}")
                 factors[key], why = _si_factor(text, key)
                 if why == "unknown":
                     raise UnitsError(f"{field}.{key}: unknown unit {text!r}")
@@ -268,6 +269,22 @@ def _powers_ok(text: str) -> bool:
     return len(_POWER.findall(text)) == len(_UNIT_POWER.findall(text))
 
 
+@lru_cache(maxsize=4096)
+def _read_quantity(text: str, dim: str):
+    """``(problem, SI magnitude)`` of a quantity text: problem "" when it has dimension ``dim``,
+    else the words for what it is, or None when pint cannot read it (cached: jobs repeat values)."""
+    ureg = registry()
+    try:
+        q = ureg.Quantity(text)
+        if not hasattr(q, "dimensionality"):
+            return "dimensionless", None
+        if q.dimensionality != ureg.get_dimensionality(dim):
+            return _describe(q.dimensionality), None
+        return "", float(q.to_base_units().magnitude)
+    except Exception:  # pint's parse errors, a complex or non-numeric magnitude
+        return None, None
+
+
 def parse(value, kind: str, field: str, units: UnitSystem | None = None, within: str | None = None) -> float:
     """Parse ``value`` as a quantity of ``kind`` and return it as an SI float.
 
@@ -293,7 +310,7 @@ def parse(value, kind: str, field: str, units: UnitSystem | None = None, within:
     dim, e_len, e_force, e_mass, example = KINDS[kind]
     word = _KIND_WORDS[kind]
     if isinstance(value, bool):
-        raise UnitsError(f"{field}: expected {word} (e.g. {example}), got {value!r}")
+        raise UnitsError(f"{field}: expected {word} (e.g. {example}), got {brief(value)}")
     if isinstance(value, (int, float)):
         units = units or UnitSystem()
         needs = [(units.length, e_len, "length"), (units.force, e_force, "force"), (units.mass, e_mass, "mass")]
@@ -313,22 +330,15 @@ def parse(value, kind: str, field: str, units: UnitSystem | None = None, within:
         if len(value) > _MAX_TEXT or not _powers_ok(value):
             raise UnitsError(f"{field}: cannot read {value[:_MAX_TEXT]!r} as {word} (e.g. {example}; "
                              f"at most {_MAX_TEXT} characters, powers only on unit names such as mm^2)")
-        ureg = registry()
-        try:
-            q = ureg.Quantity(value.strip())
-        except Exception:
-            raise UnitsError(f"{field}: cannot read {value!r} as {word} (e.g. {example})") from None
-        if not hasattr(q, "dimensionality") or q.dimensionality != ureg.get_dimensionality(dim):
-            got = _describe(getattr(q, "dimensionality", {}))
-            if got == "dimensionless":
-                raise UnitsError(f"{field}: {value!r} has no unit; expected {word} such as {example}")
+        got, result = _read_quantity(value.strip(), dim)
+        if got is None:
+            raise UnitsError(f"{field}: cannot read {value!r} as {word} (e.g. {example})")
+        if got == "dimensionless":
+            raise UnitsError(f"{field}: {value!r} has no unit; expected {word} such as {example}")
+        if got:
             raise UnitsError(f"{field}: expected {word} (e.g. {example}), got {value!r} ({got})")
-        try:
-            result = float(q.to_base_units().magnitude)
-        except (TypeError, ValueError, OverflowError):  # a complex or non-numeric magnitude
-            raise UnitsError(f"{field}: cannot read {value!r} as {word} (e.g. {example})") from None
     else:
-        raise UnitsError(f"{field}: expected {word} (e.g. {example}), got {value!r}")
+        raise UnitsError(f"{field}: expected {word} (e.g. {example}), got {brief(value)}")
     return check_range(result, within or kind, field, shown=value)
 
 

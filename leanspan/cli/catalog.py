@@ -19,7 +19,7 @@ def _csv_list(values):
     out = []
     for v in values or []:
         out += [x.strip() for x in v.split(",") if x.strip()]
-    return out or None
+    return list(dict.fromkeys(out)) or None  # a name given twice is listed once
 
 
 def add_parser(subparsers):

@@ -28,7 +28,7 @@ from __future__ import annotations
 import numpy as np
 
 
-from ..errors import GeometryError, InputError
+from ..errors import GeometryError, InputError, brief
 from ..fileio import load_toml
 from ..units import RANGES, UnitSystem, check_number, parse
 from .families import FAMILIES, get_family
@@ -45,14 +45,14 @@ _SECTION_KEYS = ("part", "hole", "units", "material", "title", "name", "descript
 
 def _point(value, field, units):
     if not isinstance(value, (list, tuple)) or len(value) != 2:
-        raise InputError(f"{field}: expected a point [z, y], got {value!r}")
+        raise InputError(f"{field}: expected a point [z, y], got {brief(value)}")
     return tuple(parse(v, "length", f"{field}[{k}]", units, within="section length")
                  for k, v in enumerate(value))
 
 
 def _ring(value, field, units):
     if not isinstance(value, (list, tuple)) or len(value) < 3:
-        raise GeometryError(f"{field}: expected at least three points [[z, y], ...], got {_short(value)}")
+        raise GeometryError(f"{field}: expected at least three points [[z, y], ...], got {brief(value)}")
     return [_point(p, f"{field}[{i + 1}]", units) for i, p in enumerate(value)]
 
 
@@ -102,12 +102,6 @@ def _shape_polygon(table: dict, field: str, units: UnitSystem, extra_keys=()):
     return polygon_from_family(shape, dims, where=field)
 
 
-def _short(value, limit: int = 80) -> str:
-    """``repr(value)``, cut to ``limit`` characters with "… and N more" (keeps messages one line)."""
-    text = repr(value)
-    return text if len(text) <= limit else f"{text[:limit]}… and {len(text) - limit} more characters"
-
-
 def _no_unknown(table, allowed, field):
     for key in table:
         if key not in allowed:
@@ -137,7 +131,7 @@ def _placed(table, field, units, describe=None):
                           "an angle in degrees (a number)")
     mirror = table.get("mirror", False)
     if not isinstance(mirror, bool):
-        raise InputError(f"{field}.mirror: expected true or false, got {mirror!r}")
+        raise InputError(f"{field}.mirror: expected true or false, got {brief(mirror)}")
     return transform(poly, float(rotate), mirror, at)
 
 
@@ -150,7 +144,7 @@ def section_from_spec(spec: dict, field: str = "section", units: UnitSystem | No
         With the field path of the bad value (``part[2].tw``).
     """
     if not isinstance(spec, dict):
-        raise InputError(f"{field}: expected a table with [[part]] entries, got {spec!r}")
+        raise InputError(f"{field}: expected a table with [[part]] entries, got {brief(spec)}")
     prefix = "" if field == "section" else f"{field}."
     for key in spec:
         if key not in _SECTION_KEYS:
@@ -165,7 +159,7 @@ def section_from_spec(spec: dict, field: str = "section", units: UnitSystem | No
         raise InputError(f"{prefix}part: expected [[part]] tables")
     default_material = spec.get("material")
     if default_material is not None and not isinstance(default_material, str):
-        raise InputError(f"{prefix}material: expected a material name, got {default_material!r}")
+        raise InputError(f"{prefix}material: expected a material name, got {brief(default_material)}")
     polys, shapes = [], []
     for i, table in enumerate(parts_spec):
         label = f"{prefix}part[{i + 1}]"
@@ -190,7 +184,7 @@ def section_from_spec(spec: dict, field: str = "section", units: UnitSystem | No
             raise GeometryError(f"{label}: does not cut any part; expected a hole inside the section")
     for label, _, mat in polys:
         if mat is not None and not isinstance(mat, str):
-            raise InputError(f"{label}.material: expected a material name, got {mat!r}")
+            raise InputError(f"{label}.material: expected a material name, got {brief(mat)}")
     parts = []
     for (label, poly, mat), shape in zip(polys, shapes):
         # a hole may cut a part into pieces (a bolt hole through a plate): keep each piece
