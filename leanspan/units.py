@@ -57,8 +57,10 @@ KINDS: dict[str, tuple[str, int, int, int, str]] = {
 # no product or power the program forms can overflow a float. ``parse`` takes the range of its
 # ``kind`` unless told another (``within="section length"``).
 RANGES: dict[str, tuple[float, float, str]] = {
-    "length": (1e-6, 1e4, "m"),              # beams: lengths, spans, positions, spacings, limits
-    "section length": (1e-5, 100.0, "m"),    # section dimensions, points, placements, size limits
+    "length": (1e-6, 1e4, "m"),              # beams: lengths, spans, spacings, deflection limits
+    "position": (0.0, 1e4, "m"),             # beams: at, from, to
+    "section length": (1e-5, 100.0, "m"),    # section dimensions, size limits
+    "section position": (0.0, 100.0, "m"),   # polygon points, placements (at)
     "element size": (1e-7, 100.0, "m"),      # section --element-size (the mesh budget bounds it too)
     "area": (1e-12, 1e4, "m^2"),
     "section modulus": (1e-18, 1e6, "m^3"),
@@ -74,6 +76,7 @@ RANGES: dict[str, tuple[float, float, str]] = {
     "stress factor": (1e-6, 1e6, ""),        # limits.stress_factor
     "angle": (0.0, 1e6, "degrees"),
     "points": (3, 20000, "points"),          # vertices of one polygon (outline plus holes)
+    "parts": (1, 1000, "tables"),            # [[part]] or [[hole]] tables of one section
 }
 
 
@@ -94,11 +97,18 @@ def check_range(value: float, within: str, field: str, error=UnitsError, shown=N
         raise error(f"{field}: expected a finite value, got {text}")
     if value != 0 and not lo <= abs(value) <= hi:
         unit = f" {unit}" if unit else ""
-        if shown is not None and not isinstance(shown, str) and abs(shown) < 1e300 and float(shown) != value:
+        if isinstance(shown, (int, float)) and not isinstance(shown, bool) and value != _as_float(shown):
             text += f" (= {value:.4g}{unit})"  # a bare number scaled by the file's units
         accepted = f"at most {hi:g}{unit}" if lo == 0 else f"from {lo:g} to {hi:g}{unit} (or 0)"
         raise error(f"{field}: {text} is out of range; expected a magnitude {accepted}")
     return value
+
+
+def _as_float(x) -> float:
+    try:
+        return float(x)
+    except OverflowError:  # an integer beyond any float
+        return math.inf
 
 
 def check_number(value, within: str, field: str, error=UnitsError, expected: str = "a number") -> float:
@@ -113,11 +123,7 @@ def check_number(value, within: str, field: str, error=UnitsError, expected: str
     """
     if isinstance(value, bool) or not isinstance(value, (int, float)):
         raise error(f"{field}: expected {expected}, got {brief(value)}")
-    try:
-        x = float(value)
-    except OverflowError:  # an integer beyond any float
-        x = math.inf
-    return check_range(x, within, field, error, shown=value)
+    return check_range(_as_float(value), within, field, error, shown=value)
 
 
 _KIND_WORDS = {

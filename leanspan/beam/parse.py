@@ -164,7 +164,7 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
                 raise BeamError(f"{p}beam.spans[{i + 1}]: expected a positive length, got {brief(s)}")
             x += ls
             pos.append(x)
-        length = x
+        length = check_number(x, "length", f"{p}beam.spans (their total)", BeamError, "a total length")
         for i, xs in enumerate(pos):
             supports[xs] = Support(xs, "pin" if i == 0 else "roller", where=f"{p}beam.spans")
     else:
@@ -177,7 +177,7 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
     for i, t in enumerate(_tables(data, beam, "support", p)):
         where = f"{p}support[{i + 1}]"
         _only(t, {"at", "type", "k", "kr"}, where)
-        at = parse(_need(t, "at", where), "length", f"{where}.at", units)
+        at = parse(_need(t, "at", where), "length", f"{where}.at", units, within="position")
         kind = _need(t, "type", where)
         k = parse(t["k"], "force/length", f"{where}.k", units) if "k" in t else None
         kr = parse(t["kr"], "moment", f"{where}.kr", units) if "kr" in t else None
@@ -214,8 +214,8 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
         for i, t in enumerate(_tables(data, beam, "stiffness", p)):
             where = f"{p}stiffness[{i + 1}]"
             _only(t, {"from", "to", "EI"}, where)
-            a = parse(_need(t, "from", where), "length", f"{where}.from", units)
-            b = parse(_need(t, "to", where), "length", f"{where}.to", units)
+            a = parse(_need(t, "from", where), "length", f"{where}.from", units, within="position")
+            b = parse(_need(t, "to", where), "length", f"{where}.to", units, within="position")
             EI = parse(_need(t, "EI", where), "flexural stiffness", f"{where}.EI", units)
             pieces.append(Stiffness(a, b, EI, where=where))
         pieces = tuple(pieces)
@@ -229,7 +229,7 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
     for i, t in enumerate(_tables(data, beam, "hinge", p)):
         where = f"{p}hinge[{i + 1}]"
         _only(t, {"at"}, where)
-        hinges.append(parse(_need(t, "at", where), "length", f"{where}.at", units))
+        hinges.append(parse(_need(t, "at", where), "length", f"{where}.at", units, within="position"))
 
     loads = []
     for i, t in enumerate(_tables(data, beam, "load", p)):
@@ -249,7 +249,8 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
                 if default is not None:
                     return default
                 raise BeamError(f"{where}: missing '{key}'")
-            return parse(t[key], kind_, f"{where}.{key}", units)
+            return parse(t[key], kind_, f"{where}.{key}", units,
+                         within="position" if key in ("at", "from", "to") else None)
 
         if kind == "point":
             loads.append(PointLoad(case, get("P", "force"), get("at", "length"), where=where))

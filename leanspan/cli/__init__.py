@@ -24,7 +24,6 @@ __all__ = ["main", "add_common", "emit_json", "option_paths", "warn", "stage", "
 
 COMMANDS = ["section", "beam", "catalog", "materials", "select", "demo"]
 OUTPUT_OPTIONS = ("csv", "report", "markdown", "plot")  # argparse names of output-path options
-_STAGE = ["running"]  # what is being computed, for a floating-point error's message
 
 
 def _parser(available):
@@ -81,33 +80,30 @@ def _guarded(args):
 
     import numpy as np
 
-    from ..errors import NumericalError
-
     def show(message, category, *_rest, **_kw):
         warn(args.command, f"{category.__name__}: {str(message).splitlines()[0] if str(message) else ''}")
 
-    _STAGE[:] = ["running"]
     check_outputs(args)
-    try:
-        # underflow stays quiet: a tiny result rounding to zero is not an error
-        with np.errstate(over="raise", divide="raise", invalid="raise"), warnings.catch_warnings():
-            warnings.simplefilter("error", RuntimeWarning)
-            warnings.showwarning = show
-            return args.run(args)
-    except (FloatingPointError, RuntimeWarning) as exc:
-        text = str(exc).splitlines()[0] if str(exc) else type(exc).__name__
-        raise NumericalError(f"{_STAGE[-1]}: the computation left the range of floating point "
-                             f"({text}); check the magnitudes of the inputs") from None
+    # underflow stays quiet: a tiny result rounding to zero is not an error
+    with np.errstate(over="raise", divide="raise", invalid="raise"), warnings.catch_warnings(), \
+            stage(f"leanspan {args.command}"):
+        warnings.simplefilter("error", RuntimeWarning)
+        warnings.showwarning = show
+        return args.run(args)
 
 
 @contextmanager
 def stage(what: str):
-    """Name what is being computed (``"solving the beam"``) for a floating-point error's message."""
-    _STAGE.append(what)
+    """Name what is being computed (``"solving the beam"``): a floating-point error or a
+    RuntimeWarning inside becomes a :class:`~leanspan.errors.NumericalError` naming it."""
+    from ..errors import NumericalError
+
     try:
         yield
-    finally:
-        _STAGE.pop()
+    except (FloatingPointError, RuntimeWarning) as exc:
+        text = str(exc).splitlines()[0] if str(exc) else type(exc).__name__
+        raise NumericalError(f"{what}: the computation left the range of floating point "
+                             f"({text}); check the magnitudes of the inputs") from None
 
 
 def check_outputs(args) -> None:

@@ -38,6 +38,8 @@ __all__ = ["section_from_spec", "load_section_file"]
 
 #: Most vertices one polygon part or hole may have (outline and holes together).
 MAX_POINTS = int(RANGES["points"][1])
+#: Most [[part]] (and, separately, [[hole]]) tables of one section.
+MAX_PARTS = int(RANGES["parts"][1])
 
 _PLACEMENT = ("shape", "material", "at", "rotate", "mirror", "units")
 _SECTION_KEYS = ("part", "hole", "units", "material", "title", "name", "description")
@@ -46,7 +48,7 @@ _SECTION_KEYS = ("part", "hole", "units", "material", "title", "name", "descript
 def _point(value, field, units):
     if not isinstance(value, (list, tuple)) or len(value) != 2:
         raise InputError(f"{field}: expected a point [z, y], got {brief(value)}")
-    return tuple(parse(v, "length", f"{field}[{k}]", units, within="section length")
+    return tuple(parse(v, "length", f"{field}[{k}]", units, within="section position")
                  for k, v in enumerate(value))
 
 
@@ -70,14 +72,14 @@ def _shape_polygon(table: dict, field: str, units: UnitSystem, extra_keys=()):
         _no_unknown(table, allowed, field)
         if "points" not in table:
             raise InputError(f"{field}.points: missing; expected a list of [z, y] points")
-        outer = _ring(table["points"], f"{field}.points", units)
         holes = table.get("holes", [])
         if not isinstance(holes, list):
             raise InputError(f"{field}.holes: expected a list of point lists")
-        count = len(table["points"]) + sum(len(h) if isinstance(h, list) else 0 for h in holes)
+        count = sum(len(r) if isinstance(r, list) else 0 for r in [table["points"], *holes])
         if count > MAX_POINTS:
             raise GeometryError(f"{field}.points: {count} points (outline and holes); at most "
                                 f"{MAX_POINTS} are accepted (simplify the outline)")
+        outer = _ring(table["points"], f"{field}.points", units)
         inner = [_ring(h, f"{field}.holes[{i + 1}]", units) for i, h in enumerate(holes)]
         outline = check_polygon(Polygon(outer), f"{field}.points")
         for i, h in enumerate(inner):
@@ -157,6 +159,10 @@ def section_from_spec(spec: dict, field: str = "section", units: UnitSystem | No
         raise InputError(f"{prefix}part: missing; expected one or more [[part]] tables")
     if not isinstance(parts_spec, list) or not all(isinstance(p, dict) for p in parts_spec):
         raise InputError(f"{prefix}part: expected [[part]] tables")
+    holes_spec = spec.get("hole", [])
+    for key, tables in (("part", parts_spec), ("hole", holes_spec)):
+        if isinstance(tables, list) and len(tables) > MAX_PARTS:
+            raise InputError(f"{prefix}{key}: {len(tables)} [[{key}]] tables; at most {MAX_PARTS} are accepted")
     default_material = spec.get("material")
     if default_material is not None and not isinstance(default_material, str):
         raise InputError(f"{prefix}material: expected a material name, got {brief(default_material)}")
@@ -164,7 +170,6 @@ def section_from_spec(spec: dict, field: str = "section", units: UnitSystem | No
     for i, table in enumerate(parts_spec):
         label = f"{prefix}part[{i + 1}]"
         polys.append((label, _placed(table, label, units, shapes), table.get("material", default_material)))
-    holes_spec = spec.get("hole", [])
     if not isinstance(holes_spec, list) or not all(isinstance(h, dict) for h in holes_spec):
         raise InputError(f"{prefix}hole: expected [[hole]] tables")
     for k, table in enumerate(holes_spec):

@@ -206,7 +206,7 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
     if combos is None or combos == []:  # anything else (a table, a number) goes to parse_beam
         loads = beam_data.get("load", data["beam"].get("load", []))
         loads = [loads] if isinstance(loads, dict) else loads if isinstance(loads, list) else []
-        cases = {t.get("case") for t in loads if isinstance(t, dict)}
+        cases = {t.get("case") for t in loads if isinstance(t, dict) and isinstance(t.get("case"), str)}
         if sw is not None:
             cases.add(sw)
         # no combinations: one strength combination of every case at factor 1
