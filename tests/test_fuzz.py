@@ -17,6 +17,7 @@ builds ten times more with other seeds. A failure prints the command and the inp
 from __future__ import annotations
 
 import contextlib
+import copy
 import io
 import json
 import math
@@ -32,7 +33,7 @@ import pytest
 from leanspan.cli import main
 
 EXAMPLES = Path(__file__).resolve().parents[1] / "data" / "examples"
-N_DEFAULT = 520
+N_DEFAULT = 800
 BATCHES = 8  # the inputs are split into this many test items
 
 MATERIALS_TOML = """\
@@ -106,10 +107,14 @@ def _scale_text(rng, v: str) -> str:
     """``"5 kN/m"`` -> the same unit with an extreme number, or the number with an odd unit."""
     m = re.match(r"\s*(-?[0-9.eE+-]+)\s*(.*)", v)
     if not m:
-        return rng.choice(BAD_VALUES) if rng.random() < 0.5 else v + " furlong"
+        return _bad(rng) if rng.random() < 0.5 else v + " furlong"
     if rng.random() < 0.7:
         return f"{rng.choice(['1e308', '-1e308', '1e-300', '0', '-1', 'nan', 'inf', '1e15', '1e-15'])} {m.group(2)}"
     return f"{m.group(1)} {rng.choice(UNITS)}"
+
+
+def _bad(rng):
+    return copy.deepcopy(rng.choice(BAD_VALUES))  # a fresh copy: later edits never reach the pool
 
 
 def mutate_tree(rng, data):
@@ -127,15 +132,15 @@ def mutate_tree(rng, data):
         if op < 0.12 and isinstance(parent, dict):
             del parent[key]
         elif op < 0.2 and isinstance(parent, dict):
-            parent[rng.choice(["W", "extra", "atx", "type2"])] = rng.choice(BAD_VALUES)
+            parent[rng.choice(["W", "extra", "atx", "type2"])] = _bad(rng)
         elif op < 0.45 and isinstance(value, str):
             parent[key] = _scale_text(rng, value)
         elif op < 0.6 and isinstance(value, (int, float)) and not isinstance(value, bool):
             parent[key] = value * rng.choice([1e300, 1e-300, -1.0, 0.0, 1e12, 1e-12, 1e6])
         elif op < 0.67 and isinstance(value, list):
-            parent[key] = value * rng.choice([0, 50, 3000]) if value else value
+            parent[key] = copy.deepcopy(value * rng.choice([0, 50, 3000])) if value else value
         else:
-            parent[key] = rng.choice(BAD_VALUES)
+            parent[key] = _bad(rng)
     return data
 
 

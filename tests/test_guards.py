@@ -176,3 +176,10 @@ def test_no_deflection_combination_prints_null(tmp_path, capsys):
     assert out["chosen"]["demands"]["v_abs"] is None
     assert main(["select", str(job)]) == 0
     assert capsys.readouterr().err.count("Warning") == 0
+
+
+@pytest.mark.parametrize("name", ["x" * 300, "a\x00b.csv"])
+def test_impossible_catalogue_file_name(tmp_path, capsys, name):
+    # was: OSError: [Errno 36] File name too long (found by the fuzz suite)
+    job = edited(tmp_path, "select-supplier.toml", lambda d: d["search"].__setitem__("catalog", name))
+    assert "search.catalog: file" in one_error(capsys, ["select", job])

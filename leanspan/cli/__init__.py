@@ -111,6 +111,7 @@ def check_outputs(args) -> None:
     from pathlib import Path
 
     from ..errors import InputError
+    from ..fileio import is_dir
 
     for name in OUTPUT_OPTIONS:
         value = getattr(args, name, None)
@@ -118,7 +119,7 @@ def check_outputs(args) -> None:
             continue
         if not value.strip():
             raise InputError(f"--{name}: empty file name; expected a file to write")
-        if Path(value).is_dir():
+        if is_dir(value):
             raise InputError(f"--{name} {value}: is a folder; expected a file name")
 
 

@@ -36,6 +36,7 @@ from ..beam import parse_beam
 from ..catalog.materials import get_material, materials_table
 from ..catalog.table import check_shape_names
 from ..errors import LeanspanError, SelectionError, brief
+from ..fileio import is_file
 from ..units import UnitSystem, check_number, display_factor, fmt, parse
 from .checks import limit_keys
 
@@ -171,14 +172,14 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
         if not isinstance(catalog, str):
             raise SelectionError(f"{p}search.catalog: expected a CSV file name, got {brief(catalog)}")
         catalog = Path(base_dir) / catalog
-        if not catalog.is_file() or not str(search_t["catalog"]).strip():
+        if not is_file(catalog) or not str(search_t["catalog"]).strip():
             raise SelectionError(f"{p}search.catalog: file {catalog} not found")
     mat_file = search_t.get("materials_file")
     if mat_file is not None:
         if not isinstance(mat_file, str) or not mat_file.strip():
             raise SelectionError(f"{p}search.materials_file: expected a file name, got {brief(mat_file)}")
         mat_file = Path(base_dir) / mat_file
-        if not mat_file.is_file():
+        if not is_file(mat_file):
             raise SelectionError(f"{p}search.materials_file: file {mat_file} not found")
     _check_names(families, series, materials, mat_file, p)
     sizes = {k: parse(search_t[k], "length", f"{p}search.{k}", units, within="section length")
