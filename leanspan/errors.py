@@ -22,7 +22,19 @@ __all__ = [
     "BeamError",
     "MechanismError",
     "SelectionError",
+    "NumericalError",
+    "brief",
 ]
+
+
+def brief(value, limit: int = 80) -> str:
+    """``repr(value)`` cut to ``limit`` characters, so that a message stays one short line.
+
+    >>> brief(list(range(100)), 20)
+    '[0, 1, 2, 3, 4, 5, 6… and 370 more characters'
+    """
+    text = repr(value)
+    return text if len(text) <= limit else f"{text[:limit]}… and {len(text) - limit} more characters"
 
 
 class LeanspanError(ValueError):
@@ -59,3 +71,7 @@ class MechanismError(BeamError):
 
 class SelectionError(InputError):
     """A bad search or limits table in a selection job."""
+
+
+class NumericalError(LeanspanError):
+    """A computation overflowed or gave no finite value (inputs at the edge of their ranges)."""

@@ -24,9 +24,30 @@ from pathlib import Path
 
 from .errors import InputError
 
-__all__ = ["read_text", "load_toml", "atomic_write", "protect_inputs"]
+__all__ = ["read_text", "load_toml", "atomic_write", "protect_inputs", "is_file", "is_dir"]
 
 _INPUTS: set[Path] = set()
+
+
+def is_file(path) -> bool:
+    """``Path(path).is_file()``, but False (not an exception) for a name too long for the system
+    or one holding a NUL character.
+
+    >>> is_file("x" * 5000), is_file("a" + chr(0) + "b")
+    (False, False)
+    """
+    try:
+        return Path(path).is_file()
+    except (OSError, ValueError):
+        return False
+
+
+def is_dir(path) -> bool:
+    """``Path(path).is_dir()``, False for an impossible name (see :func:`is_file`)."""
+    try:
+        return Path(path).is_dir()
+    except (OSError, ValueError):
+        return False
 
 
 def read_text(path, what: str = "text", error=InputError, encoding: str = "utf-8") -> str:
@@ -43,6 +64,8 @@ def read_text(path, what: str = "text", error=InputError, encoding: str = "utf-8
         raise error(f"{path}: is a folder, expected {what}") from None
     except OSError as exc:
         raise error(f"{path}: cannot read ({exc.strerror})") from None
+    except ValueError:  # a NUL character in the name
+        raise error(f"{path}: not a possible file name") from None
     try:
         return raw.decode(encoding)
     except UnicodeDecodeError:
@@ -85,13 +108,18 @@ def atomic_write(path, data: str | bytes) -> None:
     Raises
     ------
     InputError
-        If ``path`` is one of the inputs read in this run, or its folder is missing.
+        If ``path`` is empty, an existing folder, one of the inputs read in this run, or its
+        folder is missing.
     """
+    if not str(path).strip():
+        raise InputError("empty file name; expected a file to write")
     path = Path(path)
+    if is_dir(path):
+        raise InputError(f"{path}: is a folder; expected a file name")
     if path.resolve() in _INPUTS:
         raise InputError(f"{path}: refusing to overwrite an input file; choose another output name")
     folder = path.parent if str(path.parent) else Path(".")
-    if not folder.is_dir():
+    if not is_dir(folder):
         raise InputError(f"{path}: folder {folder} does not exist")
     mode = "wb" if isinstance(data, bytes) else "w"
     fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)

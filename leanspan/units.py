@@ -25,10 +25,11 @@ from __future__ import annotations
 from dataclasses import dataclass
 from functools import lru_cache
 import math
+import re
 
-from .errors import UnitsError
+from .errors import UnitsError, brief
 
-__all__ = ["KINDS", "UnitSystem", "parse", "unit_factor", "registry", "DISPLAY", "display_factor", "fmt", "utilisation_text"]
+__all__ = ["KINDS", "RANGES", "UnitSystem", "parse", "check_range", "check_number", "unit_factor", "registry", "DISPLAY", "display_factor", "fmt", "utilisation_text"]
 
 # Exact definitions: 1 in = 0.0254 m, 1 ft = 0.3048 m, 1 lbf = 4.4482216152605 N,
 # 1 lb = 0.45359237 kg. Every conversion in the program uses these.
@@ -52,6 +53,82 @@ KINDS: dict[str, tuple[str, int, int, int, str]] = {
     "frequency": ("1 / [time]", 0, 0, 0, "'8 Hz'"),
     "compliance": ("[time] ** 2 / [mass]", 1, -1, 0, "'1.5 mm/kN'"),
 }
+
+# The accepted magnitudes of every input quantity, by range name: (smallest non-zero, largest,
+# SI unit shown in messages). Zero passes (a position at 0, an unloaded case); within these bounds
+# no product or power the program forms can overflow a float. ``parse`` takes the range of its
+# ``kind`` unless told another (``within="section length"``).
+RANGES: dict[str, tuple[float, float, str]] = {
+    "length": (1e-6, 1e4, "m"),              # beams: lengths, spans, spacings, deflection limits
+    "position": (0.0, 1e4, "m"),             # beams: at, from, to
+    "section length": (1e-5, 100.0, "m"),    # section dimensions, size limits
+    "section position": (0.0, 100.0, "m"),   # polygon points, placements (at)
+    "element size": (1e-7, 100.0, "m"),      # section --element-size (the mesh budget bounds it too)
+    "area": (1e-12, 1e4, "m^2"),
+    "section modulus": (1e-18, 1e6, "m^3"),
+    "second moment": (1e-24, 1e8, "m^4"),
+    "force": (0.0, 1e12, "N"),
+    "force/length": (0.0, 1e12, "N/m"),     # distributed loads and spring stiffnesses
+    "moment": (0.0, 1e12, "N*m"),           # couples and rotational springs
+    "pressure": (1e-6, 1e12, "Pa"),          # stresses, moduli, area loads
+    "flexural stiffness": (1e-6, 1e16, "N*m^2"),
+    "density": (1e-3, 1e5, "kg/m^3"),
+    "mass/length": (0.0, 1e6, "kg/m"),
+    "frequency": (1e-3, 1e4, "Hz"),          # limits.min_frequency
+    "compliance": (1e-12, 1.0, "m/N"),       # limits.point_deflection
+    "factor": (0.0, 1e6, ""),                 # combination factors, span/N
+    "stress factor": (1e-6, 1e6, ""),        # limits.stress_factor
+    "angle": (0.0, 1e6, "degrees"),
+    "points": (3, 20000, "points"),          # vertices of one polygon (outline plus holes)
+    "parts": (1, 1000, "tables"),            # [[part]] or [[hole]] tables of one section
+}
+
+
+def check_range(value: float, within: str, field: str, error=UnitsError, shown=None) -> float:
+    """Return ``value`` if it is finite and 0 or of a magnitude in ``RANGES[within]``; else raise
+    ``error`` naming ``field`` and the accepted range (``shown`` is the value as the user wrote it).
+
+    >>> check_range(0.3, "section length", "part[1].b")
+    0.3
+    >>> check_range(1e300, "length", "beam.length", shown="1e300 m")
+    Traceback (most recent call last):
+    ...
+    leanspan.errors.UnitsError: beam.length: '1e300 m' is out of range; expected a magnitude from 1e-06 to 10000 m (or 0)
+    """
+    lo, hi, unit = RANGES[within]
+    text = repr(value if shown is None else shown)
+    if not math.isfinite(value):
+        raise error(f"{field}: expected a finite value, got {text}")
+    if value != 0 and not lo <= abs(value) <= hi:
+        unit = f" {unit}" if unit else ""
+        if isinstance(shown, (int, float)) and not isinstance(shown, bool) and value != _as_float(shown):
+            text += f" (= {value:.4g}{unit})"  # a bare number scaled by the file's units
+        accepted = f"at most {hi:g}{unit}" if lo == 0 else f"from {lo:g} to {hi:g}{unit} (or 0)"
+        raise error(f"{field}: {text} is out of range; expected a magnitude {accepted}")
+    return value
+
+
+def _as_float(x) -> float:
+    try:
+        return float(x)
+    except OverflowError:  # an integer beyond any float
+        return math.inf
+
+
+def check_number(value, within: str, field: str, error=UnitsError, expected: str = "a number") -> float:
+    """A plain number (not a bool, not text) within ``RANGES[within]``, as a float.
+
+    >>> check_number(1.35, "factor", "combination[1].factors.dead")
+    1.35
+    >>> check_number("x", "factor", "combination[1].factors.dead")
+    Traceback (most recent call last):
+    ...
+    leanspan.errors.UnitsError: combination[1].factors.dead: expected a number, got 'x'
+    """
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        raise error(f"{field}: expected {expected}, got {brief(value)}")
+    return check_range(_as_float(value), within, field, error, shown=value)
+
 
 _KIND_WORDS = {
     "length": "a length",
@@ -99,7 +176,7 @@ class UnitSystem:
             spec = {"length": spec}
         if not isinstance(spec, dict):
             raise UnitsError(f"{field}: expected a length unit such as \"mm\" or a table "
-                             f"{{length = \"mm\", force = \"kN\"}}, got {spec!r}")
+                             f"{{length = \"mm\", force = \"kN\"}}, got {brief(spec)}")
         unknown = set(spec) - {"length", "force", "mass"}
         if unknown:
             raise UnitsError(f"{field}: unknown key {sorted(unknown)[0]!r}; expected length, force or mass")
@@ -108,7 +185,7 @@ class UnitSystem:
             if key in spec:
                 text = spec[key]
                 if not isinstance(text, str):
-                    raise UnitsError(f"{field}.{key}: expected a unit name such as \"mm\", got {text!r}")
+                    raise UnitsError(f"{field}.{key}: expected a unit name such as \"mm\", got {brief(text)}")
                 factors[key], why = _si_factor(text, key)
                 if why == "unknown":
                     raise UnitsError(f"{field}.{key}: unknown unit {text!r}")
@@ -147,6 +224,8 @@ def _si_factor(text: str, kind: str) -> tuple[float | None, str]:
     fast = _FAST.get(kind, {})
     if key in fast:
         return fast[key], ""
+    if len(text) > _MAX_TEXT or not _powers_ok(text):
+        return None, "unknown"
     ureg = registry()
     try:
         q = ureg.Quantity(1.0, text)
@@ -155,7 +234,8 @@ def _si_factor(text: str, kind: str) -> tuple[float | None, str]:
     dim = KINDS[kind][0] if kind in KINDS else _MORE_KINDS[kind][0]
     if q.dimensionality != ureg.get_dimensionality(dim):
         return None, "kind"
-    return float(q.to_base_units().magnitude), ""
+    factor = float(q.to_base_units().magnitude)
+    return (factor, "") if math.isfinite(factor) and factor > 0 else (None, "unknown")
 
 
 def unit_factor(unit_text: str, kind: str, field: str, error=UnitsError) -> float:
@@ -190,7 +270,34 @@ def _describe(dimensionality) -> str:
     return "dimensionless" if not dimensionality else str(dimensionality)
 
 
-def parse(value, kind: str, field: str, units: UnitSystem | None = None) -> float:
+_MAX_TEXT = 100
+_POWER = re.compile(r"(\*\*|\^)")
+_UNIT_POWER = re.compile(r"[A-Za-z_]\s*(\*\*|\^)\s*\(?\s*[-+]?\d{1,2}(\.\d+)?\s*\)?")
+
+
+def _powers_ok(text: str) -> bool:
+    """Every ``**`` or ``^`` raises a unit name to a small number (``mm^2``, ``m**-1``): pint
+    evaluates numeric powers exactly, and ``9**9**9`` would never finish."""
+    return len(_POWER.findall(text)) == len(_UNIT_POWER.findall(text))
+
+
+@lru_cache(maxsize=4096)
+def _read_quantity(text: str, dim: str):
+    """``(problem, SI magnitude)`` of a quantity text: problem "" when it has dimension ``dim``,
+    else the words for what it is, or None when pint cannot read it (cached: jobs repeat values)."""
+    ureg = registry()
+    try:
+        q = ureg.Quantity(text)
+        if not hasattr(q, "dimensionality"):
+            return "dimensionless", None
+        if q.dimensionality != ureg.get_dimensionality(dim):
+            return _describe(q.dimensionality), None
+        return "", float(q.to_base_units().magnitude)
+    except Exception:  # pint's parse errors, a complex or non-numeric magnitude
+        return None, None
+
+
+def parse(value, kind: str, field: str, units: UnitSystem | None = None, within: str | None = None) -> float:
     """Parse ``value`` as a quantity of ``kind`` and return it as an SI float.
 
     Parameters
@@ -203,16 +310,19 @@ def parse(value, kind: str, field: str, units: UnitSystem | None = None) -> floa
         Where the value came from, for the error message (``"load[2].w"``).
     units : UnitSystem, optional
         Defaults for bare numbers.
+    within : str, optional
+        The entry of :data:`RANGES` the value must fall in (default: ``kind``'s own).
 
     Raises
     ------
     UnitsError
-        No unit where one is needed, an unknown unit, or a unit of the wrong kind.
+        No unit where one is needed, an unknown unit, a unit of the wrong kind, or a value
+        out of range.
     """
     dim, e_len, e_force, e_mass, example = KINDS[kind]
     word = _KIND_WORDS[kind]
     if isinstance(value, bool):
-        raise UnitsError(f"{field}: expected {word} (e.g. {example}), got {value!r}")
+        raise UnitsError(f"{field}: expected {word} (e.g. {example}), got {brief(value)}")
     if isinstance(value, (int, float)):
         units = units or UnitSystem()
         needs = [(units.length, e_len, "length"), (units.force, e_force, "force"), (units.mass, e_mass, "mass")]
@@ -224,24 +334,24 @@ def parse(value, kind: str, field: str, units: UnitSystem | None = None) -> floa
                 raise UnitsError(f"{field}: {value!r} has no unit; expected {word} such as {example} "
                                  f"(or declare a default {name} unit with units = ...)")
             factor *= unit**exp
-        result = float(value) * factor
-    elif isinstance(value, str):
-        ureg = registry()
         try:
-            q = ureg.Quantity(value.strip())
-        except Exception:
-            raise UnitsError(f"{field}: cannot read {value!r} as {word} (e.g. {example})") from None
-        if not hasattr(q, "dimensionality") or q.dimensionality != ureg.get_dimensionality(dim):
-            got = _describe(getattr(q, "dimensionality", {}))
-            if got == "dimensionless":
-                raise UnitsError(f"{field}: {value!r} has no unit; expected {word} such as {example}")
+            result = float(value) * factor
+        except OverflowError:  # an integer beyond any float
+            result = math.inf
+    elif isinstance(value, str):
+        if len(value) > _MAX_TEXT or not _powers_ok(value):
+            raise UnitsError(f"{field}: cannot read {value[:_MAX_TEXT]!r} as {word} (e.g. {example}; "
+                             f"at most {_MAX_TEXT} characters, powers only on unit names such as mm^2)")
+        got, result = _read_quantity(value.strip(), dim)
+        if got is None:
+            raise UnitsError(f"{field}: cannot read {value!r} as {word} (e.g. {example})")
+        if got == "dimensionless":
+            raise UnitsError(f"{field}: {value!r} has no unit; expected {word} such as {example}")
+        if got:
             raise UnitsError(f"{field}: expected {word} (e.g. {example}), got {value!r} ({got})")
-        result = float(q.to_base_units().magnitude)
     else:
-        raise UnitsError(f"{field}: expected {word} (e.g. {example}), got {value!r}")
-    if not math.isfinite(result):
-        raise UnitsError(f"{field}: expected a finite value, got {value!r}")
-    return result
+        raise UnitsError(f"{field}: expected {word} (e.g. {example}), got {brief(value)}")
+    return check_range(result, within or kind, field, shown=value)
 
 
 # Display units: kind -> (label, SI value of one display unit).

@@ -29,7 +29,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from ..errors import BeamError
+from ..errors import BeamError, brief
 
 __all__ = [
     "SUPPORT_TYPES",
@@ -54,9 +54,9 @@ def _num(value, where: str, positive=False, nonneg=False) -> float:
     try:
         x = float(value)
     except (TypeError, ValueError):
-        raise BeamError(f"{where}: expected a number, got {value!r}") from None
+        raise BeamError(f"{where}: expected a number, got {brief(value)}") from None
     if not math.isfinite(x):
-        raise BeamError(f"{where}: expected a finite value, got {value!r}")
+        raise BeamError(f"{where}: expected a finite value, got {brief(value)}")
     if positive and not x > 0:
         raise BeamError(f"{where}: expected a positive value, got {x:g}")
     if nonneg and x < 0:
@@ -85,7 +85,7 @@ class Support:
     def __post_init__(self):
         object.__setattr__(self, "at", _num(self.at, f"{self.where}.at"))
         if not isinstance(self.type, str) or self.type not in SUPPORT_TYPES:
-            raise BeamError(f"{self.where}.type: expected one of {', '.join(SUPPORT_TYPES)}, got {self.type!r}")
+            raise BeamError(f"{self.where}.type: expected one of {', '.join(SUPPORT_TYPES)}, got {brief(self.type)}")
         if self.type == "spring":
             if self.k is None and self.kr is None:
                 raise BeamError(f"{self.where}: a spring support needs k (force/length) and/or kr (moment per radian)")
@@ -196,11 +196,11 @@ class DeflectionLimit:
 
     def __post_init__(self):
         if (self.ratio is None) == (self.absolute is None):
-            raise BeamError(f"limit: give either span/ratio or an absolute length, got {self.text!r}")
+            raise BeamError(f"limit: give either span/ratio or an absolute length, got {brief(self.text)}")
         if self.ratio is not None and not (math.isfinite(self.ratio) and self.ratio > 0):
-            raise BeamError(f"limit: ratio must be positive, got {self.text!r}")
+            raise BeamError(f"limit: ratio must be positive, got {brief(self.text)}")
         if self.absolute is not None and not (math.isfinite(self.absolute) and self.absolute > 0):
-            raise BeamError(f"limit: length must be positive, got {self.text!r}")
+            raise BeamError(f"limit: length must be positive, got {brief(self.text)}")
 
     def allowed(self, span):
         """Allowed deflection (m) for a span (or overhang) length; works on arrays."""
@@ -242,9 +242,9 @@ class Combination:
 
     def __post_init__(self):
         if not isinstance(self.name, str) or not self.name.strip():
-            raise BeamError(f"{self.where}.name: expected a non-empty name, got {self.name!r}")
+            raise BeamError(f"{self.where}.name: expected a non-empty name, got {brief(self.name)}")
         if self.check not in ("strength", "deflection"):
-            raise BeamError(f"{self.where}.check: expected strength or deflection, got {self.check!r}")
+            raise BeamError(f"{self.where}.check: expected strength or deflection, got {brief(self.check)}")
         if self.limit is not None and self.check != "deflection":
             raise BeamError(f"{self.where}.limit: a limit needs check = \"deflection\"")
         if not self.factors:
@@ -339,7 +339,7 @@ class BeamModel:
         cases = []
         for ld in self.loads:
             if not isinstance(ld.case, str) or not ld.case.strip():
-                raise BeamError(f"{ld.where}.case: expected a load case name, got {ld.case!r}")
+                raise BeamError(f"{ld.where}.case: expected a load case name, got {brief(ld.case)}")
             if isinstance(ld, DistributedLoad):
                 on_beam(ld.start, f"{ld.where}.from")
                 on_beam(ld.end, f"{ld.where}.to")

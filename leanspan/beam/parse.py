@@ -33,11 +33,12 @@ leanspan.errors.UnitsError: load[1].w: expected a force per length (e.g. '5 kN/m
 
 from __future__ import annotations
 
+import bisect
 import re
 from pathlib import Path
 
-from ..errors import BeamError
-from ..units import UnitSystem, parse
+from ..errors import BeamError, brief
+from ..units import UnitSystem, check_number, parse
 from .model import (BeamModel, Combination, Couple, DeflectionLimit, DistributedLoad, PointLoad,
                     Stiffness, Support)
 
@@ -58,7 +59,7 @@ def _need(table: dict, key: str, where: str):
 
 def _only(table, allowed, where):
     if not isinstance(table, dict):
-        raise BeamError(f"{where}: expected a table, got {table!r}")
+        raise BeamError(f"{where}: expected a table, got {brief(table)}")
     extra = sorted(set(table) - set(allowed))
     if extra:
         raise BeamError(f"{where}: unknown key '{extra[0]}' (expected: {', '.join(sorted(allowed))})")
@@ -72,7 +73,7 @@ def _tables(data, beam, key, prefix):
     if isinstance(items, dict):
         items = [items]
     if not isinstance(items, list):
-        raise BeamError(f"{prefix}{key}: expected [[{key}]] tables, got {items!r}")
+        raise BeamError(f"{prefix}{key}: expected [[{key}]] tables, got {brief(items)}")
     return items
 
 
@@ -87,23 +88,24 @@ def parse_limit(value, where: str = "limit", units: UnitSystem | None = None) ->
         if m:
             ratio = float(m.group(1))
             if ratio <= 0:
-                raise BeamError(f"{where}: expected span/N with N > 0, got {value!r}")
+                raise BeamError(f"{where}: expected span/N with N > 0, got {brief(value)}")
+            check_number(ratio, "factor", f"{where}: N in span/N", BeamError)
             return DeflectionLimit(ratio=ratio, text=value)
         if "/" in value and not any(ch.isdigit() for ch in value.split("/")[0]):
             raise BeamError(f"{where}: expected \"span/N\" (e.g. \"span/360\") or a length such as "
-                            f"\"12 mm\", got {value!r}")
+                            f"\"12 mm\", got {brief(value)}")
     length = parse(value, "length", where, units)
     if length <= 0:
-        raise BeamError(f"{where}: expected a positive length, got {value!r}")
+        raise BeamError(f"{where}: expected a positive length, got {brief(value)}")
     return DeflectionLimit(absolute=length, text=str(value))
 
 
 def _stiffness_from_section(beam, base_dir, prefix, units, section_stiffness):
     spec, material, catalog = beam["section"], beam.get("material"), beam.get("catalog")
     if material is not None and not isinstance(material, str):
-        raise BeamError(f"{prefix}beam.material: expected a material name, got {material!r}")
+        raise BeamError(f"{prefix}beam.material: expected a material name, got {brief(material)}")
     if catalog is not None and not isinstance(catalog, str):
-        raise BeamError(f"{prefix}beam.catalog: expected a CSV file name, got {catalog!r}")
+        raise BeamError(f"{prefix}beam.catalog: expected a CSV file name, got {brief(catalog)}")
     if section_stiffness is None:
         raise BeamError(f"{prefix}beam.section: this reader takes EI only; a section needs a "
                         "stiffness maker (leanspan.select.member.section_stiffness)")
@@ -154,37 +156,43 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
             raise BeamError(f"{p}beam: give either length or spans, not both")
         spans = beam["spans"]
         if not isinstance(spans, list) or not spans:
-            raise BeamError(f"{p}beam.spans: expected a list of span lengths, got {spans!r}")
+            raise BeamError(f"{p}beam.spans: expected a list of span lengths, got {brief(spans)}")
         x, pos = 0.0, [0.0]
         for i, s in enumerate(spans):
             ls = parse(s, "length", f"{p}beam.spans[{i + 1}]", units)
             if not ls > 0:
-                raise BeamError(f"{p}beam.spans[{i + 1}]: expected a positive length, got {s!r}")
+                raise BeamError(f"{p}beam.spans[{i + 1}]: expected a positive length, got {brief(s)}")
             x += ls
             pos.append(x)
-        length = x
+        length = check_number(x, "length", f"{p}beam.spans (their total)", BeamError, "a total length")
         for i, xs in enumerate(pos):
             supports[xs] = Support(xs, "pin" if i == 0 else "roller", where=f"{p}beam.spans")
     else:
         length = parse(_need(beam, "length", f"{p}beam"), "length", f"{p}beam.length", units)
         if not length > 0:
-            raise BeamError(f"{p}beam.length: expected a positive length, got {beam['length']!r}")
+            raise BeamError(f"{p}beam.length: expected a positive length, got {brief(beam['length'])}")
     tol = 1e-9 * length
 
+    defaults = sorted(supports)  # a [[support]] at one of these replaces it
     for i, t in enumerate(_tables(data, beam, "support", p)):
         where = f"{p}support[{i + 1}]"
         _only(t, {"at", "type", "k", "kr"}, where)
-        at = parse(_need(t, "at", where), "length", f"{where}.at", units)
+        at = parse(_need(t, "at", where), "length", f"{where}.at", units, within="position")
         kind = _need(t, "type", where)
         k = parse(t["k"], "force/length", f"{where}.k", units) if "k" in t else None
         kr = parse(t["kr"], "moment", f"{where}.kr", units) if "kr" in t else None
         s = Support(at, kind, k, kr, where=where)
-        same = [x for x in supports if abs(x - at) <= tol and supports[x].where.endswith("beam.spans")]
-        for x in same:
-            del supports[x]
-        if any(abs(x - at) <= tol for x in supports):
+        j = bisect.bisect_left(defaults, at - tol)  # a default support within tol (they are far apart)
+        if j < len(defaults) and abs(defaults[j] - at) <= tol and defaults[j] in supports \
+                and supports[defaults[j]].where.endswith("beam.spans"):
+            del supports[defaults[j]]
+        if at in supports:
             raise BeamError(f"{where}.at: another support is already at x = {at:g} m")
         supports[at] = s
+    xs = sorted(supports)
+    for a, b in zip(xs, xs[1:]):  # sorted: a neighbour check finds every pair within tol
+        if b - a <= tol:
+            raise BeamError(f"{supports[b].where}.at: another support is already at x = {a:g} m")
 
     # stiffness and mass
     mass = None
@@ -206,8 +214,8 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
         for i, t in enumerate(_tables(data, beam, "stiffness", p)):
             where = f"{p}stiffness[{i + 1}]"
             _only(t, {"from", "to", "EI"}, where)
-            a = parse(_need(t, "from", where), "length", f"{where}.from", units)
-            b = parse(_need(t, "to", where), "length", f"{where}.to", units)
+            a = parse(_need(t, "from", where), "length", f"{where}.from", units, within="position")
+            b = parse(_need(t, "to", where), "length", f"{where}.to", units, within="position")
             EI = parse(_need(t, "EI", where), "flexural stiffness", f"{where}.EI", units)
             pieces.append(Stiffness(a, b, EI, where=where))
         pieces = tuple(pieces)
@@ -215,33 +223,34 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
         mass = parse(beam["mass_per_length"], "mass/length", f"{p}beam.mass_per_length", units)
     self_weight = beam.get("self_weight")
     if self_weight is not None and (not isinstance(self_weight, str) or not self_weight.strip()):
-        raise BeamError(f"{p}beam.self_weight: expected the name of a load case, got {self_weight!r}")
+        raise BeamError(f"{p}beam.self_weight: expected the name of a load case, got {brief(self_weight)}")
 
     hinges = []
     for i, t in enumerate(_tables(data, beam, "hinge", p)):
         where = f"{p}hinge[{i + 1}]"
         _only(t, {"at"}, where)
-        hinges.append(parse(_need(t, "at", where), "length", f"{where}.at", units))
+        hinges.append(parse(_need(t, "at", where), "length", f"{where}.at", units, within="position"))
 
     loads = []
     for i, t in enumerate(_tables(data, beam, "load", p)):
         where = f"{p}load[{i + 1}]"
         if not isinstance(t, dict):
-            raise BeamError(f"{where}: expected a table, got {t!r}")
+            raise BeamError(f"{where}: expected a table, got {brief(t)}")
         kind = _need(t, "type", where)
         if not isinstance(kind, str) or kind not in _LOAD_KEYS:
-            raise BeamError(f"{where}.type: expected point, moment, udl or linear, got {kind!r}")
+            raise BeamError(f"{where}.type: expected point, moment, udl or linear, got {brief(kind)}")
         _only(t, _LOAD_KEYS[kind] | {"type", "case"}, where)
         case = _need(t, "case", where)
         if not isinstance(case, str) or not case.strip():
-            raise BeamError(f"{where}.case: expected a load case name, got {case!r}")
+            raise BeamError(f"{where}.case: expected a load case name, got {brief(case)}")
 
         def get(key, kind_, default=None):
             if key not in t:
                 if default is not None:
                     return default
                 raise BeamError(f"{where}: missing '{key}'")
-            return parse(t[key], kind_, f"{where}.{key}", units)
+            return parse(t[key], kind_, f"{where}.{key}", units,
+                         within="position" if key in ("at", "from", "to") else None)
 
         if kind == "point":
             loads.append(PointLoad(case, get("P", "force"), get("at", "length"), where=where))
@@ -251,7 +260,7 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
             # with a spacing (or tributary width) the intensities are per area: w = q x spacing
             spacing = get("spacing", "length") if "spacing" in t else None
             if spacing is not None and not spacing > 0:
-                raise BeamError(f"{where}.spacing: expected a positive length, got {t['spacing']!r}")
+                raise BeamError(f"{where}.spacing: expected a positive length, got {brief(t['spacing'])}")
             per = "pressure" if spacing is not None else "force/length"
             scale = spacing if spacing is not None else 1.0
             if kind == "udl":
@@ -269,18 +278,25 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
         where = f"{p}combination[{i + 1}]"
         _only(t, {"name", "factors", "check", "limit", "pattern"}, where)
         name = _need(t, "name", where)
+        if not isinstance(name, str) or not name.strip():
+            raise BeamError(f"{where}.name: expected a combination name (text), got {brief(name)}")
         factors = _need(t, "factors", where)
         if not isinstance(factors, dict) or not factors:
             raise BeamError(f"{where}.factors: expected a table such as {{dead = 1.35, imposed = 1.5}}")
+        for case, f in factors.items():
+            check_number(f, "factor", f"{where}.factors.{case}", BeamError)
         check = t.get("check", "deflection" if "limit" in t else "strength")
         if "limit" in t and "check" not in t:
             notes.append(f"{where} {name!r}: a limit without check is taken as a deflection check")
         limit = parse_limit(t["limit"], f"{where}.limit", units) if "limit" in t else None
         pattern = t.get("pattern")
         if pattern is not None and not isinstance(pattern, str):
-            raise BeamError(f"{where}.pattern: expected the name of a load case, got {pattern!r}")
+            raise BeamError(f"{where}.pattern: expected the name of a load case, got {brief(pattern)}")
         combos.append(Combination(str(name), tuple(factors.items()), check, limit, pattern, where=where))
 
+    for key in ("name", "title", "description"):
+        if key in beam and not isinstance(beam[key], str):
+            raise BeamError(f"{p}beam.{key}: expected text, got {brief(beam[key])}")
     name = beam.get("title") or beam.get("name") or ""
     return BeamModel(length, tuple(sorted(supports.values(), key=lambda s: s.at)), pieces, tuple(loads),
                      tuple(hinges), tuple(combos), mass, self_weight, str(name), tuple(notes))

@@ -23,7 +23,7 @@ import csv
 import io
 from pathlib import Path
 
-from ..errors import CatalogError
+from ..errors import CatalogError, brief
 from ..units import unit_factor
 
 __all__ = ["split_header", "column_factor", "read_table", "to_float"]
@@ -108,7 +108,7 @@ def to_float(text: str, where: str, expected: str, error=CatalogError) -> float:
     except ValueError:
         if not text.strip():
             raise error(f"{where}: missing value; expected {expected}") from None
-        raise error(f"{where}: expected {expected} (a number), got {text!r}") from None
+        raise error(f"{where}: expected {expected} (a number), got {brief(text)}") from None
     if not math.isfinite(value):
-        raise error(f"{where}: expected a finite number, got {text!r}")
+        raise error(f"{where}: expected a finite number, got {brief(text)}")
     return value

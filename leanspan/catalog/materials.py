@@ -32,9 +32,9 @@ from functools import lru_cache
 from importlib import resources
 from pathlib import Path
 
-from ..errors import InputError, MaterialError
+from ..errors import InputError, MaterialError, brief
 from ..fileio import load_toml, protect_inputs
-from ..units import parse
+from ..units import check_range, parse
 from .csvfile import column_factor, read_table, to_float
 
 __all__ = ["KINDS", "Material", "materials_table", "get_material", "load_user_materials", "material_lookup",
@@ -95,7 +95,7 @@ class Material:
 
     def __post_init__(self):
         if not isinstance(self.name, str) or not self.name.strip():
-            raise MaterialError(f"material name must be non-empty text, got {self.name!r}")
+            raise MaterialError(f"material name must be non-empty text, got {brief(self.name)}")
         if self.kind not in KINDS:
             raise MaterialError(f"material {self.name!r}: kind {self.kind!r} unknown; "
                                 f"expected one of {', '.join(KINDS)}")
@@ -103,7 +103,7 @@ class Material:
             value = getattr(self, key)
             if not isinstance(value, (int, float)) or not math.isfinite(value) or value <= 0:
                 raise MaterialError(f"material {self.name!r}: {key} must be a positive number, "
-                                    f"got {value!r}")
+                                    f"got {brief(value)}")
 
     def as_dict(self) -> dict:
         """The row as a plain dict (the ``leanspan materials --json`` keys)."""
@@ -141,8 +141,9 @@ def _rows_from_csv(path, text=None, default_source="") -> list[dict]:
                 continue
             if name in _QUANTITIES:
                 words = _QUANTITIES[name][2]
-                row[name] = to_float(cell, f"{path}: row {line}: column {name!r}", words,
-                                     MaterialError) * factors[name]
+                where = f"{path}: row {line}: column {name!r}"
+                row[name] = check_range(to_float(cell, where, words, MaterialError) * factors[name],
+                                        _QUANTITIES[name][0], where, MaterialError, shown=cell)
             else:
                 row[name] = cell
         if not row.get("name"):
@@ -175,9 +176,8 @@ def _rows_from_toml(path) -> list[dict]:
                 kind, default, _ = _QUANTITIES[key]
                 try:
                     if isinstance(value, (int, float)) and not isinstance(value, bool):
-                        row[key] = float(value) * column_factor(default, kind, where, MaterialError)
-                        if not math.isfinite(row[key]):
-                            raise MaterialError(f"{where}.{key}: expected a finite number, got {value!r}")
+                        row[key] = check_range(float(value) * column_factor(default, kind, where, MaterialError),
+                                               kind, f"{where}.{key}", MaterialError, shown=value)
                     else:
                         row[key] = parse(value, kind, f"{where}.{key}")
                 except MaterialError:
@@ -186,7 +186,7 @@ def _rows_from_toml(path) -> list[dict]:
                     raise MaterialError(str(exc)) from None
             elif key in _TEXT:
                 if not isinstance(value, str):
-                    raise MaterialError(f"{where}.{key}: expected text, got {value!r}")
+                    raise MaterialError(f"{where}.{key}: expected text, got {brief(value)}")
                 row[key] = value
             else:
                 raise MaterialError(f"{where}: unknown key {key!r}; expected "
@@ -308,7 +308,7 @@ def get_material(name: str, extra=None) -> Material:
     if isinstance(name, Material):
         return name
     if not isinstance(name, str):
-        raise MaterialError(f"material name must be text, got {name!r}")
+        raise MaterialError(f"material name must be text, got {brief(name)}")
     keys = {_key(n): n for n in table}
     hit = keys.get(_key(name))
     if hit is not None:

@@ -33,6 +33,7 @@ import numpy as np
 from ..errors import CatalogError, GeometryError, MaterialError
 from ..fileio import protect_inputs
 from ..sections.families import FAMILIES
+from ..units import check_range
 from .csvfile import column_factor, read_table, to_float
 from .materials import get_material, materials_table
 
@@ -145,11 +146,14 @@ def read_user_catalog(path, materials: dict | None = None) -> UserCatalog:
                                        f"{', '.join(fam.all_keys)} (leave the cell blank)")
                 else:
                     unit = header[j][1] or "mm"
-                    value = to_float(cell, f"{where}: column {key!r}", f"a length in {unit}") * factor
+                    value = check_range(to_float(cell, f"{where}: column {key!r}", f"a length in {unit}") * factor,
+                                        "section length", f"{where}: column {key!r}", CatalogError, shown=cell)
                 values.setdefault(key, []).append(value)
             elif what == "tab":
-                value = np.nan if cell == "" else to_float(
-                    cell, f"{where}: column {key!r}", f"a tabulated {key}") * factor
+                value = np.nan if cell == "" else check_range(
+                    to_float(cell, f"{where}: column {key!r}", f"a tabulated {key}") * factor,
+                    "section length" if TABULATED[key][0] == "length" else TABULATED[key][0],
+                    f"{where}: column {key!r}", CatalogError, shown=cell)
                 block.tabulated.setdefault(key, []).append(value)
         material = cells[col["material"][0]] if "material" in col else ""
         if material:

@@ -4,6 +4,12 @@ Each subcommand lives in its own module here (``section``, ``beam``, ``catalog``
 ``materials``, ``select``, ``demo``) exposing ``add_parser(subparsers)`` and
 ``run(args) -> int``. Library code never prints or exits; this package does.
 Exit status: 0 success, 1 a search where nothing passes, 2 bad input.
+
+Around every command: numpy floating-point errors (overflow, 0/0, division by zero) raise
+and, like RuntimeWarnings, become one error line naming the :func:`stage` being computed;
+other Python warnings print as ``leanspan COMMAND: warning:`` lines; output paths are checked
+before any work (:func:`check_outputs`); results are checked for non-finite values before
+they are printed (:func:`check_finite`).
 """
 
 from __future__ import annotations
@@ -13,9 +19,11 @@ from contextlib import contextmanager
 import importlib
 import sys
 
-__all__ = ["main", "add_common", "emit_json", "option_paths", "warn"]
+__all__ = ["main", "add_common", "emit_json", "option_paths", "warn", "stage", "check_finite",
+           "check_outputs", "OUTPUT_OPTIONS"]
 
 COMMANDS = ["section", "beam", "catalog", "materials", "select", "demo"]
+OUTPUT_OPTIONS = ("csv", "report", "markdown", "plot")  # argparse names of output-path options
 
 
 def _parser(available):
@@ -54,7 +62,7 @@ def main(argv=None) -> int:
         parser.print_help()
         return 2
     try:
-        status = args.run(args)
+        status = _guarded(args)
     except LeanspanError as exc:
         print(f"leanspan {args.command}: error: {_with_file(exc, args)}", file=sys.stderr)
         return 2
@@ -64,6 +72,89 @@ def main(argv=None) -> int:
         print("leanspan: interrupted", file=sys.stderr)
         return 130
     return int(status or 0)
+
+
+def _guarded(args):
+    """``args.run(args)`` with floating-point errors raised and warnings kept off stderr."""
+    import warnings
+
+    import numpy as np
+
+    def show(message, category, *_rest, **_kw):
+        warn(args.command, f"{category.__name__}: {str(message).splitlines()[0] if str(message) else ''}")
+
+    check_outputs(args)
+    # underflow stays quiet: a tiny result rounding to zero is not an error
+    with np.errstate(over="raise", divide="raise", invalid="raise"), warnings.catch_warnings(), \
+            stage(f"leanspan {args.command}"):
+        warnings.simplefilter("error", RuntimeWarning)
+        warnings.showwarning = show
+        return args.run(args)
+
+
+@contextmanager
+def stage(what: str):
+    """Name what is being computed (``"solving the beam"``): a floating-point error or a
+    RuntimeWarning inside becomes a :class:`~leanspan.errors.NumericalError` naming it."""
+    from ..errors import NumericalError
+
+    try:
+        yield
+    except (FloatingPointError, RuntimeWarning) as exc:
+        text = str(exc).splitlines()[0] if str(exc) else type(exc).__name__
+        raise NumericalError(f"{what}: the computation left the range of floating point "
+                             f"({text}); check the magnitudes of the inputs") from None
+
+
+def check_outputs(args) -> None:
+    """Refuse an empty output path or an existing folder before any work is done."""
+    from pathlib import Path
+
+    from ..errors import InputError
+    from ..fileio import is_dir
+
+    for name in OUTPUT_OPTIONS:
+        value = getattr(args, name, None)
+        if value is None:
+            continue
+        if not value.strip():
+            raise InputError(f"--{name}: empty file name; expected a file to write")
+        if is_dir(value):
+            raise InputError(f"--{name} {value}: is a folder; expected a file name")
+
+
+def check_finite(obj, what: str, nullable=()) -> None:
+    """Raise :class:`~leanspan.errors.NumericalError` if a result holds NaN or an infinity.
+
+    ``nullable`` lists keys (``"deflection"``) or ``parent.key`` pairs (``"utilisation.deflection"``)
+    where NaN means "not applicable" and is printed as null or "-".
+
+    >>> check_finite({"a": [1.0, 2.0], "u": {"deflection": float("nan")}}, "x", {"u.deflection"})
+    >>> check_finite({"M_max": {"value": float("inf")}}, "the beam")
+    Traceback (most recent call last):
+    ...
+    leanspan.errors.NumericalError: the beam: M_max.value is inf, not a finite number; the inputs are probably beyond what the computation can carry
+    """
+    import math
+
+    from ..errors import NumericalError
+
+    def walk(o, path):
+        if isinstance(o, float):
+            if not math.isfinite(o) and not (path and (path[-1] in nullable or
+                                                         ".".join(path[-2:]) in nullable)):
+                raise NumericalError(f"{what}: {'.'.join(path) or 'the result'} is {o}, not a finite "
+                                     "number; the inputs are probably beyond what the computation can carry")
+        elif isinstance(o, dict):
+            for k, v in o.items():
+                walk(v, path + [str(k)])
+        elif isinstance(o, (list, tuple)):
+            for v in o:
+                walk(v, path)
+        elif hasattr(o, "tolist"):
+            walk(o.tolist(), path)
+
+    walk(obj, [])
 
 
 def _with_file(exc, args) -> str:
@@ -111,10 +202,13 @@ def add_common(p, units=True):
                        help="units of the readable output (default si: mm, kN, kN·m, MPa, kg/m)")
 
 
-def emit_json(obj) -> None:
-    """Print ``obj`` as JSON (NaN and infinities become null)."""
+def emit_json(obj, what: str = "the result", nullable=()) -> None:
+    """Print ``obj`` as JSON; NaN is printed as null where ``nullable`` allows it (see
+    :func:`check_finite`), anywhere else it is an error."""
     import json
     import math
+
+    check_finite(obj, what, nullable)
 
     def clean(o):
         if isinstance(o, float):

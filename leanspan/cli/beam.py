@@ -9,7 +9,7 @@ from __future__ import annotations
 from pathlib import Path
 
 from .. import CAUTION
-from . import add_common, emit_json, option_paths, warn
+from . import add_common, check_finite, emit_json, option_paths, stage, warn
 
 __all__ = ["add_parser", "run"]
 
@@ -34,10 +34,14 @@ def run(args) -> int:
 
     path = Path(args.file)
     data = load_toml(path)
-    model = parse_beam(data, path.parent, field_prefix=f"{path.name}: ", section_stiffness=section_stiffness)
+    with stage("reading the job"):
+        model = parse_beam(data, path.parent, field_prefix=f"{path.name}: ", section_stiffness=section_stiffness)
     for note in model.notes:
         warn("beam", note)
-    sol = solve(model)
+    with stage("solving the beam"):
+        sol = solve(model)
+        out = sol.to_json()
+    check_finite(out, "the beam's results")  # before any output is written
     plots = []
     if args.plot:
         from ..report.diagrams import plot_job
@@ -50,9 +54,8 @@ def run(args) -> int:
         with option_paths(("--report", args.report)):
             write_beam_sheet(sol, args.report, units=args.units, source=str(path))
     if args.json:
-        out = sol.to_json()
         out["caution"] = CAUTION
-        emit_json(out)
+        emit_json(out, "the beam's results")
     else:
         from ..report.beam_text import beam_text
 

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import sys
 
-from . import add_common, emit_json, option_paths, warn
+from . import add_common, check_finite, emit_json, option_paths, stage, warn
 
 __all__ = ["add_parser", "run"]
 
@@ -19,7 +19,7 @@ def _csv_list(values):
     out = []
     for v in values or []:
         out += [x.strip() for x in v.split(",") if x.strip()]
-    return out or None
+    return list(dict.fromkeys(out)) or None  # a name given twice is listed once
 
 
 def add_parser(subparsers):
@@ -47,14 +47,15 @@ def add_parser(subparsers):
 
 
 def _length(text, field):
-    from ..units import parse
+    from ..units import UnitSystem, parse
 
     if text is None:
         return None
     try:
-        return float(text) * 1e-3
+        value = float(text)  # a bare number is mm
     except ValueError:
-        return parse(text, "length", field)
+        return parse(text, "length", field, within="section length")
+    return parse(value, "length", field, UnitSystem(length=1e-3), within="section length")
 
 
 def _rows_json(df):
@@ -72,20 +73,23 @@ def run(args) -> int:
     from ..fileio import atomic_write
     from ..report.catalog_text import catalog_csv, catalog_text
 
-    df = catalog_table(families=_csv_list(args.family), materials=_csv_list(args.material),
-                       user_csv=args.file, builtin=(args.with_builtin or not args.file),
-                       material_table=args.materials_file,
-                       max_depth=_length(args.max_depth, "--max-depth"),
-                       min_depth=_length(args.min_depth, "--min-depth"),
-                       max_width=_length(args.max_width, "--max-width"),
-                       min_width=_length(args.min_width, "--min-width"))
+    with stage("computing the catalogue's properties"):
+        df = catalog_table(families=_csv_list(args.family), materials=_csv_list(args.material),
+                           user_csv=args.file, builtin=(args.with_builtin or not args.file),
+                           material_table=args.materials_file,
+                           max_depth=_length(args.max_depth, "--max-depth"),
+                           min_depth=_length(args.min_depth, "--min-depth"),
+                           max_width=_length(args.max_width, "--max-width"),
+                           min_width=_length(args.min_width, "--min-width"))
+        rows = _rows_json(df)
+    check_finite(rows, "the catalogue")  # before any output is written
     for w in df.attrs.get("warnings", []):
         warn("catalog", w)
     if args.csv:
         with option_paths(("--csv", args.csv)):
             atomic_write(args.csv, catalog_csv(df, args.units))
     if args.json:
-        emit_json(_rows_json(df))
+        emit_json(rows, "the catalogue")
         return 0
     print(catalog_text(df, args.units))
     return 0

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from . import add_common, emit_json, option_paths, warn
+from . import add_common, check_finite, emit_json, option_paths, stage, warn
 
 
 def add_parser(sub):
@@ -31,13 +31,19 @@ def run(args) -> int:
     from ..units import parse
 
     moment = parse(args.moment, "moment", "--moment") if args.moment is not None else None
-    size = parse(args.element_size, "length", "--element-size") if args.element_size is not None else None
+    size = parse(args.element_size, "length", "--element-size", within="element size") \
+        if args.element_size is not None else None
     if size is not None and not size > 0:
         from ..errors import InputError
 
         raise InputError(f"--element-size: expected a positive length, got {args.element_size!r}")
-    a = analyse_section(args.file, args.torsion, size, moment)
+    with stage("computing the section" + (" and its torsion" if args.torsion else "")):
+        a = analyse_section(args.file, args.torsion, size, moment)
     section, out, extra = a.section, a.values, a.extra
+    payload = dict(out)
+    if "stresses" in extra:
+        payload["stresses"] = extra["stresses"]
+    check_finite(payload, "the section's properties")  # before any output is written
     warning = pieces_warning(section, extra, args.file)
     if warning:
         warn("section", warning)
@@ -52,10 +58,7 @@ def run(args) -> int:
         with option_paths(("--report", args.report)):
             write_section_sheet(section, out, args.report, units=args.units, source=args.file)
     if args.json:
-        payload = dict(out)
-        if "stresses" in extra:
-            payload["stresses"] = extra["stresses"]
-        emit_json(payload)
+        emit_json(payload, "the section's properties")
         return 0
     print(section_text(section, out, extra, args.units, source=args.file))
     if args.plot:

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from . import add_common, emit_json, option_paths, warn
+from . import add_common, check_finite, emit_json, option_paths, stage, warn
 
 
 def add_parser(sub):
@@ -52,7 +52,11 @@ def finish(args, job, source) -> int:
         from ..errors import InputError
 
         raise InputError(f"--top: expected a positive number, got {args.top}")
-    sel = run_selection(job)
+    with stage("screening the candidates"):
+        sel = run_selection(job)
+        payload = {**sel.to_json(args.top), "caution": CAUTION}
+    nullable = not_applicable()
+    check_finite(payload, "the selection", nullable)  # before any output is written
     for w in sel.warnings:
         warn(args.command, w)
     with option_paths(("--csv", args.csv), ("--markdown", args.markdown)):
@@ -63,10 +67,10 @@ def finish(args, job, source) -> int:
         with option_paths(("--report", args.report)):
             write_selection_sheet(sel, args.report, units=args.units, source=source, top=args.top)
     if getattr(args, "plot", None):
-        with option_paths(("--plot", args.plot)):
+        with option_paths(("--plot", args.plot)), stage("drawing the chosen member"):
             plots = write_plots(sel, args.plot, args.units)
     if args.json:
-        emit_json({**sel.to_json(args.top), "caution": CAUTION})
+        emit_json(payload, "the selection", nullable)
     else:
         print(ranked_table_text(sel, args.units, args.top))
         if getattr(args, "report", None):
@@ -79,6 +83,19 @@ def finish(args, job, source) -> int:
         print()
         print(CAUTION)
     return 0 if sel.success else 1
+
+
+def not_applicable() -> set:
+    """Result keys where NaN means "not checked" (printed as null or "-"): the deflection
+    utilisation and demand without a deflection combination, and any further registered
+    check's (bending and shear always apply)."""
+    from ..select.checks import registered
+
+    keys = {"utilisation.deflection", "demands.v_abs"}
+    for check in registered():
+        if check.name not in ("bending", "shear"):
+            keys |= {f"utilisation.{check.name}", f"demands.{check.demand_key}"}
+    return keys
 
 
 def write_plots(sel, path, units):

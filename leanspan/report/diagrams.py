@@ -16,6 +16,7 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import InputError
+from ..fileio import is_dir
 from ..units import display_factor, fmt
 
 __all__ = ["governing", "loaded_beam_figure", "diagram_figure", "beam_and_diagrams_figure",
@@ -542,7 +543,7 @@ def _plot_kind(path: Path) -> str:
     kind = _FORMATS.get(path.suffix.lower())
     if kind is None:
         raise InputError(f"{path}: expected a file name ending in .svg, .png or .pdf")
-    if not (path.parent if str(path.parent) else Path(".")).is_dir():
+    if not is_dir(path.parent if str(path.parent) else Path(".")):
         raise InputError(f"{path}: folder {path.parent} does not exist")
     return kind
 

@@ -24,6 +24,7 @@ from pathlib import Path
 
 from .. import CAUTION, __version__
 from ..errors import InputError
+from ..fileio import is_dir
 from ..select.checks import not_checked
 from ..select.chosen import check_rows
 from ..units import display_factor, fmt
@@ -73,7 +74,7 @@ def _check_target(path) -> Path:
     if path.suffix.lower() not in (".html", ".htm"):
         raise InputError(f"{path}: expected a file name ending in .html")
     folder = path.parent if str(path.parent) else Path(".")
-    if not folder.is_dir():
+    if not is_dir(folder):
         raise InputError(f"{path}: folder {folder} does not exist")
     return path
 

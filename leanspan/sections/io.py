@@ -28,13 +28,18 @@ from __future__ import annotations
 import numpy as np
 
 
-from ..errors import GeometryError, InputError
+from ..errors import GeometryError, InputError, brief
 from ..fileio import load_toml
-from ..units import UnitSystem, parse
+from ..units import RANGES, UnitSystem, check_number, parse
 from .families import FAMILIES, get_family
 from .section import Part, Section, check_polygon, polygon_from_family, transform
 
 __all__ = ["section_from_spec", "load_section_file"]
+
+#: Most vertices one polygon part or hole may have (outline and holes together).
+MAX_POINTS = int(RANGES["points"][1])
+#: Most [[part]] (and, separately, [[hole]]) tables of one section.
+MAX_PARTS = int(RANGES["parts"][1])
 
 _PLACEMENT = ("shape", "material", "at", "rotate", "mirror", "units")
 _SECTION_KEYS = ("part", "hole", "units", "material", "title", "name", "description")
@@ -42,13 +47,14 @@ _SECTION_KEYS = ("part", "hole", "units", "material", "title", "name", "descript
 
 def _point(value, field, units):
     if not isinstance(value, (list, tuple)) or len(value) != 2:
-        raise InputError(f"{field}: expected a point [z, y], got {value!r}")
-    return tuple(parse(v, "length", f"{field}[{k}]", units) for k, v in enumerate(value))
+        raise InputError(f"{field}: expected a point [z, y], got {brief(value)}")
+    return tuple(parse(v, "length", f"{field}[{k}]", units, within="section position")
+                 for k, v in enumerate(value))
 
 
 def _ring(value, field, units):
     if not isinstance(value, (list, tuple)) or len(value) < 3:
-        raise GeometryError(f"{field}: expected at least three points [[z, y], ...], got {value!r}")
+        raise GeometryError(f"{field}: expected at least three points [[z, y], ...], got {brief(value)}")
     return [_point(p, f"{field}[{i + 1}]", units) for i, p in enumerate(value)]
 
 
@@ -66,10 +72,14 @@ def _shape_polygon(table: dict, field: str, units: UnitSystem, extra_keys=()):
         _no_unknown(table, allowed, field)
         if "points" not in table:
             raise InputError(f"{field}.points: missing; expected a list of [z, y] points")
-        outer = _ring(table["points"], f"{field}.points", units)
         holes = table.get("holes", [])
         if not isinstance(holes, list):
             raise InputError(f"{field}.holes: expected a list of point lists")
+        count = sum(len(r) if isinstance(r, list) else 0 for r in [table["points"], *holes])
+        if count > MAX_POINTS:
+            raise GeometryError(f"{field}.points: {count} points (outline and holes); at most "
+                                f"{MAX_POINTS} are accepted (simplify the outline)")
+        outer = _ring(table["points"], f"{field}.points", units)
         inner = [_ring(h, f"{field}.holes[{i + 1}]", units) for i, h in enumerate(holes)]
         outline = check_polygon(Polygon(outer), f"{field}.points")
         for i, h in enumerate(inner):
@@ -85,7 +95,7 @@ def _shape_polygon(table: dict, field: str, units: UnitSystem, extra_keys=()):
     dims = {}
     for key in fam.all_keys:
         if key in table:
-            dims[key] = parse(table[key], "length", f"{field}.{key}", units)
+            dims[key] = parse(table[key], "length", f"{field}.{key}", units, within="section length")
         elif key in fam.keys:
             raise GeometryError(f"{field}.{key}: missing; a {shape} needs {', '.join(fam.keys)}")
     for key, v in dims.items():
@@ -119,12 +129,11 @@ def _placed(table, field, units, describe=None):
         describe.append(_describe(table, poly, field, local))
     units = UnitSystem.from_spec(table["units"], f"{field}.units") if "units" in table else units
     at = _point(table["at"], f"{field}.at", units) if "at" in table else (0.0, 0.0)
-    rotate = table.get("rotate", 0.0)
-    if isinstance(rotate, bool) or not isinstance(rotate, (int, float)):
-        raise InputError(f"{field}.rotate: expected an angle in degrees (a number), got {rotate!r}")
+    rotate = check_number(table.get("rotate", 0.0), "angle", f"{field}.rotate", InputError,
+                          "an angle in degrees (a number)")
     mirror = table.get("mirror", False)
     if not isinstance(mirror, bool):
-        raise InputError(f"{field}.mirror: expected true or false, got {mirror!r}")
+        raise InputError(f"{field}.mirror: expected true or false, got {brief(mirror)}")
     return transform(poly, float(rotate), mirror, at)
 
 
@@ -137,7 +146,7 @@ def section_from_spec(spec: dict, field: str = "section", units: UnitSystem | No
         With the field path of the bad value (``part[2].tw``).
     """
     if not isinstance(spec, dict):
-        raise InputError(f"{field}: expected a table with [[part]] entries, got {spec!r}")
+        raise InputError(f"{field}: expected a table with [[part]] entries, got {brief(spec)}")
     prefix = "" if field == "section" else f"{field}."
     for key in spec:
         if key not in _SECTION_KEYS:
@@ -150,14 +159,17 @@ def section_from_spec(spec: dict, field: str = "section", units: UnitSystem | No
         raise InputError(f"{prefix}part: missing; expected one or more [[part]] tables")
     if not isinstance(parts_spec, list) or not all(isinstance(p, dict) for p in parts_spec):
         raise InputError(f"{prefix}part: expected [[part]] tables")
+    holes_spec = spec.get("hole", [])
+    for key, tables in (("part", parts_spec), ("hole", holes_spec)):
+        if isinstance(tables, list) and len(tables) > MAX_PARTS:
+            raise InputError(f"{prefix}{key}: {len(tables)} [[{key}]] tables; at most {MAX_PARTS} are accepted")
     default_material = spec.get("material")
     if default_material is not None and not isinstance(default_material, str):
-        raise InputError(f"{prefix}material: expected a material name, got {default_material!r}")
+        raise InputError(f"{prefix}material: expected a material name, got {brief(default_material)}")
     polys, shapes = [], []
     for i, table in enumerate(parts_spec):
         label = f"{prefix}part[{i + 1}]"
         polys.append((label, _placed(table, label, units, shapes), table.get("material", default_material)))
-    holes_spec = spec.get("hole", [])
     if not isinstance(holes_spec, list) or not all(isinstance(h, dict) for h in holes_spec):
         raise InputError(f"{prefix}hole: expected [[hole]] tables")
     for k, table in enumerate(holes_spec):
@@ -177,7 +189,7 @@ def section_from_spec(spec: dict, field: str = "section", units: UnitSystem | No
             raise GeometryError(f"{label}: does not cut any part; expected a hole inside the section")
     for label, _, mat in polys:
         if mat is not None and not isinstance(mat, str):
-            raise InputError(f"{label}.material: expected a material name, got {mat!r}")
+            raise InputError(f"{label}.material: expected a material name, got {brief(mat)}")
     parts = []
     for (label, poly, mat), shape in zip(polys, shapes):
         # a hole may cut a part into pieces (a bolt hole through a plate): keep each piece

@@ -43,11 +43,24 @@ from shapely.geometry import MultiPolygon, Polygon
 
 from ..errors import GeometryError
 
-__all__ = ["TriMesh", "mesh_section", "default_element_size", "check_parts", "MAX_ELEMENTS"]
+__all__ = ["TriMesh", "mesh_section", "default_element_size", "check_parts", "MAX_ELEMENTS",
+           "MAX_BOUNDARY_POINTS", "MAX_GRID_POINTS"]
 
 #: Cap on the element count that the default element size respects (keeps a default
-#: solve well under a second on a small machine).
+#: solve well under a second on a small machine); a given element size may reach 50 times it.
 MAX_ELEMENTS = 6000
+#: Work limits of one mesh, whatever the element size: boundary pieces (perimeter / h) and
+#: candidate interior points (bounding box / lattice cell). The default size keeps a tenth of each.
+MAX_BOUNDARY_POINTS = 200_000
+MAX_GRID_POINTS = 4_000_000
+
+
+def _work(whole, parts, h):
+    """Estimated (triangles, boundary pieces, lattice points) of a mesh of size ``h``."""
+    zmin, ymin, zmax, ymax = whole.bounds
+    perimeter = sum(p.length for p in parts)
+    grid = ((zmax - zmin) / h + 2.0) * ((ymax - ymin) / (0.866 * h) + 1.0)
+    return whole.area / (0.433 * h * h), perimeter / h, grid
 
 
 @dataclass(frozen=True)
@@ -177,8 +190,10 @@ def default_element_size(polygons, max_elements: int = MAX_ELEMENTS) -> float:
     diag = float(np.hypot(zmax - zmin, ymax - ymin))
     thick = min(2.0 * p.area / p.length for p in parts)
     h = min(0.5 * thick, diag / 20.0)
-    # an equilateral triangle of side h has area 0.433 h^2
-    h_floor = np.sqrt(whole.area / (0.433 * max_elements))
+    # an equilateral triangle of side h has area 0.433 h^2; a lattice cell is 0.866 h^2
+    h_floor = max(np.sqrt(whole.area / (0.433 * max_elements)),
+                  sum(p.length for p in parts) / (0.1 * MAX_BOUNDARY_POINTS),
+                  np.sqrt((zmax - zmin) * (ymax - ymin) / (0.866 * 0.05 * MAX_GRID_POINTS)))
     return float(max(h, h_floor))
 
 
@@ -308,12 +323,15 @@ def mesh_section(polygons, element_size: float | None = None, max_elements: int 
         if not (np.isfinite(h) and h > 0):
             raise GeometryError(f"element_size: expected a positive length, got {h * 1e3:g} mm")
     whole = shapely.union_all(parts)
-    n_est = whole.area / (0.433 * h * h)
-    if n_est > 50 * MAX_ELEMENTS:
-        raise GeometryError(
-            f"element_size: {h * 1e3:.4g} mm would give about {n_est:.3g} triangles; expected a larger "
-            f"element size (at least {np.sqrt(whole.area / (0.433 * 50 * MAX_ELEMENTS)) * 1e3:.3g} mm)"
-        )
+    n_est, n_edge, n_grid = _work(whole, parts, h)
+    limits = (n_est / (50 * MAX_ELEMENTS), n_edge / MAX_BOUNDARY_POINTS, n_grid / MAX_GRID_POINTS)
+    if max(limits) > 1:
+        what = ("triangles", "boundary pieces", "lattice points")[int(np.argmax(limits))]
+        count = (n_est, n_edge, n_grid)[int(np.argmax(limits))]
+        # work grows like 1/h (boundary) or 1/h^2: the size that brings the worst one in
+        need = h * max(limits[0] ** 0.5, limits[1], limits[2] ** 0.5) * 1.01
+        raise GeometryError(f"element_size: {h * 1e3:.4g} mm would give about {count:.3g} {what}; "
+                            f"expected a larger element size (at least {need * 1e3:.3g} mm)")
     bpts, seg = _noded_segments(parts, h)
     boundary = shapely.union_all([p.boundary for p in parts])
     ipts = _interior_points(whole, boundary, h)

@@ -35,8 +35,9 @@ import numpy as np
 from ..beam import parse_beam
 from ..catalog.materials import get_material, materials_table
 from ..catalog.table import check_shape_names
-from ..errors import LeanspanError, SelectionError
-from ..units import UnitSystem, display_factor, fmt, parse
+from ..errors import LeanspanError, SelectionError, brief
+from ..fileio import is_file
+from ..units import UnitSystem, check_number, display_factor, fmt, parse
 from .checks import limit_keys
 
 __all__ = ["SearchSpec", "Limits", "Job", "parse_job"]
@@ -63,7 +64,7 @@ class SearchSpec:
 
     def __post_init__(self):
         if self.objective not in ("mass", "depth"):
-            raise SelectionError(f"search.objective: expected mass or depth, got {self.objective!r}")
+            raise SelectionError(f"search.objective: expected mass or depth, got {brief(self.objective)}")
 
 
 @dataclass(frozen=True)
@@ -77,11 +78,11 @@ class Limits:
 
     def __post_init__(self):
         if self.stress_factor is not None and not self.stress_factor > 0:
-            raise SelectionError(f"limits.stress_factor: expected a positive number, got {self.stress_factor!r}")
+            raise SelectionError(f"limits.stress_factor: expected a positive number, got {brief(self.stress_factor)}")
         for name in ("bending_stress", "shear_stress"):
             v = getattr(self, name)
             if v is not None and not v > 0:
-                raise SelectionError(f"limits.{name}: expected a positive stress, got {v!r}")
+                raise SelectionError(f"limits.{name}: expected a positive stress, got {brief(v)}")
         if self.stress_factor is None and (self.bending_stress is None or self.shear_stress is None):
             missing = "bending_stress" if self.bending_stress is None else "shear_stress"
             raise SelectionError(f"limits.{missing}: missing; give bending_stress and shear_stress "
@@ -135,8 +136,8 @@ def _names(value, field):
     if isinstance(value, str):
         value = [value]
     if not isinstance(value, list) or not value or not all(isinstance(v, str) for v in value):
-        raise SelectionError(f"{field}: expected a name or a list of names, got {value!r}")
-    return tuple(value)
+        raise SelectionError(f"{field}: expected a name or a list of names, got {brief(value)}")
+    return tuple(dict.fromkeys(value))  # a name given twice is searched once
 
 
 def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
@@ -169,25 +170,28 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
     catalog = search_t.get("catalog")
     if catalog is not None:
         if not isinstance(catalog, str):
-            raise SelectionError(f"{p}search.catalog: expected a CSV file name, got {catalog!r}")
+            raise SelectionError(f"{p}search.catalog: expected a CSV file name, got {brief(catalog)}")
         catalog = Path(base_dir) / catalog
-        if not catalog.is_file():
+        if not is_file(catalog) or not str(search_t["catalog"]).strip():
             raise SelectionError(f"{p}search.catalog: file {catalog} not found")
     mat_file = search_t.get("materials_file")
     if mat_file is not None:
-        mat_file = Path(base_dir) / str(mat_file)
-        if not mat_file.is_file():
+        if not isinstance(mat_file, str) or not mat_file.strip():
+            raise SelectionError(f"{p}search.materials_file: expected a file name, got {brief(mat_file)}")
+        mat_file = Path(base_dir) / mat_file
+        if not is_file(mat_file):
             raise SelectionError(f"{p}search.materials_file: file {mat_file} not found")
     _check_names(families, series, materials, mat_file, p)
-    sizes = {k: parse(search_t[k], "length", f"{p}search.{k}", units) if k in search_t else None
+    sizes = {k: parse(search_t[k], "length", f"{p}search.{k}", units, within="section length")
+             if k in search_t else None
              for k in ("max_depth", "min_depth", "max_width", "min_width")}
     for k, v in sizes.items():
         if v is not None and not v > 0:
-            raise SelectionError(f"{p}search.{k}: expected a positive length, got {search_t[k]!r}")
+            raise SelectionError(f"{p}search.{k}: expected a positive length, got {brief(search_t[k])}")
     objective = search_t.get("objective", "mass")
     sw = search_t.get("self_weight", "dead")
     if sw is not None and not isinstance(sw, str):
-        raise SelectionError(f"{p}search.self_weight: expected a load case name or \"none\", got {sw!r}")
+        raise SelectionError(f"{p}search.self_weight: expected a load case name or \"none\", got {brief(sw)}")
     if sw == "none":
         sw = None
 
@@ -199,13 +203,16 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
     if sw is not None:
         beam["self_weight"] = sw
     beam_data["beam"] = beam
-    combos = list(beam_data.get("combination", data["beam"].get("combination", [])) or [])
-    if not combos:
-        cases = {t.get("case") for t in beam_data.get("load", []) if isinstance(t, dict)}
+    combos = beam_data.get("combination", data["beam"].get("combination"))
+    if combos is None or combos == []:  # anything else (a table, a number) goes to parse_beam
+        loads = beam_data.get("load", data["beam"].get("load", []))
+        loads = [loads] if isinstance(loads, dict) else loads if isinstance(loads, list) else []
+        cases = {t.get("case") for t in loads if isinstance(t, dict) and isinstance(t.get("case"), str)}
         if sw is not None:
             cases.add(sw)
         # no combinations: one strength combination of every case at factor 1
-        beam_data["combination"] = [{"name": "all cases", "factors": {c: 1.0 for c in sorted(cases) if c}}]
+        beam_data["combination"] = [{"name": "all cases",
+                                     "factors": {c: 1.0 for c in sorted(cases) if isinstance(c, str) and c}}]
         beam.pop("combination", None)
     model = parse_beam(beam_data, Path(base_dir), p, units=units)
     if sw is not None:
@@ -236,9 +243,7 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
 def _factor(value, field):
     if value is None:
         return None
-    if isinstance(value, bool) or not isinstance(value, (int, float)):
-        raise SelectionError(f"{field}: expected a number such as 0.6, got {value!r}")
-    return float(value)
+    return check_number(value, "stress factor", field, SelectionError, "a number such as 0.6")
 
 
 def _limit_value(value, kind, field, units):
@@ -249,7 +254,7 @@ def _limit_value(value, kind, field, units):
         return _factor(value, field)
     if kind == "text":
         if not isinstance(value, str):
-            raise SelectionError(f"{field}: expected a text value, got {value!r}")
+            raise SelectionError(f"{field}: expected a text value, got {brief(value)}")
         return value
     if kind == "lengths":
         if not isinstance(value, list):

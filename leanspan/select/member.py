@@ -31,7 +31,7 @@ from ..beam import Stiffness
 from ..catalog.materials import material_lookup
 from ..catalog.table import catalog_table, row_dims
 from ..errors import InputError, LeanspanError
-from ..fileio import load_toml
+from ..fileio import is_file, load_toml
 from ..sections.io import section_from_spec
 from ..sections.section import Section, polygon_from_family
 from ..sections.thin_walled import FAMILY_DIMENSIONS, thin_walled_torsion
@@ -174,7 +174,7 @@ def section_stiffness(spec, material, base_dir, field: str = "beam.section", uni
     >>> round(EI / 1e3, 1), round(mass, 3)
     (733.3, 8.4)
     """
-    if isinstance(spec, str) and not (Path(base_dir) / spec).is_file() and not spec.endswith(".toml"):
+    if isinstance(spec, str) and not is_file(Path(base_dir) / spec) and not spec.endswith(".toml"):
         return _catalogue_stiffness(spec, material, catalog, field)
     if isinstance(spec, str):
         path = Path(base_dir) / spec
