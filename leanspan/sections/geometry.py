@@ -96,6 +96,16 @@ def bounds(e: Edges):
     return z0.min(axis=1), z0.max(axis=1), y0.min(axis=1), y0.max(axis=1)
 
 
+def _shifted(e: Edges, origin):
+    """The edge end points relative to ``origin`` (subtracted first to keep round-off small) and
+    each edge's cross product ``z0 y1 - z1 y0`` (twice the signed area it sweeps about the origin)."""
+    z0, y0, z1, y1 = e
+    if origin is not None:
+        oz, oy = (np.asarray(o, float)[:, None] for o in origin)
+        z0, z1, y0, y1 = z0 - oz, z1 - oz, y0 - oy, y1 - oy
+    return z0, y0, z1, y1, z0 * y1 - z1 * y0
+
+
 def moments(e: Edges, origin=None) -> dict[str, np.ndarray]:
     """Area, first and second moments about axes through ``origin`` (default: z = y = 0).
 
@@ -103,11 +113,7 @@ def moments(e: Edges, origin=None) -> dict[str, np.ndarray]:
     ``Syz`` = ∫yz dA, each of shape (N,). ``origin`` is ``(z, y)`` arrays of shape
     (N,), subtracted first to keep round-off small.
     """
-    z0, y0, z1, y1 = e
-    if origin is not None:
-        oz, oy = (np.asarray(o, float)[:, None] for o in origin)
-        z0, z1, y0, y1 = z0 - oz, z1 - oz, y0 - oy, y1 - oy
-    cross = z0 * y1 - z1 * y0
+    z0, y0, z1, y1, cross = _shifted(e, origin)
     return {
         "A": cross.sum(axis=1) / 2.0,
         "Sy": (cross * (y0 + y1)).sum(axis=1) / 6.0,
@@ -130,11 +136,7 @@ def third_moments(e: Edges, origin=None) -> dict[str, np.ndarray]:
     >>> round(float(t["Syyy"][0]), 9), round(float(t["Syzz"][0]), 9)  # b h^4 / 20, b^3 h^2 / 60
     (8.1, 1.2)
     """
-    z0, y0, z1, y1 = e
-    if origin is not None:
-        oz, oy = (np.asarray(o, float)[:, None] for o in origin)
-        z0, z1, y0, y1 = z0 - oz, z1 - oz, y0 - oy, y1 - oy
-    cross = z0 * y1 - z1 * y0
+    z0, y0, z1, y1, cross = _shifted(e, origin)
     return {
         "Syyy": (cross * (y0 + y1) * (y0 * y0 + y1 * y1)).sum(axis=1) / 20.0,
         "Syzz": (cross * (3.0 * z0 * z0 * y0 + z0 * z0 * y1 + 2.0 * z0 * z1 * (y0 + y1) + z1 * z1 * y0
