@@ -281,10 +281,65 @@ def _powers_ok(text: str) -> bool:
     return len(_POWER.findall(text)) == len(_UNIT_POWER.findall(text))
 
 
+# The unit names job files use, exactly: SI value and (length, mass, time) exponents. A quantity
+# written with these alone ("5 kN/m", "2e13 N*mm^2") is read without building pint's registry
+# (about a second); anything else goes to pint. tests/test_units_fast.py holds the two to agree.
+_UNIT_TABLE = {
+    "m": (1.0, (1, 0, 0)), "mm": (1e-3, (1, 0, 0)), "cm": (1e-2, (1, 0, 0)), "km": (1e3, (1, 0, 0)),
+    "in": (_IN, (1, 0, 0)), "inch": (_IN, (1, 0, 0)), "ft": (_FT, (1, 0, 0)),
+    "N": (1.0, (1, 1, -2)), "kN": (1e3, (1, 1, -2)), "MN": (1e6, (1, 1, -2)), "lbf": (_LBF, (1, 1, -2)),
+    "kip": (_KIP, (1, 1, -2)),
+    "Pa": (1.0, (-1, 1, -2)), "kPa": (1e3, (-1, 1, -2)), "MPa": (1e6, (-1, 1, -2)), "GPa": (1e9, (-1, 1, -2)),
+    "psi": (_PSI, (-1, 1, -2)), "ksi": (1e3 * _PSI, (-1, 1, -2)),
+    "kg": (1.0, (0, 1, 0)), "g": (1e-3, (0, 1, 0)), "t": (1e3, (0, 1, 0)), "lb": (_LB, (0, 1, 0)),
+    "s": (1.0, (0, 0, 1)), "Hz": (1.0, (0, 0, -1)),
+}
+_NUMBER_UNIT = re.compile(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*([A-Za-z][A-Za-z0-9*/^]*)\s*$")
+_FACTOR = re.compile(r"^([A-Za-z]+)(?:\^([-+]?\d))?$")
+
+
+def _dim_vector(dim: str) -> tuple:
+    """``"[mass] / [length] / [time] ** 2"`` -> (-1, 1, -2): the (length, mass, time) exponents."""
+    out = {"length": 0, "mass": 0, "time": 0}
+    sign = 1
+    for token in re.findall(r"\[(\w+)\](?:\s*\*\*\s*(\d+))?|(/)", dim):
+        name, power, slash = token
+        if slash:
+            sign = -1
+        else:
+            out[name] += sign * int(power or 1)
+    return (out["length"], out["mass"], out["time"])
+
+
+def _fast_quantity(text: str):
+    """``(SI magnitude, exponents)`` of ``"5 kN/m"`` from :data:`_UNIT_TABLE`, or None to ask pint."""
+    m = _NUMBER_UNIT.match(text)
+    if not m:
+        return None
+    number, unit = m.groups()
+    num, slash, den = unit.partition("/")
+    if "/" in den or "*" in den or (slash and not den):
+        return None  # kN/m/m and kN/m*s (read left to right, (kN/m)*s) go to pint
+    factor, dims = 1.0, [0, 0, 0]
+    for part, sign in ((num, 1), (den, -1)):
+        for f in (part.split("*") if part else []):
+            fm = _FACTOR.match(f)
+            if not fm or fm.group(1) not in _UNIT_TABLE:
+                return None
+            power = sign * int(fm.group(2) or 1)
+            si, d = _UNIT_TABLE[fm.group(1)]
+            factor *= si**power
+            dims = [a + power * b for a, b in zip(dims, d)]
+    return float(number) * factor, tuple(dims)
+
+
 @lru_cache(maxsize=4096)
 def _read_quantity(text: str, dim: str):
     """``(problem, SI magnitude)`` of a quantity text: problem "" when it has dimension ``dim``,
     else the words for what it is, or None when pint cannot read it (cached: jobs repeat values)."""
+    fast = _fast_quantity(text)
+    if fast is not None and fast[1] == _dim_vector(dim):
+        return "", fast[0]
     ureg = registry()
     try:
         q = ureg.Quantity(text)
