@@ -276,3 +276,21 @@ def test_readme_command_runs(command, tmp_path, monkeypatch, capsys):
     assert main(argv) in (0, 1), command
     out = capsys.readouterr()
     assert "Traceback" not in out.err
+
+
+def test_the_cache_written_is_the_cache_read(tmp_path, monkeypatch):
+    """Every column the catalogue builds is in the cache file, so the next run loads it."""
+    import leanspan.catalog.table as table
+
+    monkeypatch.setenv("LEANSPAN_CACHE", str(tmp_path))
+    monkeypatch.delenv("LEANSPAN_NO_CACHE", raising=False)
+    table._builtin_columns.cache_clear()
+    try:
+        built = table.builtin_frame()
+        path = table.cache_file()
+        assert path.is_file()
+        loaded = table._load_cache(path)
+        assert loaded is not None and set(loaded) == set(built.columns) & set(loaded)
+        assert {"J", "Cw", "ys", "wagner"} <= set(loaded)
+    finally:
+        table._builtin_columns.cache_clear()

@@ -134,7 +134,7 @@ def _load_cache(path: Path) -> dict | None:
             cols = {k: z[k] for k in z.files}
     except Exception:  # missing, partial or foreign file: rebuild
         return None
-    if set(cols) != set(_TEXT_COLUMNS + DIM_KEYS + _keys()):
+    if set(cols) != set(_TEXT_COLUMNS + DIM_KEYS + _keys() + STABILITY_KEYS):
         return None
     return cols
 
