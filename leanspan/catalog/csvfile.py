@@ -78,7 +78,8 @@ def read_table(path, error=CatalogError, text: str | None = None):
     try:
         for cells in reader:
             line = reader.line_num
-            if not cells or all(not c.strip() for c in cells) or cells[0].lstrip().startswith("#"):
+            cells = [c.strip() for c in cells]
+            if not any(cells) or cells[0].startswith("#"):
                 continue
             if header is None:
                 header = [split_header(c) for c in cells]
@@ -87,7 +88,7 @@ def read_table(path, error=CatalogError, text: str | None = None):
                 if dup:
                     raise error(f"{path}: row {line}: column {sorted(dup)[0]!r} appears twice")
                 continue
-            rows.append((line, [c.strip() for c in cells]))
+            rows.append((line, cells))
     except csv.Error as exc:
         raise error(f"{path}: row {reader.line_num}: broken CSV ({exc})") from None
     if header is None:

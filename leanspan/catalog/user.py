@@ -33,7 +33,7 @@ import numpy as np
 from ..errors import CatalogError, GeometryError, MaterialError
 from ..fileio import protect_inputs
 from ..sections.families import FAMILIES
-from ..units import check_range
+from ..units import RANGES, check_range
 from .csvfile import column_factor, read_table, to_float
 from .materials import get_material, materials_table
 
@@ -115,8 +115,33 @@ def read_user_catalog(path, materials: dict | None = None) -> UserCatalog:
     if ignored:
         warnings.append(f"{path}: ignored columns (not a dimension or property): {', '.join(ignored)}")
     table = materials if materials is not None else materials_table()
+    found = _by_columns(path, header, rows, col, table)
+    blocks, raw, defaulted = found if found is not None else _by_rows(path, header, rows, col, table)
+    for assumed, lines in defaulted.items():  # a grade nobody chose must not pass unnoticed
+        shown = ", ".join(str(n) for n in lines[:8]) + (" ..." if len(lines) > 8 else "")
+        warnings.append(f"{path}: no material given in row(s) {shown}: assumed {assumed}; "
+                        "fill in the material column to be sure")
+    for fam_name, block in blocks.items():
+        fam = FAMILIES[fam_name]
+        given = {k: np.array(v) for k, v in raw[fam_name].items() if k in fam.all_keys}
+        given = {k: v for k, v in given.items() if k in fam.keys or not np.isnan(v).all()}
+        try:
+            dims = fam.complete(given)
+            fam.validate(dims, lambda i, b=block: f"{path}: row {b.lines[i]}")
+        except GeometryError as exc:
+            raise CatalogError(str(exc)) from None
+        block.dims = dims
+        block.tabulated = {k: np.array(v) for k, v in block.tabulated.items()}
+        generated = fam.designation(dims)
+        block.names = [n or g for n, g in zip(block.names, generated)]
+    return UserCatalog(path, blocks, warnings)
+
+def _by_rows(path, header, rows, col, table):
+    """The rows one at a time: the reference path, and the one that names the first bad cell."""
+    defaulted = {}
     blocks: dict[str, UserBlock] = {}
     raw: dict[str, dict[str, list]] = {}
+    resolved: dict[str, str] = {}
     for line, cells in rows:
         where = f"{path}: row {line}"
         if len(cells) > len(header):
@@ -157,31 +182,80 @@ def read_user_catalog(path, materials: dict | None = None) -> UserCatalog:
                 block.tabulated.setdefault(key, []).append(value)
         material = cells[col["material"][0]] if "material" in col else ""
         if material:
-            try:
-                material = get_material(material, table).name
-            except MaterialError as exc:
-                raise CatalogError(f"{where}: {exc}") from None
+            if material not in resolved:  # each distinct name is looked up once, not once a row
+                try:
+                    resolved[material] = get_material(material, table).name
+                except MaterialError as exc:
+                    raise CatalogError(f"{where}: {exc}") from None
+            material = resolved[material]
         else:
             material = DEFAULT_MATERIAL[fam_name]
             defaulted.setdefault(f"{material} ({fam_name})", []).append(line)
         block.materials.append(material)
         block.names.append(cells[col["name"][0]] if "name" in col else "")
         block.lines.append(line)
-    for assumed, lines in defaulted.items():  # a grade nobody chose must not pass unnoticed
-        shown = ", ".join(str(n) for n in lines[:8]) + (" ..." if len(lines) > 8 else "")
-        warnings.append(f"{path}: no material given in row(s) {shown}: assumed {assumed}; "
-                        "fill in the material column to be sure")
-    for fam_name, block in blocks.items():
-        fam = FAMILIES[fam_name]
-        given = {k: np.array(v) for k, v in raw[fam_name].items() if k in fam.all_keys}
-        given = {k: v for k, v in given.items() if k in fam.keys or not np.isnan(v).all()}
+    return blocks, raw, defaulted
+
+
+def _numbers(cells, factor, within):
+    """Cells (strings) -> SI floats (NaN where blank) and whether all are good: numbers, finite,
+    in the range ``within``; None when any is not (the row path then names it)."""
+    blank = cells == ""
+    out = np.full(cells.shape, np.nan)
+    try:
+        out[~blank] = cells[~blank].astype(float) * factor
+    except ValueError:
+        return None, blank
+    given = out[~blank]
+    lo, hi, _ = RANGES[within]
+    if not np.isfinite(given).all() or ((given != 0) & ((np.abs(given) < lo) | (np.abs(given) > hi))).any():
+        return None, blank
+    return out, blank
+
+
+def _by_columns(path, header, rows, col, table):
+    """The same result as :func:`_by_rows`, a column at a time; None if any cell needs a message."""
+    H = len(header)
+    if any(len(c) > H for _, c in rows):
+        return None
+    grid = np.array([c + [""] * (H - len(c)) for _, c in rows], dtype=object).reshape(len(rows), H)
+    lines = np.array([ln for ln, _ in rows], int)
+    fam_col = grid[:, col["family"][0]] if len(rows) else np.array([], object)
+    order = list(dict.fromkeys(fam_col))  # families in order of first appearance
+    if any(f not in FAMILIES for f in order):
+        return None
+    mats = grid[:, col["material"][0]] if "material" in col else np.full(len(rows), "", object)
+    resolved = {}
+    for name in set(mats) - {""}:  # each distinct material once
         try:
-            dims = fam.complete(given)
-            fam.validate(dims, lambda i, b=block: f"{path}: row {b.lines[i]}")
-        except GeometryError as exc:
-            raise CatalogError(str(exc)) from None
-        block.dims = dims
-        block.tabulated = {k: np.array(v) for k, v in block.tabulated.items()}
-        generated = fam.designation(dims)
-        block.names = [n or g for n, g in zip(block.names, generated)]
-    return UserCatalog(path, blocks, warnings)
+            resolved[name] = get_material(name, table).name
+        except MaterialError:
+            return None
+    blocks, raw, defaulted = {}, {}, {}
+    for f in order:  # a small set
+        fam = FAMILIES[f]
+        idx = np.flatnonzero(fam_col == f)
+        if any(k not in col for k in fam.keys):
+            return None
+        block, values = UserBlock(f), {}
+        for key, (j, what, factor) in col.items():
+            if what == "text":
+                continue
+            within = "section length" if what == "dim" or TABULATED[key][0] == "length" else TABULATED[key][0]
+            nums, blank = _numbers(grid[idx, j], factor, within)
+            if nums is None:
+                return None
+            if what == "dim":
+                if (key in fam.keys and blank.any()) or (key not in fam.all_keys and (~blank).any()):
+                    return None
+                values[key] = nums
+            else:
+                block.tabulated[key] = nums
+        m = mats[idx]
+        block.materials = [resolved[x] if x else DEFAULT_MATERIAL[f] for x in m]
+        if (m == "").any():
+            defaulted[f"{DEFAULT_MATERIAL[f]} ({f})"] = lines[idx][m == ""].tolist()
+        block.names = list(grid[idx, col["name"][0]]) if "name" in col else [""] * idx.size
+        block.lines = lines[idx].tolist()
+        blocks[f], raw[f] = block, values
+    return blocks, raw, defaulted

@@ -174,8 +174,18 @@ def _angle_rings(d):
 
 
 def _mm(x) -> str:
+    if isinstance(x, str):  # formatted already (see Family.designation)
+        return x
     x = float(x) * 1000.0
     return f"{x:.4g}" if abs(x) < 1e4 else f"{x:.0f}"
+
+
+def _mm_all(values) -> list:
+    """:func:`_mm` of many values, each distinct value formatted once (catalogues repeat them)."""
+    values = np.asarray(values, float)
+    uniq, inverse = np.unique(values, return_inverse=True)
+    text = np.array([_mm(u) for u in uniq], dtype=object)
+    return text[inverse.ravel()].tolist()
 
 
 @dataclass(frozen=True)
@@ -263,8 +273,9 @@ class Family:
 
     def designation(self, dims: dict) -> list[str]:
         """Names generated from dimensions, in millimetres."""
-        n = len(next(iter(dims.values())))
-        return [self.label({k: v[i] for k, v in dims.items()}) for i in range(n)]
+        keys = list(dims)
+        columns = [_mm_all(dims[k]) for k in keys]
+        return [self.label(dict(zip(keys, row))) for row in zip(*columns)]
 
 
 def _i_label(d):
