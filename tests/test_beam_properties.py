@@ -261,7 +261,7 @@ def determinate_and_continuous(draw):
     return BeamModel(L, sups, (Stiffness(0.0, L, draw(st.floats(1e3, 1e9))),), tuple(loads))
 
 
-@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow, HealthCheck.filter_too_much])
+@settings(max_examples=1000, deadline=None, suppress_health_check=[HealthCheck.too_slow, HealthCheck.filter_too_much])
 @given(determinate_and_continuous())
 def test_equilibrium_to_round_off(model):
     """Sum of vertical forces and of moments about x = 0 (reactions + applied loads) vanish to

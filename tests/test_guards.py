@@ -183,3 +183,27 @@ def test_impossible_catalogue_file_name(tmp_path, capsys, name):
     # was: OSError: [Errno 36] File name too long (found by the fuzz suite)
     job = edited(tmp_path, "select-supplier.toml", lambda d: d["search"].__setitem__("catalog", name))
     assert "search.catalog: file" in one_error(capsys, ["select", job])
+
+
+def test_progress_note_on_a_terminal_only():
+    """Work over a second shows 'working, N s' on a terminal, wiped at the end; a pipe sees nothing."""
+    import io
+    import time
+
+    from leanspan.cli import heartbeat
+
+    class Tty(io.StringIO):
+        def isatty(self):
+            return True
+
+    tty, pipe = Tty(), io.StringIO()
+    with heartbeat("select", after=0.05, every=0.05, stream=tty):
+        time.sleep(0.3)
+    with heartbeat("select", after=0.05, every=0.05, stream=pipe):
+        time.sleep(0.2)
+    assert "leanspan select: working, 0 s" in tty.getvalue() and tty.getvalue().endswith("\r\033[K")
+    assert pipe.getvalue() == ""
+    quick = Tty()
+    with heartbeat("beam", after=0.5, stream=quick):
+        pass
+    assert quick.getvalue() == ""  # quick work shows nothing

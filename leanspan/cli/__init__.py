@@ -86,10 +86,43 @@ def _guarded(args):
     check_outputs(args)
     # underflow stays quiet: a tiny result rounding to zero is not an error
     with np.errstate(over="raise", divide="raise", invalid="raise"), warnings.catch_warnings(), \
-            stage(f"leanspan {args.command}"):
+            stage(f"leanspan {args.command}"), heartbeat(args.command):
         warnings.simplefilter("error", RuntimeWarning)
         warnings.showwarning = show
         return args.run(args)
+
+
+@contextmanager
+def heartbeat(command: str, after: float = 1.0, every: float = 1.0, stream=None):
+    """On a terminal, a one-line progress note on stderr once work has taken ``after`` seconds
+    (``leanspan select: working, 3 s``), updated every ``every`` seconds and wiped at the end;
+    nothing when stderr is not a terminal (pipes, files, tests)."""
+    import threading
+    import time
+
+    stream = stream or sys.stderr
+    if not getattr(stream, "isatty", lambda: False)():
+        yield
+        return
+    start, done = time.monotonic(), threading.Event()
+
+    def beat():
+        if done.wait(after):
+            return
+        while not done.is_set():
+            stream.write(f"\rleanspan {command}: working, {time.monotonic() - start:.0f} s ")
+            stream.flush()
+            done.wait(every)
+        stream.write("\r\033[K")
+        stream.flush()
+
+    thread = threading.Thread(target=beat, daemon=True)
+    thread.start()
+    try:
+        yield
+    finally:
+        done.set()
+        thread.join(timeout=1.0)
 
 
 @contextmanager
