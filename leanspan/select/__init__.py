@@ -7,6 +7,7 @@ candidate under every combination, then the checks), :mod:`.search` (catalogue -
 ranked :class:`Selection`), :mod:`.chosen` (the chosen member, solved).
 
 >>> from pathlib import Path
+>>> from leanspan.select import parse_job, run_selection
 >>> job = parse_job({"beam": {"spans": ["3 m"]},
 ...                  "load": [{"case": "imposed", "type": "udl", "w": "2 kN/m"}],
 ...                  "search": {"families": ["sawn_metric"], "materials": ["C24"]},
@@ -16,16 +17,28 @@ ranked :class:`Selection`), :mod:`.chosen` (the chosen member, solved).
 (True, ['bending', 'shear', 'deflection', 'governing', 'passes'])
 """
 
-from .checks import Check, CheckRow, Effects, not_checked, register, registered, registered_check, unregister
-from .chosen import ChosenMember, chosen_member
-from .job import Job, Limits, SearchSpec, parse_job
-from .member import (Member, beam_with_member, member_arrays, member_from_row, member_from_section,
-                     section_stiffness)
-from .screen import Candidates, Screen, evaluate, screen, screen_loop
-from .search import Selection, candidate_table, run_selection
-
 __all__ = ["Check", "CheckRow", "Effects", "register", "unregister", "registered", "registered_check",
            "not_checked", "ChosenMember", "chosen_member", "Job", "Limits", "SearchSpec", "parse_job",
            "Member", "member_from_section", "member_from_row", "member_arrays", "section_stiffness",
            "beam_with_member", "Candidates", "Screen", "screen", "screen_loop", "evaluate",
-           "Selection", "run_selection", "candidate_table"]
+           "Selection", "run_selection", "candidate_table", "SectionAnalysis", "analyse_section"]
+
+# where each public name lives; imported on first use, so that a command needing one module
+# (``leanspan section`` needs section_analysis only) does not load the beam solver and pandas
+_WHERE = {**{n: "checks" for n in ("Check", "CheckRow", "Effects", "register", "unregister", "registered",
+                                   "registered_check", "not_checked")},
+          "ChosenMember": "chosen", "chosen_member": "chosen",
+          **{n: "job" for n in ("Job", "Limits", "SearchSpec", "parse_job")},
+          **{n: "member" for n in ("Member", "member_from_section", "member_from_row", "member_arrays",
+                                   "section_stiffness", "beam_with_member")},
+          **{n: "screen" for n in ("Candidates", "Screen", "screen", "screen_loop", "evaluate")},
+          **{n: "search" for n in ("Selection", "run_selection", "candidate_table")},
+          "SectionAnalysis": "section_analysis", "analyse_section": "section_analysis"}
+
+
+def __getattr__(name):
+    if name in _WHERE:
+        import importlib
+
+        return getattr(importlib.import_module(f"{__name__}.{_WHERE[name]}"), name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
