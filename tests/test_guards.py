@@ -207,3 +207,25 @@ def test_progress_note_on_a_terminal_only():
     with heartbeat("beam", after=0.5, stream=quick):
         pass
     assert quick.getvalue() == ""  # quick work shows nothing
+
+
+@pytest.mark.parametrize("table", ["load", "support"])
+def test_a_list_as_a_type(tmp_path, capsys, table):
+    # was: TypeError: unhashable type: 'list'
+    load = '[[load]]\ncase = "d"\ntype = []\nw = "1 kN/m"\n' if table == "load" else \
+        '[[load]]\ncase = "d"\ntype = "udl"\nw = "1 kN/m"\n'
+    support = '[[support]]\nat = "0 m"\ntype = []\n' if table == "support" else ""
+    job = tmp_path / "b.toml"
+    job.write_text(f'[beam]\nlength = "4 m"\nEI = "2000 kN*m^2"\n{support}{load}', encoding="utf-8")
+    assert main(["beam", str(job)]) == 2
+    err = capsys.readouterr().err.strip()
+    assert f"{table}[1].type: expected" in err and "\n" not in err
+
+
+def test_a_huge_rectangle_is_refused(tmp_path, capsys):
+    # was: exit 0 with nan/inf/null properties
+    sec = tmp_path / "s.toml"
+    sec.write_text('units = "mm"\n[[part]]\nshape = "rectangle"\nb = 1e154\nd = 1e154\n', encoding="utf-8")
+    assert main(["section", str(sec), "--json"]) == 2
+    err = capsys.readouterr().err.strip()
+    assert "part[1].b" in err and "out of range" in err
