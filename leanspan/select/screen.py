@@ -383,9 +383,15 @@ class FieldSampler:
         self.F = np.array([np.asarray(c.factors, float) for c in resp.combos]).reshape(len(resp.combos), -1)
 
     def _combined(self, name, elems):
-        """Coefficients (K, C_concrete, len(elems), n) of the combined field on elements ``elems``."""
+        """Coefficients (K, C_concrete, len(elems), n) of the combined field on elements ``elems``:
+        sum_u F_cu field_u + t_kc field_self-weight (t = the candidate's factored weight), for
+        ``"M"``, ``"V"`` or ``"v"`` (deflections of the unit-EI solve scaled by 1/EI_k)."""
         r = self.resp
-        field = {"M": r.M, "V": r.V}[name][:, :, elems, :]
+        field = {"M": r.M, "V": r.V, "v": r.v}[name]
+        scale = name == "v" and self.v_scale is not None
+        if scale:
+            field = r.v[:1] * r.EI[:1, None, :, None]
+        field = field[:, :, elems, :]
         sw = r.self_weight_index
         F = self.F.copy()
         t = self.mass_g[:, None] * (F[:, sw][None, :] if sw is not None else 0.0)  # (K, C)
@@ -400,6 +406,8 @@ class FieldSampler:
             if sw is not None:
                 Fk[:, :, sw] = t
             out = np.einsum("kcu,kuen->kcen", Fk, field)
+        if scale:
+            out = out * self.v_scale[:, None, None, None]
         return np.broadcast_to(out, (self.mass_g.size,) + out.shape[1:])
 
     def peak(self, name: str, a: float, b: float) -> np.ndarray:
@@ -434,26 +442,7 @@ class FieldSampler:
         r = self.resp
         x = np.atleast_1d(np.asarray(x, float))
         e = np.clip(np.searchsorted(r.x_nodes, x, side="right") - 1, 0, r.lengths.size - 1)
-        field = {"M": r.M, "V": r.V, "v": r.v}[name]
-        if name == "v" and self.v_scale is not None:  # unit-EI deflections, scaled per candidate below
-            field = r.v[:1] * r.EI[:1, None, :, None]
-        vals = _horner(field[:, :, e, :], (x - r.x_nodes[e])[None, None, :])  # (K|1, U, P)
-        sw = r.self_weight_index
-        F = self.F.copy()
-        t = self.mass_g[:, None] * (F[:, sw][None, :] if sw is not None else 0.0)  # (K, C)
-        if sw is not None:
-            F[:, sw] = 0.0
-        if vals.shape[0] == 1:
-            out = np.einsum("cu,up->cp", F, vals[0])[None] + (
-                t[:, :, None] * vals[0, sw][None, None, :] if sw is not None else 0.0)
-        else:
-            Fk = np.broadcast_to(F, (vals.shape[0],) + F.shape).copy()
-            if sw is not None:
-                Fk[:, :, sw] = t
-            out = np.einsum("kcu,kup->kcp", Fk, vals)
-        if name == "v" and self.v_scale is not None:
-            out = out * self.v_scale[:, None, None]
-        return np.broadcast_to(out, (self.mass_g.size,) + out.shape[1:])
+        return _horner(self._combined(name, e), (x - r.x_nodes[e]))  # (K, C, P)
 
 
 def screen_loop(model, cand: Candidates, self_weight_case=None) -> Screen:
