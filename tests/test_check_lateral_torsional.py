@@ -254,3 +254,41 @@ def test_an_angle_fails_the_check_without_a_crash(tmp_path, capsys):
     out = capsys.readouterr().out
     line = next(ln for ln in out.splitlines() if "angle" in ln)
     assert " inf " in line and line.rstrip().endswith("NO")
+
+
+def test_load_above_the_shear_centre_destabilises_in_hogging_too(tmp_path, capsys):
+    """A cantilever (hogging all along): gravity load on the top flange gives a lower Mcr than at
+    the centroid, and on the bottom flange a higher one (a load acting towards the shear centre
+    from above destabilises whatever the moment's sign; Trahair, Flexural-Torsional Buckling of
+    Structures, ch. 8, from memory)."""
+    job = """
+[beam]
+length = "2.5 m"
+[[support]]
+at = "0 m"
+type = "fixed"
+[[load]]
+case = "dead"
+type = "point"
+P = "4 kN"
+at = "2.5 m"
+[search]
+families = ["gen_steel_i"]
+self_weight = "none"
+max_depth = "200 mm"
+[limits]
+stress_factor = 0.6
+lateral_restraint = "supports"
+load_height = "{h}"
+"""
+    util = {}
+    for h in ("top", "centroid", "bottom"):
+        path = tmp_path / f"{h}.toml"
+        path.write_text(job.format(h=h), encoding="utf-8")
+        main(["select", str(path), "--json", "--top", "100"])
+        out = json.loads(capsys.readouterr().out)
+        util[h] = {c["name"]: c["utilisation"]["lateral_torsional"] for c in out["candidates"]}
+    common = set(util["top"]) & set(util["centroid"]) & set(util["bottom"])
+    assert common
+    for name in common:
+        assert util["top"][name] > util["centroid"][name] > util["bottom"][name]

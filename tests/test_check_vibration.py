@@ -232,3 +232,17 @@ def test_bad_input_is_one_line(tmp_path, capsys, extra, field):
     assert status == 2
     lines = cap.err.strip().splitlines()
     assert len(lines) == 1 and field in lines[0]
+
+
+def test_point_deflection_at_a_cantilever_tip():
+    """Fixed at x = 0, free at L: the unit load goes to the free tip, P L^3 / (3 EI) (handbooks);
+    fixed at x = L instead, the same at x = 0."""
+    from leanspan.beam.model import BeamModel, Stiffness, Support
+    from leanspan.beam.modal import point_flexibility
+
+    EI, L = 2e6, 3.0
+    for fixed_at, tip in ((0.0, L), (L, 0.0)):
+        m = BeamModel(L, (Support(fixed_at, "fixed"),), (Stiffness(0.0, L, EI),))
+        x, flex = point_flexibility(m, [EI])
+        assert float(x[0]) == tip
+        assert float(abs(flex[0, 0])) == pytest.approx(L**3 / (3 * EI), rel=1e-12)

@@ -80,3 +80,14 @@ def test_a_bad_cell_goes_to_the_row_reader(tmp_path, row):
     assert fast is None
     with pytest.raises(CatalogError, match="row 3"):
         slow()
+
+
+def test_defaulted_material_notes_in_row_order(tmp_path):
+    """Two families with blank materials, the later family's blank first: the notes agree."""
+    path = tmp_path / "list.csv"
+    path.write_text("family,b,d,material\nrectangle,45,200,C24\nbox,100,100,\nrectangle,45,220,\n"
+                    "box,120,120,\n".replace("box,100,100,", "circle,,60,").replace("box,120,120,", "circle,,70,"),
+                    encoding="utf-8")
+    fast, slow = _both(path)
+    assert fast is not None
+    _same(fast, slow())

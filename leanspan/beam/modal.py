@@ -335,8 +335,9 @@ def point_flexibility(model: BeamModel, EI=None):
     (2.5, 1.0)
     """
     L = model.length
-    xs = np.array([(a + b) / 2 if kind == "span" else (0.0 if a <= 1e-9 * L else L)
-                   for a, b, kind in model.spans])
+    held = [s.at for s in model.supports if s.vertical]
+    free = lambda a, b: a if not any(abs(x - a) <= 1e-9 * L for x in held) else b  # noqa: E731
+    xs = np.array([(a + b) / 2 if kind == "span" else free(a, b) for a, b, kind in model.spans])
     loads = tuple(PointLoad(f"unit {j}", 1.0, x) for j, x in enumerate(xs))
     unit = dataclasses.replace(model, loads=loads, combinations=(), self_weight=None, mass_per_length=None,
                                notes=())

@@ -258,4 +258,5 @@ def _by_columns(path, header, rows, col, table):
         block.names = list(grid[idx, col["name"][0]]) if "name" in col else [""] * idx.size
         block.lines = lines[idx].tolist()
         blocks[f], raw[f] = block, values
-    return blocks, raw, defaulted
+    # the "assumed material" notes in the order the row reader gives: by their first row
+    return blocks, raw, dict(sorted(defaulted.items(), key=lambda item: item[1][0]))

@@ -30,6 +30,7 @@ from ..beam.results import snap_round_off
 from .checks import Effects, active_checks
 from .job import Limits
 from .member import beam_with_member
+from .screen_reduce import to_parents
 
 __all__ = ["Candidates", "Screen", "screen", "screen_loop", "evaluate", "check_names"]
 
@@ -358,14 +359,13 @@ def _by_parent(out, parents, C):
                 red[k][:, c] = out[k][:, cols[0]]
             continue
         with np.errstate(invalid="ignore"):
-            red["M_max"][:, c] = np.fmax.reduce(out["M_max"][:, cols], axis=1)
-            red["M_min"][:, c] = np.fmin.reduce(out["M_min"][:, cols], axis=1)
-            red["V_abs"][:, c] = np.fmax.reduce(out["V_abs"][:, cols], axis=1)
             ratio = out["v_abs"][:, cols] / out["v_allowed"][:, cols]
         j = np.argmax(np.where(np.isnan(ratio), -np.inf, ratio), axis=1)
         rows = np.arange(K)
         red["v_abs"][:, c] = out["v_abs"][:, cols][rows, j]
         red["v_allowed"][:, c] = out["v_allowed"][:, cols][rows, j]
+    for key, reduce in (("M_max", np.fmax), ("M_min", np.fmin), ("V_abs", np.fmax)):
+        red[key] = to_parents(out[key], parents, C, reduce)
     return red
 
 

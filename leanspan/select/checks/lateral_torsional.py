@@ -18,13 +18,17 @@ of the European guidance on Mcr, from memory)::
                                    - (C2 zg - C3 zj) }
 
 with Iy the minor-axis second moment (about the vertical axis), J, Cw the torsion and warping
-constants, zg the height of the load above the shear centre and zj the mono-symmetry
-parameter ``(ys - yc) - wagner / (2 Iz)``, both measured towards the compressed flange
-(they change sign where the moment hogs). C1 comes from the segment's own moment diagram by
+constants, zg the height of the (gravity) load above the shear centre (destabilising above it,
+in sagging and hogging segments alike) and zj the mono-symmetry parameter
+``(ys - yc) - wagner / (2 Iz)``, measured towards the compressed flange (it changes sign where
+the moment hogs). Supports, spring supports included, count as lateral and torsional restraints. C1 comes from the segment's own moment diagram by
 the quarter-point formula ``12.5 Mmax / (2.5 Mmax + 3 MA + 4 MB + 3 MC)`` (capped at 3; ANSI/AISC
 360 Eq. F1-1, from memory); C2 and C3 from the segment's loading: 0.454 and 0.525 under a
 distributed load, 0.630 and 0.411 with a point load inside it, 0 and 1.0 under end moments
-alone (the tabulated values for those diagrams, from memory). Cantilever segments take C1 = 1.
+alone (the tabulated values for those diagrams, from memory), by the loads of each
+combination's own cases. Cantilever segments take C1 = 1 and the same C2/C3, with the effective
+length ``overhang_length_factor`` x L: a simple, conservative-leaning stand-in for cantilever
+tables, not a cantilever solution.
 
 **Resistance.** ``"curve"``: the general method of EN 1993-1-1 6.3.2.2 (from memory) with the
 relative slenderness ``lam = sqrt(S fy / Mcr)`` (S the smaller elastic modulus, fy the
@@ -46,6 +50,7 @@ from __future__ import annotations
 import numpy as np
 
 from ...errors import SelectionError
+from ..screen_reduce import to_parents
 from .registry import Check, register
 
 __all__ = ["LATERAL_TORSIONAL", "critical_moment", "reduction_factor", "moment_factor"]
@@ -133,14 +138,23 @@ def _segments(model, limits):
     return segs
 
 
-def _loading(model, a, b):
-    """C2, C3 of a segment from the loads on it (self-weight counts as distributed)."""
-    inside = lambda x: a + 1e-9 < x < b - 1e-9  # noqa: E731
-    if any(hasattr(ld, "P") and inside(ld.at) for ld in model.loads):
-        return 0.630, 0.411
-    if model.self_weight or any(hasattr(ld, "w1") and ld.start < b and ld.end > a for ld in model.loads):
-        return 0.454, 0.525
-    return 0.0, 1.0
+def _loading(model, combos, unit_cases, a, b, cantilever=False):
+    """C2, C3 (arrays over the concrete combinations) of a segment from the loads of each
+    combination's own cases on it (its self-weight counts as distributed); on a cantilever a
+    point load at the free tip counts too."""
+    tol = 1e-9 * model.length
+    tip = [x for x in (a, b) if cantilever and not any(abs(s.at - x) <= tol for s in model.supports)]
+    inside = lambda x: a + tol < x < b - tol or any(abs(x - t) <= tol for t in tip)  # noqa: E731
+    C2, C3 = np.zeros(len(combos)), np.ones(len(combos))
+    for i, c in enumerate(combos):  # a small set
+        used = {unit_cases[u].split(" [")[0] for u in np.flatnonzero(np.asarray(c.factors) != 0)}
+        loads = [ld for ld in model.loads if ld.case in used]
+        if any(hasattr(ld, "P") and inside(ld.at) for ld in loads):
+            C2[i], C3[i] = 0.630, 0.411
+        elif (model.self_weight in used or "self-weight" in used
+              or any(hasattr(ld, "w1") and ld.start < b and ld.end > a for ld in loads)):
+            C2[i], C3[i] = 0.454, 0.525
+    return C2[None, :], C3[None, :]
 
 
 def _resistance_factor(Mcr, props, limits):
@@ -183,9 +197,11 @@ def _demand(eff, props):
         Mpk = sampler.peak("M", a, b)  # the exact extreme on the segment
         up = np.where(Mpk >= 0, 1.0, -1.0)  # sagging: the top flange is compressed
         C1 = 1.0 if cantilever else moment_factor(np.abs(Mpk), *(np.abs(M[..., j]) for j in (1, 2, 3)))
-        C2, C3 = _loading(model, a, b)
+        C2, C3 = _loading(model, sampler.resp.combos, sampler.resp.unit_cases, a, b, cantilever)
+        # zg: the load's height above the shear centre, destabilising above it whichever flange is
+        # compressed (gravity loads); zj follows the compressed flange
         Mcr = critical_moment(E[:, None], G[:, None], Iy[:, None], J[:, None], Cw[:, None], b - a, C1, C2, C3,
-                              zg=up * (y_load - ys)[:, None], zj=up * zj_up[:, None],
+                              zg=(y_load - ys)[:, None], zj=up * zj_up[:, None],
                               k=k_over if cantilever else 1.0)
         chi = _resistance_factor(Mcr[..., None], props, limits)[..., 0]
         with np.errstate(divide="ignore", invalid="ignore"):
@@ -194,12 +210,7 @@ def _demand(eff, props):
     tilted = ~np.isclose(np.abs(np.sin(np.radians(2 * props["theta"]))), 0.0, atol=1e-9)
     worst = np.where(tilted[:, None], np.inf, worst)  # principal axes tilted: not checkable here
     worst = np.where(strength[None, :], worst, np.nan)
-    out = np.full((K, C), np.nan)
-    for c in range(C):  # reduce pattern members to their combination
-        cols = np.flatnonzero(sampler.parents == c)
-        if cols.size:
-            out[:, c] = np.fmax.reduce(worst[:, cols], axis=1)
-    return out
+    return to_parents(worst, sampler.parents, C, np.fmax)
 
 
 def _allowable(props, limits, eff):

@@ -64,7 +64,8 @@ def _demand(eff, props):
     K = np.size(eff.EI)
     out = np.full((K, 2), np.nan)
     if f_min is not None:
-        out[:, 0] = 1.0 / fundamental_frequencies(eff.model, eff.EI, eff.mass_per_length, cases)
+        f1 = fundamental_frequencies(eff.model, eff.EI, eff.mass_per_length, cases)
+        out[:, 0] = np.where(f1 > 0, 1.0 / np.where(f1 > 0, f1, 1.0), np.inf)  # NaN or <= 0: fails
     if flex is not None:
         out[:, 1] = np.max(point_flexibility(eff.model, eff.EI)[1], axis=1)
     return out
