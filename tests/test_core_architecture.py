@@ -197,3 +197,24 @@ def test_an_inactive_check_adds_nothing(tmp_path, capsys):
 def _json_select(capsys, job, sheet):
     assert main(["select", str(job), "--json", "--report", str(sheet)]) == 0
     return json.loads(capsys.readouterr().out)
+
+
+def test_a_candidate_whose_data_cannot_be_checked_fails():
+    """A NaN property on one candidate: that candidate fails the check (inf), the others do not
+    change; a check with no applicable combination stays NaN (not applicable) for all."""
+    from pathlib import Path
+
+    from leanspan.select.job import parse_job
+    from leanspan.select.screen import Candidates, screen
+
+    job = parse_job({"beam": {"spans": ["4 m"]}, "load": [{"case": "dead", "type": "udl", "w": "2 kN/m"}],
+                     "search": {"families": ["rectangle"], "self_weight": "none"},
+                     "limits": {"stress_factor": 1.0}}, Path("."))
+    one = np.ones(3)
+    cand = Candidates.with_allowables(2e6 * one, 10 * one, 20e6 * one, 2e6 * one, Sz_top=1e-3 * one,
+                                      Sz_bot=1e-3 * one, shear_factor=np.array([75.0, np.nan, 75.0]))
+    res = screen(job.model, cand)
+    # tau = V x factor, V = w L / 2 (statics); the NaN row fails instead of passing
+    assert res.utilisation["shear"][0] == pytest.approx(2e3 * 4 / 2 * 75.0 / 2e6, rel=1e-12)
+    assert np.isinf(res.utilisation["shear"][1]) and not res.passes[1] and res.passes[0]
+    assert np.isnan(res.utilisation["deflection"]).all()  # no deflection combination: not applicable

@@ -165,10 +165,13 @@ def evaluate(effects: Effects, cand: Candidates) -> Screen:
         filled = np.where(np.isnan(u), -np.inf, u)
         j = np.argmax(filled, axis=1)
         none = np.isneginf(filled[rows, j])
-        util[check.name] = np.where(none, np.nan, u[rows, j])
+        # NaN for every candidate: the check does not apply to this job (no deflection limit);
+        # NaN for some only: their data could not be checked, so they fail rather than pass
+        none = none & none.all()
+        util[check.name] = np.where(none, np.nan, np.where(np.isneginf(filled[rows, j]), np.inf, u[rows, j]))
         demand[check.name] = np.where(none, np.nan, d[rows, j])
         allow[check.name] = np.where(none, np.nan, a[rows, j])
-        combo[check.name] = np.where(none, -1, j)
+        combo[check.name] = np.where(np.isneginf(filled[rows, j]), -1, j)
     names = list(util)
     stack = np.stack([util[c] for c in names], axis=1)
     filled = np.where(np.isnan(stack), -np.inf, stack)
