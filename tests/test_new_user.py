@@ -294,3 +294,14 @@ def test_the_cache_written_is_the_cache_read(tmp_path, monkeypatch):
         assert {"J", "Cw", "ys", "wagner"} <= set(loaded)
     finally:
         table._builtin_columns.cache_clear()
+
+
+def test_one_stress_factor_over_mixed_strength_bases_is_warned(capsys):
+    """C24 strengths are characteristic values (EN 338), S355's a yield (EN 10025-2): one factor
+    over both gets a warning; a timber-only job none."""
+    assert main(["demo"]) == 0
+    err = capsys.readouterr().err
+    assert "leanspan demo: warning: limits.stress_factor: 0.6 scales strengths of different bases" in err
+    assert "characteristic" in err and "yield" in err
+    assert main(["select", str(EXAMPLES / "select-floor-joist.toml")]) == 0
+    assert "different bases" not in capsys.readouterr().err

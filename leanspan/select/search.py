@@ -12,6 +12,7 @@ from functools import cached_property
 
 import numpy as np
 
+from ..catalog.materials import materials_table
 from ..catalog.table import catalog_table, row_dims
 from ..errors import SelectionError
 from ..units import utilisation_text
@@ -138,6 +139,26 @@ def _why_empty(search) -> str:
     return "the families, materials and size limits"
 
 
+def _mixed_bases(df, job) -> list:
+    """A warning when one stress factor scales strengths of different bases (characteristic
+    timber values, metal yields, allowable-stress reference values): one factor cannot suit all."""
+    lim = job.limits
+    if lim.stress_factor is None or (lim.bending_stress is not None and lim.shear_stress is not None):
+        return []
+    table = materials_table(job.search.materials_file)
+    by_basis = {}
+    for name in dict.fromkeys(df["material"]):  # the distinct materials, in table order
+        m = table.get(name)
+        if m is not None and m.basis:
+            by_basis.setdefault(m.basis, name)
+    if len(by_basis) < 2:
+        return []
+    shown = ", ".join(f"{b} ({n} ...)" for b, n in by_basis.items())
+    return [f"limits.stress_factor: {lim.stress_factor:g} scales strengths of different bases: {shown}; "
+            "one factor rarely suits them all: use a job per material kind or absolute bending_stress "
+            "and shear_stress"]
+
+
 def candidates_from_table(df, limits) -> Candidates:
     """Arrays for :func:`screen` from catalogue rows: each member's EI and mass, and the
     columns the registered checks read."""
@@ -202,6 +223,7 @@ def run_selection(job, table=None) -> Selection:
     """
     df = candidate_table(job.search) if table is None else table
     warnings = (list(df.attrs.get("warnings", [])) if hasattr(df, "attrs") else []) + list(job.model.notes)
+    warnings += _mixed_bases(df, job)
     if len(df) == 0:
         why = _why_empty(job.search) if table is None else "the given table"
         raise SelectionError(f"search: no catalogue rows match {why}; widen the search")
