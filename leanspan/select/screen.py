@@ -193,23 +193,29 @@ def _horner(coeffs, s):
     return out
 
 
-def _cubic_extremes(coef, L, x0):
-    """Exact max and min of cubics coef (K, E, 4) on [0, L_e]: ends and the roots of the
-    quadratic derivative (stable formula; a vanishing s^2 term leaves the linear root).
-    Returns {+1: (value, x), -1: (value, x)} over all elements."""
-    c1, c2, c3 = coef[..., 1], 2.0 * coef[..., 2], 3.0 * coef[..., 3]
+def _cubic_stations(coef, lo, hi):
+    """Where a cubic (coefficients ``coef`` (..., n <= 4), local s) can peak on [lo, hi]: both ends
+    and the real roots of its quadratic derivative inside (stable formula; a vanishing s^2 term
+    leaves the linear root). Returns s (..., 4); unused slots repeat ``lo``."""
+    n = coef.shape[-1]
+    c1 = coef[..., 1]
+    c2 = 2.0 * coef[..., 2] if n > 2 else np.zeros_like(c1)
+    c3 = 3.0 * coef[..., 3] if n > 3 else np.zeros_like(c1)
     disc = c2 * c2 - 4.0 * c3 * c1
     root = np.sqrt(np.maximum(disc, 0.0))
     q = -0.5 * (c2 + np.where(c2 >= 0, root, -root))
     with np.errstate(divide="ignore", invalid="ignore"):
         r1 = np.where(c3 != 0, q / c3, np.nan)
         r2 = np.where(q != 0, c1 / q, np.nan)
-    ok = disc >= 0
-    Lb = np.broadcast_to(L, r1.shape)
-    cands = [np.zeros_like(r1), Lb]
-    for r in (r1, r2):
-        cands.append(np.where(ok & (r > 0) & (r < Lb), r, 0.0))
-    s = np.stack(cands, axis=-1)  # (K, E, 4)
+    lo, hi = np.broadcast_to(lo, c1.shape), np.broadcast_to(hi, c1.shape)
+    pts = [lo, hi] + [np.where((disc >= 0) & (r > lo) & (r < hi), r, lo) for r in (r1, r2)]
+    return np.stack(pts, axis=-1)
+
+
+def _cubic_extremes(coef, L, x0):
+    """Exact max and min of cubics coef (K, E, 4) on [0, L_e] (see :func:`_cubic_stations`).
+    Returns {+1: (value, x), -1: (value, x)} over all elements."""
+    s = _cubic_stations(coef, 0.0, L)  # (K, E, 4)
     vals = _horner(coef[..., None, :], s)
     out = {}
     K = coef.shape[0]
@@ -423,20 +429,7 @@ class FieldSampler:
         coef = self._combined(name, elems)  # (K, C, E', n)
         lo = np.maximum(a, x0[elems]) - x0[elems]
         hi = np.minimum(b, x1[elems]) - x0[elems]
-        n = coef.shape[-1]
-        c1 = coef[..., 1]
-        c2 = 2.0 * coef[..., 2] if n > 2 else np.zeros_like(c1)
-        c3 = 3.0 * coef[..., 3] if n > 3 else np.zeros_like(c1)
-        disc = c2 * c2 - 4.0 * c3 * c1
-        root = np.sqrt(np.maximum(disc, 0.0))
-        q = -0.5 * (c2 + np.where(c2 >= 0, root, -root))
-        with np.errstate(divide="ignore", invalid="ignore"):
-            r1 = np.where(c3 != 0, q / c3, np.nan)
-            r2 = np.where(q != 0, c1 / q, np.nan)
-        pts = [np.broadcast_to(lo, c1.shape), np.broadcast_to(hi, c1.shape)]
-        for rt in (r1, r2):
-            pts.append(np.where((disc >= 0) & (rt > lo) & (rt < hi), rt, lo))
-        s = np.stack(pts, axis=-1)  # (K, C, E', 4)
+        s = _cubic_stations(coef, lo, hi)  # (K, C, E', 4)
         vals = _horner(coef[..., None, :], s).reshape(coef.shape[0], coef.shape[1], -1)
         j = np.argmax(np.abs(vals), axis=2)[..., None]
         return np.take_along_axis(vals, j, axis=2)[..., 0]
