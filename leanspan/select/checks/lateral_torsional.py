@@ -157,33 +157,41 @@ def _loading(model, combos, unit_cases, a, b, cantilever=False):
     return C2[None, :], C3[None, :]
 
 
-def _resistance_factor(Mcr, props, limits):
-    """chi (K, ...) per candidate from Mcr (K, ...) by the material's method."""
-    S = np.minimum(props["Sz_top"], props["Sz_bot"])[:, None, None]
-    f = np.asarray(props["strength_bending"], float)[:, None, None]
+def _curves(props):
+    """Per candidate (K,): the imperfection factor alpha and plateau lam0 of its material's
+    buckling curve, and whether it is timber (kcrit instead); computed once per screen."""
+    kind = np.asarray(props["kind"]).astype(str)
+    h_b = props["depth"] / props["width"]
+    rolled = np.isin(np.asarray(props["series"]).astype(str), _ROLLED)
+    is_i = np.asarray(props["family"]).astype(str) == "ibeam"
+    alpha = np.where(is_i & rolled, np.where(h_b <= 2, 0.21, 0.34),
+                     np.where(is_i, np.where(h_b <= 2, 0.49, 0.76), 0.76))
+    alpha = np.select([kind == "stainless", kind == "aluminium"], [0.76, 0.20], alpha)
+    lam0 = np.select([kind == "stainless", kind == "aluminium"], [0.4, 0.4], 0.2)
+    return alpha, lam0, np.isin(kind, ("timber", "glulam"))
+
+
+def _resistance_factor(Mcr, S, f, curves, limits):
+    """chi (K, C) from Mcr (K, C), the smaller elastic modulus S and strength f (K, 1) by the
+    material's method (``curves`` from :func:`_curves`, each (K, 1))."""
     with np.errstate(divide="ignore", invalid="ignore"):
         if limits.get("lateral_torsional_method", "curve") == "ratio":
             r = limits.get("max_moment_ratio", 1.0)
             return np.minimum(1.0, r * Mcr / (S * limits.bending_allowable(f)))
         lam = np.sqrt(S * f / Mcr)
-    kind = np.asarray(props["kind"]).astype(str)[:, None, None]
-    h_b = (props["depth"] / props["width"])[:, None, None]
-    rolled = np.isin(np.asarray(props["series"]).astype(str), _ROLLED)[:, None, None]
-    is_i = np.asarray(props["family"]).astype(str)[:, None, None] == "ibeam"
-    alpha = np.where(is_i & rolled, np.where(h_b <= 2, 0.21, 0.34),
-                     np.where(is_i, np.where(h_b <= 2, 0.49, 0.76), 0.76))
-    chi = reduction_factor(lam, alpha, 0.2)
-    chi = np.where(kind == "stainless", reduction_factor(lam, 0.76, 0.4), chi)
-    chi = np.where(kind == "aluminium", reduction_factor(lam, 0.20, 0.4), chi)
-    return np.where(np.isin(kind, ("timber", "glulam")), _kcrit(lam), chi)
+    alpha, lam0, timber = curves
+    return np.where(timber, _kcrit(lam), reduction_factor(lam, alpha, lam0))
 
 
 def _demand(eff, props):
     limits, model, sampler = eff.limits, eff.model, eff.sampler
     K, C = eff.M_max.shape
     strength = np.array([c.check == "strength" for c in sampler.resp.combos])
-    fractile = np.array([_FRACTILE.get(k, 1.0) for k in np.asarray(props["kind"]).astype(str)])
+    kind = np.asarray(props["kind"]).astype(str)
+    fractile = np.select([kind == k for k in _FRACTILE], list(_FRACTILE.values()), 1.0)
     E, G = props["E"] * fractile, props["G"] * fractile
+    curves = tuple(c[:, None] for c in _curves(props))
+    f = np.asarray(props["strength_bending"], float)[:, None]
     Iy, Iz, J, Cw = props["Iy"], props["Iz"], props["J"], props["Cw"]
     ys, yc, depth = props["ys"], props["yc"], props["depth"]
     y_load = {"top": depth, "centroid": yc, "bottom": np.zeros_like(depth)}[limits.get("load_height", "top")]
@@ -203,7 +211,7 @@ def _demand(eff, props):
         Mcr = critical_moment(E[:, None], G[:, None], Iy[:, None], J[:, None], Cw[:, None], b - a, C1, C2, C3,
                               zg=(y_load - ys)[:, None], zj=up * zj_up[:, None],
                               k=k_over if cantilever else 1.0)
-        chi = _resistance_factor(Mcr[..., None], props, limits)[..., 0]
+        chi = _resistance_factor(Mcr, S[:, None], f, curves, limits)
         with np.errstate(divide="ignore", invalid="ignore"):
             d = np.abs(Mpk) / (chi * S[:, None])
         worst = np.fmax(worst, np.where(np.isnan(d), np.inf, d))
