@@ -55,10 +55,8 @@ DIM_KEYS = ("d", "b", "tw", "tf", "t", "r", "b_top", "tf_top", "b_bot", "tf_bot"
 MATERIAL_COLUMNS = ("kind", "E", "G", "density", "strength_bending", "strength_shear",
                     "mass_per_length")
 _TEXT_COLUMNS = ("name", "family", "series", "material")
-
-
-def _keys():
-    return tuple(KEYS)
+# every column a block builds: what the disk cache must hold to be used
+_COLUMNS = _TEXT_COLUMNS + DIM_KEYS + tuple(KEYS) + STABILITY_KEYS
 
 
 def _block(series: str, family: str, dims: dict, names: list, materials) -> dict:
@@ -72,7 +70,7 @@ def _block(series: str, family: str, dims: dict, names: list, materials) -> dict
             "material": np.array(materials if not isinstance(materials, str) else [materials] * n, dtype=str)}
     for k in DIM_KEYS:
         cols[k] = dims[k] if k in dims else np.full(n, np.nan)
-    for k in _keys():
+    for k in KEYS:
         cols[k] = np.asarray(props[k], float)
     try:
         stab = family_stability(family, dims, cols["yc"], cols["zc"])
@@ -84,8 +82,7 @@ def _block(series: str, family: str, dims: dict, names: list, materials) -> dict
 
 
 def _concat(blocks: list[dict]) -> dict:
-    keys = _TEXT_COLUMNS + DIM_KEYS + _keys() + STABILITY_KEYS
-    return {k: np.concatenate([b[k] for b in blocks]) for k in keys}
+    return {k: np.concatenate([b[k] for b in blocks]) for k in _COLUMNS}
 
 
 def _build_builtin() -> dict:
@@ -134,7 +131,7 @@ def _load_cache(path: Path) -> dict | None:
             cols = {k: z[k] for k in z.files}
     except Exception:  # missing, partial or foreign file: rebuild
         return None
-    if set(cols) != set(_TEXT_COLUMNS + DIM_KEYS + _keys() + STABILITY_KEYS):
+    if set(cols) != set(_COLUMNS):
         return None
     return cols
 
