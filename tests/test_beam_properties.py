@@ -246,18 +246,21 @@ def determinate_and_continuous(draw):
         sups = tuple(Support(f * L, ends if i == 0 else "roller") for i, f in enumerate(fr))
     loads = []
     frac = st.floats(0.0, 1.0)
+    # magnitudes 0 or at least 1e-6 (N, N*m, N/m): below about 1e-300 floats go subnormal and lose
+    # relative precision, which no relative round-off bound survives (and no job carries such loads)
+    real = lambda top: st.one_of(st.just(0.0), st.floats(1e-6, top), st.floats(-top, -1e-6))  # noqa: E731
     for _ in range(draw(st.integers(1, 12))):
         what = draw(st.sampled_from(["point", "couple", "udl", "linear"]))
         at = draw(frac) * L
         if what == "point":
-            loads.append(PointLoad("A", draw(st.floats(-1e5, 1e5)), at))
+            loads.append(PointLoad("A", draw(real(1e5)), at))
         elif what == "couple":
-            loads.append(Couple("A", draw(st.floats(-1e5, 1e5)), at))
+            loads.append(Couple("A", draw(real(1e5)), at))
         else:
             end = min(L, at + draw(st.floats(1e-4, 1.0)) * L)
             assume(end - at > 1e-5 * L)
-            w1 = draw(st.floats(-2e4, 2e4))
-            loads.append(DistributedLoad("A", w1, w1 if what == "udl" else draw(st.floats(-2e4, 2e4)), at, end))
+            w1 = draw(real(2e4))
+            loads.append(DistributedLoad("A", w1, w1 if what == "udl" else draw(real(2e4)), at, end))
     return BeamModel(L, sups, (Stiffness(0.0, L, draw(st.floats(1e3, 1e9))),), tuple(loads))
 
 
