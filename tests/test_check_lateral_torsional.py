@@ -5,6 +5,7 @@ from __future__ import annotations
 
 import json
 import math
+from pathlib import Path
 
 import numpy as np
 import pytest
@@ -14,7 +15,13 @@ from shapely.geometry import Polygon
 from leanspan.cli import main
 from leanspan.sections.families import get_family
 from leanspan.sections.properties import family_properties, family_stability
-from leanspan.select.checks.lateral_torsional import critical_moment, moment_factor, reduction_factor
+
+ROOT = Path(__file__).resolve().parents[1]
+from leanspan.select.checks.lateral_torsional import (
+    critical_moment,
+    moment_factor,
+    reduction_factor,
+)
 
 E, G = 210e9, 81e9  # steel (EN 1993-1-1 3.2.6)
 
@@ -188,6 +195,13 @@ def test_check_through_the_command_line_equals_the_hand_chain(tmp_path, capsys):
         chi = min(1.0, 1 / (phi + math.sqrt(phi**2 - lam**2)))
         assert cand["utilisation"]["lateral_torsional"] == pytest.approx(M * 1e3 / (chi * S * 355e6), rel=1e-6)
         assert cand["utilisation"]["lateral_torsional"] >= cand["utilisation"]["bending"] * (1 - 1e-9)
+        if cand["rank"] == 1:  # the JSON details of the chosen (else closest) candidate
+            det = out["checks"]["lateral_torsional"]
+            assert det["Mcr"] == pytest.approx(Mcr, rel=1e-9)  # the closed form above
+            assert det["chi"] == pytest.approx(chi, rel=1e-6)
+            assert det["C1"] == pytest.approx(1.0, rel=1e-12)  # quarter-point formula, uniform moment
+            assert abs(det["M"]) == pytest.approx(M * 1e3, rel=1e-9)  # statics
+            assert (det["segment_start"], det["segment_end"]) == (0.0, L)
 
 
 def test_more_restraints_and_continuous_restraint(tmp_path, capsys):
@@ -292,3 +306,25 @@ load_height = "{h}"
     assert common
     for name in common:
         assert util["top"][name] > util["centroid"][name] > util["bottom"][name]
+
+
+@pytest.mark.parametrize("support", ['type = "roller"', 'type = "spring"\nk = "4000 kN/m"'])
+def test_json_details_reproduce_the_chosen_demand(tmp_path, capsys, support):
+    """checks.lateral_torsional of the chosen member: M / (chi S) is its sigma_lt demand (the
+    definition of the demand), also when a spring support batches the beam per candidate."""
+    from leanspan.catalog.table import catalog_table
+
+    src = (ROOT / "data" / "examples" / "select-steel-overhang.toml").read_text(encoding="utf-8")
+    src = src.replace('at = "6.0 m"\ntype = "roller"', 'at = "6.0 m"\n' + support, 1)
+    src = src.replace("[limits]", '[limits]\nlateral_restraint = "supports"', 1)
+    path = tmp_path / "job.toml"
+    path.write_text(src, encoding="utf-8")
+    assert main(["select", str(path), "--json"]) in (0, 1)
+    out = json.loads(capsys.readouterr().out)
+    best = out["chosen"] or out["candidates"][0]
+    det = out["checks"]["lateral_torsional"]
+    table = catalog_table()
+    row = table[(table.name == best["name"]) & (table.material == best["material"])].iloc[0]
+    S = min(row.Sz_top, row.Sz_bot)
+    assert abs(det["M"]) / (det["chi"] * S) == pytest.approx(best["demands"]["sigma_lt"], rel=1e-9)
+    assert det["segment_start"] < det["segment_end"]

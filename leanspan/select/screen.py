@@ -100,6 +100,17 @@ class Screen:
     passes: np.ndarray
     checks: tuple = ()  # the Check entries applied, in order
     columns: dict = field(default_factory=dict)  # full (K, C) demand of checks with demand_json
+    props: dict = field(default_factory=dict)  # the candidates' columns the checks read (K,)
+
+    def details(self, k: int) -> dict:
+        """``{check name: {key: value}}`` of candidate ``k`` from the checks that give details
+        (:attr:`Check.details`), in registry order."""
+        out = {}
+        for check in self.checks:
+            if check.details is not None:
+                props = {c: np.asarray(v)[[k]] for c, v in self.props.items()}
+                out[check.name] = check.details(self.effects.take(k), props)
+        return out
 
     def _over(self, name, reduce):
         a = getattr(self.effects, name)
@@ -177,7 +188,7 @@ def evaluate(effects: Effects, cand: Candidates) -> Screen:
     filled = np.where(np.isnan(stack), -np.inf, stack)
     governing = np.asarray(names, dtype=object)[np.argmax(filled, axis=1)]
     passes = np.all(np.isnan(stack) | (stack <= 1.0), axis=1)
-    return Screen(effects, demand, allow, combo, util, governing, passes, checks, columns)
+    return Screen(effects, demand, allow, combo, util, governing, passes, checks, columns, cand.props)
 
 
 def _grid(lengths):
@@ -387,9 +398,17 @@ class FieldSampler:
     (buckling segments, point deflections) read the fields here, still vectorised.
     """
 
-    def __init__(self, resp, parents, mass_g, v_scale=None):
+    def __init__(self, resp, parents, mass_g, v_scale=None, rows=None):
         self.resp, self.parents, self.mass_g, self.v_scale = resp, parents, mass_g, v_scale
+        self.rows = rows  # candidates of a batched (spring) response this sampler covers
         self.F = np.array([np.asarray(c.factors, float) for c in resp.combos]).reshape(len(resp.combos), -1)
+
+    def take(self, index) -> "FieldSampler":
+        """The sampler of candidates ``index`` only (for one candidate's details)."""
+        index = np.atleast_1d(index)
+        rows = index if self.rows is None else np.asarray(self.rows)[index]
+        return FieldSampler(self.resp, self.parents, self.mass_g[index],
+                            None if self.v_scale is None else self.v_scale[index], rows)
 
     def _combined(self, name, elems):
         """Coefficients (K, C_concrete, len(elems), n) of the combined field on elements ``elems``:
@@ -401,6 +420,8 @@ class FieldSampler:
         if scale:
             field = r.v[:1] * r.EI[:1, None, :, None]
         field = field[:, :, elems, :]
+        if field.shape[0] > 1 and self.rows is not None:
+            field = field[self.rows]
         sw = r.self_weight_index
         F = self.F.copy()
         t = self.mass_g[:, None] * (F[:, sw][None, :] if sw is not None else 0.0)  # (K, C)

@@ -106,7 +106,10 @@ class Selection:
         return out
 
     def to_json(self, top: int = 10) -> dict:
-        return {"chosen": self.chosen, "candidates": self.shown(top), "screened": self.screened}
+        """The JSON contract: ``chosen``, ``candidates`` (the shown rows), ``screened`` and
+        ``checks`` (each check's details for the chosen, else the closest, candidate)."""
+        return {"chosen": self.chosen, "candidates": self.shown(top), "screened": self.screened,
+                "checks": self.result.details(int(self.order[0]))}
 
     @cached_property
     def chosen_member(self):

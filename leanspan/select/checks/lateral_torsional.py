@@ -183,10 +183,10 @@ def _resistance_factor(Mcr, S, f, curves, limits):
     return np.where(timber, _kcrit(lam), reduction_factor(lam, alpha, lam0))
 
 
-def _demand(eff, props):
+def _segment_results(eff, props):
+    """Per segment between restraints: ``(a, b, cantilever, M, C1, Mcr, chi, demand)``, the
+    arrays (K, C_concrete) (C1 a float on a cantilever)."""
     limits, model, sampler = eff.limits, eff.model, eff.sampler
-    K, C = eff.M_max.shape
-    strength = np.array([c.check == "strength" for c in sampler.resp.combos])
     kind = np.asarray(props["kind"]).astype(str)
     fractile = np.select([kind == k for k in _FRACTILE], list(_FRACTILE.values()), 1.0)
     E, G = props["E"] * fractile, props["G"] * fractile
@@ -198,7 +198,6 @@ def _demand(eff, props):
     zj_up = (ys - yc) - props["wagner"] / (2.0 * Iz)  # mono-symmetry, measured upwards
     S = np.minimum(props["Sz_top"], props["Sz_bot"])
     k_over = limits.get("overhang_length_factor", 2.0)
-    worst = np.full((K, len(strength)), -np.inf)
     for a, b, cantilever in _segments(model, limits):  # a small set
         x = np.linspace(a, b, _SAMPLES)
         M = sampler.at("M", x)  # (K, Cc, P): the quarter points for C1
@@ -214,11 +213,42 @@ def _demand(eff, props):
         chi = _resistance_factor(Mcr, S[:, None], f, curves, limits)
         with np.errstate(divide="ignore", invalid="ignore"):
             d = np.abs(Mpk) / (chi * S[:, None])
-        worst = np.fmax(worst, np.where(np.isnan(d), np.inf, d))
-    tilted = ~np.isclose(np.abs(np.sin(np.radians(2 * props["theta"]))), 0.0, atol=1e-9)
-    worst = np.where(tilted[:, None], np.inf, worst)  # principal axes tilted: not checkable here
+        yield a, b, cantilever, Mpk, C1, Mcr, chi, np.where(np.isnan(d), np.inf, d)
+
+
+def _untestable(props):
+    """Sections with tilted principal axes (K,): not checkable by this method."""
+    return ~np.isclose(np.abs(np.sin(np.radians(2 * props["theta"]))), 0.0, atol=1e-9)
+
+
+def _demand(eff, props):
+    K, C = eff.M_max.shape
+    strength = np.array([c.check == "strength" for c in eff.sampler.resp.combos])
+    worst = np.full((K, len(strength)), -np.inf)
+    for *_, d in _segment_results(eff, props):
+        worst = np.fmax(worst, d)
+    worst = np.where(_untestable(props)[:, None], np.inf, worst)
     worst = np.where(strength[None, :], worst, np.nan)
-    return to_parents(worst, sampler.parents, C, np.fmax)
+    return to_parents(worst, eff.sampler.parents, C, np.fmax)
+
+
+def _details(eff, props) -> dict:
+    """The governing segment of one candidate: where it is, its moment, C1, Mcr and chi."""
+    strength = np.array([c.check == "strength" for c in eff.sampler.resp.combos])
+    best = None
+    for a, b, cantilever, M, C1, Mcr, chi, d in _segment_results(eff, props):
+        d = np.where(strength, d[0], -np.inf)
+        j = int(np.argmax(d))
+        if best is None or d[j] > best[0]:
+            c1 = float(np.broadcast_to(C1, M.shape)[0, j])
+            best = (d[j], a, b, cantilever, float(M[0, j]), c1, float(Mcr[0, j]), float(chi[0, j]), j)
+    if best is None or not np.isfinite(best[0]) or bool(_untestable(props)[0]):
+        return {"checked": False}
+    _, a, b, cantilever, M, c1, mcr, chi, j = best
+    parent = int(eff.sampler.parents[j])
+    return {"checked": True, "segment_start": a, "segment_end": b, "cantilever": bool(cantilever),
+            "combination": eff.combinations[parent].name, "M": M, "C1": c1, "Mcr": mcr, "chi": chi,
+            "method": eff.limits.get("lateral_torsional_method", "curve")}
 
 
 def _allowable(props, limits, eff):
@@ -239,4 +269,4 @@ LATERAL_TORSIONAL = register(Check(
     limit_keys={"lateral_restraint": "text", "lateral_restraint_at": "lengths", "load_height": "text",
                 "overhang_length_factor": "number", "lateral_torsional_method": "text",
                 "max_moment_ratio": "number"},
-    active=_active))
+    active=_active, details=_details))

@@ -70,7 +70,8 @@ class Effects:
         index = np.atleast_1d(index)
         pick = (lambda a: None if a is None else np.asarray(a)[index])  # noqa: E731
         return Effects(*(getattr(self, f)[index] for f in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")),
-                       self.combinations, None, pick(self.EI), pick(self.mass_per_length), self.model,
+                       self.combinations, None if self.sampler is None else self.sampler.take(index),
+                       pick(self.EI), pick(self.mass_per_length), self.model,
                        self.limits)
 
 
@@ -133,14 +134,15 @@ class Check:
     sheet_rows : callable, optional
         ``sheet_rows(chosen) -> [CheckRow]`` replacing the one default row (e.g. one row
         per span); ``chosen`` is a :class:`leanspan.select.chosen.ChosenMember`.
-    active : callable, optional
-        ``active(limits) -> bool``: whether the job asks for this check (default: always).
-        An inactive check adds no utilisation key, column, sheet row or sentence, and
-        covers nothing.
     demand_json : callable, optional
         ``demand_json(demand_row) -> {key: value}``: the candidate's ``demands`` entries from
         its demand row (C,), replacing the one ``demand_key`` entry (for a check whose
         columns are sub-checks in different units rather than combinations).
+    details : callable, optional
+        ``details(effects, props) -> {key: value}`` for ONE candidate (``effects`` taken with
+        :meth:`Effects.take`, ``props`` arrays of length 1): the values behind its result (Mcr,
+        segment, C1, reduction factor ...; SI floats, strings), shown as ``checks.<name>`` in
+        the selection's JSON for the chosen (else closest) candidate.
     """
 
     name: str
@@ -157,6 +159,7 @@ class Check:
     action: Callable | None = None
     sheet_rows: Callable | None = None
     demand_json: Callable | None = None
+    details: Callable | None = None
 
     def __post_init__(self):
         if not self.name.isidentifier():

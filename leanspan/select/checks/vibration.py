@@ -133,4 +133,5 @@ VIBRATION = register(Check(
              "point load at the middle of each span (free end of an overhang) against its limit.",
     covers=("vibration",),
     limit_keys={"min_frequency": "frequency", "point_deflection": "compliance", "permanent_cases": "names"},
-    sheet_rows=_sheet_rows, active=_active, demand_json=_demand_json))
+    sheet_rows=_sheet_rows, active=_active, demand_json=_demand_json,
+    details=lambda eff, props: _demand_json(_demand(eff, props)[0])))
