@@ -3,8 +3,11 @@
 A field on element ``e`` is stored as coefficients in ascending powers of the local
 coordinate ``s = x - x_start[e]``: ``coeffs[..., e, k]`` multiplies ``s**k``, valid for
 ``0 <= s <= lengths[e]``. Extremes are exact to round-off: the candidates are the
-element ends and the real roots of the derivative inside the element (companion
-matrix eigenvalues, grouped by effective degree, polished by Newton steps).
+element ends and the real roots of the derivative inside the element, grouped by
+effective degree: closed forms up to the cubic (stable quadratic formula, trigonometric
+or Cardano cubic, polished by Newton steps), the quartic by bracketed Newton steps on
+its monotone pieces between the cubic's roots, higher degrees by companion-matrix
+eigenvalues.
 
 Examples
 --------
@@ -33,9 +36,12 @@ def evaluate(coeffs, s):
     """
     c = np.asarray(coeffs, float)
     s = np.asarray(s, float)
-    out = np.broadcast_to(c[..., -1], np.broadcast_shapes(c.shape[:-1], s.shape)).copy()
-    for k in range(c.shape[-1] - 2, -1, -1):
-        out = out * s + c[..., k]
+    if c.shape[-1] == 1:
+        return np.broadcast_to(c[..., 0], np.broadcast_shapes(c.shape[:-1], s.shape)).copy()
+    out = c[..., -1] * s + c[..., -2]  # broadcasts to the full shape
+    for k in range(c.shape[-1] - 3, -1, -1):
+        out *= s
+        out += c[..., k]
     return out
 
 
@@ -92,6 +98,10 @@ def roots_in(coeffs, lengths, imag_tol: float = 1e-6):
                 r1 = np.where(qq != 0, qq / a2, -a1 / (2 * a2))
                 r2 = np.where(qq != 0, a0 / qq, -a1 / (2 * a2))
             t = np.where(keep[:, None], np.stack([r1, r2], axis=1), np.nan)
+        elif d == 3:
+            t = _cubic_roots(p, imag_tol)
+        elif d == 4:
+            t = _monotone_piece_roots(p, _cubic_roots(p[:, 1:] * np.arange(1, 5), imag_tol))
         else:
             comp = np.zeros((idx.size, d, d))
             comp[:, 0, :] = -p[:, d - 1 :: -1] / p[:, d : d + 1]
@@ -99,21 +109,111 @@ def roots_in(coeffs, lengths, imag_tol: float = 1e-6):
             r = np.linalg.eigvals(comp)
             real = np.abs(r.imag) <= imag_tol * np.maximum(1.0, np.abs(r.real))
             t = np.where(real, r.real, np.nan)
-        # two Newton steps polish round-off from the eigenvalue solver
+        # two Newton steps polish the round-off of the trigonometric cubic and the eigenvalues,
+        # each kept only where it lowers |p| (near a double root the step is unreliable); the
+        # quadratic formula and the bracketed quartic roots are converged already
         dp = p[:, 1:] * np.arange(1, d + 1)
-        for _ in range(2):
-            f = evaluate(p[:, None, :], t)
+        f = evaluate(p[:, None, :], t)
+        for _ in range(2 if d == 3 or d > 4 else 0):
             g = evaluate(dp[:, None, :], t)
             with np.errstate(divide="ignore", invalid="ignore"):
                 step = np.where(np.abs(g) > 0, f / g, 0.0)
             t_new = t - step
-            t = np.where(np.isfinite(t_new) & (np.abs(step) < 0.1), t_new, t)
+            f_new = evaluate(p[:, None, :], np.nan_to_num(t_new))
+            ok = np.isfinite(t_new) & (np.abs(step) < 0.1) & (np.abs(f_new) <= np.abs(f))
+            t, f = np.where(ok, t_new, t), np.where(ok, f_new, f)
         t = np.where((t > 0.0) & (t < 1.0), t, np.nan)
         out[idx, :d] = t
     return out.reshape(lead + (deg,)) * L[..., None]
 
 
-def extremes(coeffs, lengths):
+def _cubic_roots(p, imag_tol):
+    """Real roots (N, 3) of cubics with ascending coefficients ``p`` (N, 4), ``p[:, 3] != 0``, in
+    closed form (NaN where none): three by the trigonometric formula, else Cardano's one with
+    the stable choice of cube root; the real part of a nearly real complex pair (relative
+    imaginary part below ``imag_tol``) is kept, as from the eigenvalues.
+
+    >>> sorted(np.round(_cubic_roots(np.array([[-6.0, 11.0, -6.0, 1.0]]), 1e-6)[0], 12).tolist())   # (t-1)(t-2)(t-3)
+    [1.0, 2.0, 3.0]
+    """
+    a, b, c = (p[:, 2] / p[:, 3]), (p[:, 1] / p[:, 3]), (p[:, 0] / p[:, 3])
+    shift = a / 3.0
+    P = b - a * shift
+    Q = (2.0 * a * a * a / 27.0) - a * b / 3.0 + c
+    D = (Q / 2.0) ** 2 + (P / 3.0) ** 3
+    out = np.full((p.shape[0], 3), np.nan)
+    three = D <= 0
+    if three.any():
+        Pt, Qt = P[three], Q[three]
+        r = np.sqrt(np.maximum(-Pt / 3.0, 0.0))
+        with np.errstate(divide="ignore", invalid="ignore"):
+            cos3 = np.where(r > 0, -Qt / (2.0 * r**3), 1.0)
+        phi = np.arccos(np.clip(cos3, -1.0, 1.0)) / 3.0
+        k = np.arange(3)[None, :]
+        out[three] = 2.0 * r[:, None] * np.cos(phi[:, None] - 2.0 * np.pi * k / 3.0) - shift[three, None]
+    one = ~three
+    if one.any():
+        Po, Qo = P[one], Q[one]
+        u = np.cbrt(-Qo / 2.0 - np.copysign(np.sqrt(D[one]), Qo))  # no cancellation
+        with np.errstate(divide="ignore", invalid="ignore"):
+            v = np.where(u != 0, -Po / (3.0 * u), 0.0)
+        y, re, im = u + v, -(u + v) / 2.0, np.sqrt(3.0) / 2.0 * np.abs(u - v)
+        near = im <= imag_tol * np.maximum(1.0, np.abs(re))
+        out[one, 0] = y - shift[one]
+        out[one, 1] = np.where(near, re - shift[one], np.nan)
+    return out
+
+
+def _monotone_piece_roots(p, crit, iterations: int = 50):
+    """Real roots in [0, 1] (N, degree) of polynomials ``p`` (N, n) whose derivative's real roots
+    are ``crit`` (N, m; NaN where none). Between consecutive critical points a polynomial is
+    monotone, so each piece whose ends differ in sign holds exactly one root: found by Newton
+    steps kept inside the shrinking bracket (bisection where a step leaves it), on the pieces
+    with a sign change only. A critical point where the polynomial vanishes to round-off is a
+    double root and is returned as it is.
+
+    >>> r = _monotone_piece_roots(np.array([[0.06, -0.5, 1.0]]), np.array([[0.25]]))  # (t-0.2)(t-0.3)
+    >>> sorted(np.round(r[0][~np.isnan(r[0])], 12).tolist())
+    [0.2, 0.3]
+    """
+    N, n = p.shape
+    c = np.where((crit > 0) & (crit < 1), crit, np.nan)
+    ends = np.sort(np.concatenate([np.zeros((N, 1)), np.where(np.isnan(c), 1.0, c), np.ones((N, 1))], axis=1),
+                   axis=1)
+    f_ends = evaluate(p[:, None, :], ends)
+    scale = np.abs(p).sum(axis=1)
+    f_ends = np.where(np.abs(f_ends) <= 1e-14 * scale[:, None], 0.0, f_ends)  # round-off zeros
+    row, piece = np.nonzero(f_ends[:, :-1] * f_ends[:, 1:] < 0)  # pieces with one root inside
+    a, b = ends[row, piece], ends[row, piece + 1]
+    fa = f_ends[row, piece]
+    q, dq = p[row], p[row, 1:] * np.arange(1, n)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        x = a - fa * (b - a) / (f_ends[row, piece + 1] - fa)  # regula falsi start
+    live = np.arange(row.size)
+    for _ in range(iterations):  # stops once every root has converged
+        if live.size == 0:
+            break
+        xl, al, bl = x[live], a[live], b[live]
+        f = evaluate(q[live], xl)
+        g = evaluate(dq[live], xl)
+        same = np.sign(f) == np.sign(fa[live])  # the root lies above x
+        al, bl = np.where(same, xl, al), np.where(same, bl, xl)
+        fa[live] = np.where(same, f, fa[live])
+        with np.errstate(divide="ignore", invalid="ignore"):
+            xn = xl - f / g
+        xn = np.where((xn > al) & (xn < bl), xn, 0.5 * (al + bl))
+        a[live], b[live], x[live] = al, bl, xn
+        done = (np.abs(xn - xl) <= 4e-16 * np.maximum(np.abs(xn), 1e-300)) | (f == 0) | (bl - al <= 4e-16)
+        x[live] = np.where(f == 0, xl, xn)
+        live = live[~done]
+    out = np.full((N, 2 * n), np.nan)
+    out[row, piece] = x
+    double = ~np.isnan(c) & (np.abs(evaluate(p[:, None, :], np.nan_to_num(c))) <= 1e-14 * scale[:, None])
+    out[:, n:n + c.shape[1]] = np.where(double, c, np.nan)
+    return np.sort(out, axis=1)[:, :n - 1]  # at most the degree; NaN sorts last
+
+
+def extremes(coeffs, lengths, inner=None):
     """Per-element maximum and minimum over ``[0, length]`` with their local positions.
 
     Parameters
@@ -121,6 +221,9 @@ def extremes(coeffs, lengths):
     coeffs : array (..., n)
         Ascending coefficients in the local coordinate.
     lengths : array broadcastable to ``coeffs.shape[:-1]``
+    inner : array (..., m), optional
+        The roots of the derivative inside the elements (:func:`roots_in` of
+        :func:`derivative`), when the caller has them already.
 
     Returns
     -------
@@ -130,7 +233,8 @@ def extremes(coeffs, lengths):
     c = np.asarray(coeffs, float)
     lead = c.shape[:-1]
     L = np.broadcast_to(np.asarray(lengths, float), lead)
-    inner = roots_in(derivative(c), L) if c.shape[-1] > 2 else np.full(lead + (0,), np.nan)
+    if inner is None:
+        inner = roots_in(derivative(c), L) if c.shape[-1] > 2 else np.full(lead + (0,), np.nan)
     cand = np.concatenate([np.zeros(lead + (1,)), L[..., None], inner], axis=-1)
     vals = evaluate(c[..., None, :], np.nan_to_num(cand, nan=0.0))
     bad = np.isnan(cand)

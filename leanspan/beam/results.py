@@ -116,57 +116,97 @@ def _member_fields(resp: Response, Fm):
     return out
 
 
-def _station_grid(resp, flds, n_regular, single, pre):
-    """Local station positions (E, m) with NaN padding, sorted."""
+def _regular_grid(resp, n_regular):
+    """Local positions (E, m) of the regular subdivision, NaN-padded."""
     L = resp.lengths
-    total = float(L.sum())
-    nsub = np.maximum(1, np.ceil(n_regular * L / total)).astype(int)
-    m = int(nsub.max())
-    j = np.arange(m + 1)[None, :]
-    reg = np.where(j <= nsub[:, None], j / nsub[:, None] * L[:, None], np.nan)
-    if single:
-        extra = [pre["roots_V"][0], pre["roots_theta"][0]]
-    else:
+    nsub = np.maximum(1, np.ceil(n_regular * L / float(L.sum()))).astype(int)
+    j = np.arange(int(nsub.max()) + 1)[None, :]
+    return np.where(j <= nsub[:, None], j / nsub[:, None] * L[:, None], np.nan)
+
+
+def _sorted_unique(s, total):
+    """``s`` (..., m) sorted along the last axis with near-duplicates (1e-12 of ``total``) set to
+    NaN, which sorts last."""
+    s = np.sort(s, axis=-1)
+    dup = np.zeros_like(s, bool)
+    dup[..., 1:] = np.abs(np.diff(s, axis=-1)) <= 1e-12 * total
+    s[dup] = np.nan
+    return np.sort(s, axis=-1)
+
+
+def _station_values(resp, flds, s):
+    """Field values (R, E, m) at local stations ``s`` (R, E, m) and the mask of stations kept:
+    valid ones, less the end of element e where V, M and theta run on continuously into e+1."""
+    z = np.nan_to_num(s)
+    vals = {k: poly.evaluate(flds[k][:, :, None, :], z) for k in _FIELDS}
+    valid = ~np.isnan(s)
+    R, E = s.shape[:2]
+    if E > 1:
+        last = valid.sum(axis=2) - 1  # (R, E)
+        same = np.ones((R, E - 1), bool)
+        for k in ("V", "M", "theta"):
+            a = np.take_along_axis(vals[k][:, :-1], last[:, :-1, None], axis=2)[..., 0]
+            b = vals[k][:, 1:, 0]
+            scale = np.maximum(np.abs(vals[k]).max(axis=(1, 2)), 1e-300)[:, None]
+            same &= np.abs(a - b) <= 1e-9 * scale
+        r, e = np.nonzero(same)
+        valid[r, e, last[r, e]] = False
+    return vals, valid
+
+
+def _single_stations(resp, flds, n_regular, pre):
+    """Stations of R single results at once (list of R dicts ``x, V, M, theta, v``): the regular
+    grid plus each row's roots of V and theta."""
+    R = flds["M"].shape[0]
+    grid = _regular_grid(resp, n_regular)
+    reg = np.broadcast_to(grid, (R,) + grid.shape)
+    s = _sorted_unique(np.concatenate([reg, pre["roots_V"], pre["roots_theta"]], axis=2),
+                       float(resp.lengths.sum()))
+    vals, valid = _station_values(resp, flds, s)
+    x_all = resp.x_nodes[:-1, None] + np.nan_to_num(s)
+    out = []
+    for r in range(R):  # the small set of results
+        keep = valid[r]
+        row = {"x": x_all[r][keep]}
+        row.update({k: vals[k][r][keep] for k in _FIELDS})
+        out.append(row)
+    return out
+
+
+def _envelope_stations(resp, flds, n_regular, pre, groups):
+    """Stations of the results with several members (list of dicts): the regular grid plus, in
+    each element, where the envelope's largest and smallest M and v lie; ``K_max``, ``K_min``
+    per field. ``groups[g]`` are the rows of result g in ``flds`` and ``pre``; all are evaluated
+    in one pass."""
+    total = float(resp.lengths.sum())
+    grid = _regular_grid(resp, n_regular)
+    grids = []
+    for rows in groups:  # the small set of envelopes
         extra = []
         for key in ("M", "v"):
-            vmax, smax, vmin, smin = pre[key]
+            vmax, smax, vmin, smin = pre[key][:, rows]
             ia = np.argmax(vmax, axis=0)[None]
             ib = np.argmin(vmin, axis=0)[None]
             extra += [np.take_along_axis(smax, ia, 0)[0][:, None], np.take_along_axis(smin, ib, 0)[0][:, None]]
-    s = np.sort(np.concatenate([reg] + extra, axis=1), axis=1)
-    dup = np.zeros_like(s, bool)
-    dup[:, 1:] = np.abs(np.diff(s, axis=1)) <= 1e-12 * total
-    s[dup] = np.nan
-    return np.sort(s, axis=1)
-
-
-def _stations(resp, flds, n_regular, pre):
-    C = flds["M"].shape[0]
-    s = _station_grid(resp, flds, n_regular, C == 1, pre)
-    E = s.shape[0]
-    vals = {k: poly.evaluate(flds[k][:, :, None, :], np.nan_to_num(s)[None]) for k in _FIELDS}  # (C, E, m)
-    valid = ~np.isnan(s)
-    # drop the end of element e where V, M and theta are continuous into element e+1
-    last = valid.sum(axis=1) - 1
-    if E > 1:
-        e = np.arange(E - 1)
-        same = np.ones(E - 1, bool)
-        for k in ("V", "M", "theta"):
-            a = vals[k][:, e, last[:-1]]
-            b = vals[k][:, e + 1, 0]
-            scale = max(np.abs(vals[k]).max(), 1e-300)
-            same &= np.all(np.abs(a - b) <= 1e-9 * scale, axis=0)
-        valid[e[same], last[:-1][same]] = False
-    x = (resp.x_nodes[:-1, None] + np.nan_to_num(s))[valid]
-    out = {"x": x}
-    for k in _FIELDS:
-        f = vals[k][:, valid]  # (C, S)
-        if C == 1:
-            out[k] = f[0]
-        else:
-            hi, lo = f.max(axis=0), f.min(axis=0)
-            out[k] = _bigger(hi, lo)
-            out[f"{k}_max"], out[f"{k}_min"] = hi, lo
+        grids.append(_sorted_unique(np.concatenate([grid] + extra, axis=1), total))
+    sizes = [len(rows) for rows in groups]
+    which = np.repeat(np.arange(len(groups)), sizes)
+    starts = np.concatenate([[0], np.cumsum(sizes)[:-1]]).astype(int)
+    every = np.concatenate(groups)
+    vals, valid = _station_values(resp, {k: flds[k][every] for k in _FIELDS}, np.stack(grids)[which])
+    # an element end stays where any member jumps there
+    keep = np.logical_or.reduceat(valid, starts, axis=0)
+    hi = {k: np.maximum.reduceat(vals[k], starts, axis=0) for k in _FIELDS}
+    lo = {k: np.minimum.reduceat(vals[k], starts, axis=0) for k in _FIELDS}
+    x0 = resp.x_nodes[:-1, None]
+    out = []
+    for g, s in enumerate(grids):
+        row = {"x": (x0 + np.nan_to_num(s))[keep[g]]}
+        for k in _FIELDS:
+            h, low = hi[k][g][keep[g]], lo[k][g][keep[g]]
+            row[k] = _bigger(h, low)
+            row[f"{k}_max"], row[f"{k}_min"] = h, low
+        out.append(row)
     return out
 
 
@@ -186,18 +226,39 @@ def snap_round_off(hi, lo):
     return np.where(np.abs(hi) < scale, 0.0, hi)[()], np.where(np.abs(lo) < scale, 0.0, lo)[()]
 
 
-def _extremes(resp, pre, names):
-    out = {}
+_EXTREME_KEYS = ("M_max", "M_min", "V_max", "V_min", "theta_max", "theta_min", "v_max", "v_min")
+
+
+def _group_arg(values, starts, group, reduce):
+    """Index of the first row holding each group's ``reduce`` (np.maximum / np.minimum) value."""
+    best = reduce.reduceat(values, starts)
+    hit = np.flatnonzero(values == best[group])
+    return hit[np.unique(group[hit], return_index=True)[1]]
+
+
+def _extremes(resp, pre, members):
+    """``[{key: Extreme}]``, one dict per result: ``members[g]`` names the members of result g,
+    whose rows follow one another in ``pre`` (the rows of every result, in order)."""
     x0 = resp.x_nodes[:-1]
+    sizes = np.array([len(m) for m in members])
+    starts = np.concatenate([[0], np.cumsum(sizes)[:-1]])
+    group = np.repeat(np.arange(len(members)), sizes)
+    member_of = [name for names in members for name in names]
+    out = [{} for _ in members]
     for key in ("M", "V", "theta", "v"):
-        vmax, smax, vmin, smin = pre[key]  # (C, E)
-        i = np.unravel_index(np.argmax(vmax), vmax.shape)
-        j = np.unravel_index(np.argmin(vmin), vmin.shape)
-        many = len(names) > 1
-        hi, lo = snap_round_off(float(vmax[i]), float(vmin[j]))
-        out[f"{key}_max"] = Extreme(float(hi), float(x0[i[1]] + smax[i]), names[i[0]] if many else None)
-        out[f"{key}_min"] = Extreme(float(lo), float(x0[j[1]] + smin[j]), names[j[0]] if many else None)
-    return {k: out[k] for k in ("M_max", "M_min", "V_max", "V_min", "theta_max", "theta_min", "v_max", "v_min")}
+        vmax, smax, vmin, smin = pre[key]  # (R, E)
+        r = np.arange(vmax.shape[0])
+        ia, ib = np.argmax(vmax, axis=1), np.argmin(vmin, axis=1)  # each row's element
+        hi, lo = vmax[r, ia], vmin[r, ib]
+        i, j = _group_arg(hi, starts, group, np.maximum), _group_arg(lo, starts, group, np.minimum)
+        h, low = snap_round_off(hi[i], lo[j])
+        xa, xb = (x0[ia] + smax[r, ia])[i], (x0[ib] + smin[r, ib])[j]
+        for g, (hg, lg, ag, bg, ig, jg) in enumerate(zip(h.tolist(), low.tolist(), xa.tolist(), xb.tolist(),
+                                                        i.tolist(), j.tolist())):
+            many = sizes[g] > 1
+            out[g][f"{key}_max"] = Extreme(hg, ag, member_of[ig] if many else None)
+            out[g][f"{key}_min"] = Extreme(lg, bg, member_of[jg] if many else None)
+    return [{k: o[k] for k in _EXTREME_KEYS} for o in out]
 
 
 def _reactions(resp, R, names):
@@ -251,23 +312,28 @@ def _precompute(resp, Fm):
     """Fields, per-element extremes and derivative roots for all member rows at once."""
     flds = _member_fields(resp, Fm)
     L = resp.lengths
-    pre = {key: poly.extremes(flds[key], L) for key in _FIELDS}
-    pre["roots_V"] = poly.roots_in(flds["V"], L)
-    pre["roots_theta"] = poly.roots_in(flds["theta"], L)
+    # the stations at the extremes of M and v: the roots of dM/dx (= V) and dv/dx (= theta),
+    # found once from the derivatives themselves and shared with the extremes
+    pre = {"roots_V": poly.roots_in(poly.derivative(flds["M"]), L),
+           "roots_theta": poly.roots_in(poly.derivative(flds["v"]), L)}
+    inner = {"M": pre["roots_V"], "v": pre["roots_theta"]}
+    pre.update({key: np.stack(poly.extremes(flds[key], L, inner.get(key))) for key in _FIELDS})
     return flds, pre
 
 
-def _take(d, sl):
-    out = {}
-    for k, v in d.items():
-        out[k] = tuple(a[sl] for a in v) if isinstance(v, tuple) else v[sl]
-    return out
+def _take(d, rows, stacked=()):
+    """Rows ``rows`` of every array of ``d``; keys in ``stacked`` hold (4, R, E) arrays (the
+    extremes vmax, smax, vmin, smin), whose rows are axis 1."""
+    return {k: v[:, rows] if k in stacked else v[rows] for k, v in d.items()}
 
 
-def _result(name, kind, check, resp, members, n_regular, flds, pre):
-    names = [m if isinstance(m, str) else m.name for m in members]
-    rs = ResultSet(name, kind, check, names, _reactions(resp, flds["R"], names),
-                   _extremes(resp, pre, names), _stations(resp, flds, n_regular, pre))
+def _names(members):
+    return [m if isinstance(m, str) else m.name for m in members]
+
+
+def _result(name, kind, check, resp, members, stations, extremes, flds, pre):
+    names = _names(members)
+    rs = ResultSet(name, kind, check, names, _reactions(resp, flds["R"], names), extremes, stations)
     combos = [m for m in members if not isinstance(m, str)]
     if combos:
         rs.deflection_checks = _deflection_checks(resp, pre["v"], combos)
@@ -317,24 +383,38 @@ def solve(model: BeamModel, stations: int = 48) -> BeamSolution:
         specs.append((c.name, "combination", c.check, Fm, members))
         all_members += members
         all_rows.append(Fm)
+    # every result row is a case or a concrete combination: the envelopes reuse those rows
+    base = np.vstack([sp[3] for sp in specs])
+    rows_of, start = [], 0
+    for sp in specs:
+        rows_of.append(np.arange(start, start + sp[3].shape[0]))
+        start += sp[3].shape[0]
+    n_cases = len(model.cases)
     if all_members:
-        specs.append(("envelope", "envelope", None, np.vstack(all_rows), all_members))
+        every = np.arange(n_cases, base.shape[0])
+        specs.append(("envelope", "envelope", None, None, all_members))
+        rows_of.append(every)
         # strength and serviceability kept apart: one envelope per kind when there are both
         kinds = {c.name: c.check for c in model.combinations}
         for check in ("strength", "deflection"):
             pick = [i for i, k in enumerate(all_members) if kinds[k.parent or k.name] == check]
             if pick and len(pick) < len(all_members):
-                specs.append((f"envelope_{check}", "envelope", check, np.vstack(all_rows)[pick],
-                              [all_members[i] for i in pick]))
+                specs.append((f"envelope_{check}", "envelope", check, None, [all_members[i] for i in pick]))
+                rows_of.append(every[pick])
     else:
-        cases = list(model.cases)
-        specs.append(("envelope", "envelope", None, np.array([case_rows[c] for c in cases]), cases))
-    # one pass over every member row of every result: fields, extremes and roots at once
-    flds, pre = _precompute(resp, np.vstack([sp[3] for sp in specs]))
+        specs.append(("envelope", "envelope", None, None, list(model.cases)))
+        rows_of.append(np.arange(n_cases))
+    # one pass over every distinct row: fields, extremes and roots at once
+    flds, pre = _precompute(resp, base)
+    singles = [i for i, rows in enumerate(rows_of) if rows.size == 1]
+    multis = [i for i, rows in enumerate(rows_of) if rows.size > 1]
+    one = np.array([rows_of[i][0] for i in singles], int)
+    at = dict(zip(singles, _single_stations(resp, _take(flds, one), stations, _take(pre, one, _FIELDS))))
+    if multis:
+        at.update(zip(multis, _envelope_stations(resp, flds, stations, pre, [rows_of[i] for i in multis])))
+    extremes = _extremes(resp, _take(pre, np.concatenate(rows_of), _FIELDS), [_names(sp[4]) for sp in specs])
     results = {}
-    start = 0
-    for name, kind, check, Fm, members in specs:
-        sl = slice(start, start + Fm.shape[0])
-        start = sl.stop
-        results[name] = _result(name, kind, check, resp, members, stations, _take(flds, sl), _take(pre, sl))
+    for i, ((name, kind, check, _, members), rows) in enumerate(zip(specs, rows_of)):
+        results[name] = _result(name, kind, check, resp, members, at[i], extremes[i], _take(flds, rows),
+                                _take(pre, rows, _FIELDS))
     return BeamSolution(model, resp, results)
