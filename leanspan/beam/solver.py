@@ -250,11 +250,10 @@ def _unit_cases(model, mesh, unit_self_weight, pattern_cases):
         for target, mask in ((P, is_p), (C, ~is_p)):
             np.add.at(target, (u[mask], at[mask]), val[mask])
             np.add.at(target, (rows[mask & pat], at[mask & pat]), val[mask & pat])
-    for ld in model.loads:  # distributed loads are few; each touches only its own pieces
-        if not isinstance(ld, DistributedLoad):
-            continue
+    dist = [ld for ld in model.loads if isinstance(ld, DistributedLoad)]
+    bounds = _nearest(mesh.x, [x for ld in dist for x in (ld.start, ld.end)]).reshape(-1, 2).tolist()
+    for ld, (i0, i1) in zip(dist, bounds):  # distributed loads are few; each touches only its own pieces
         u = case_of[ld.case]
-        i0, i1 = _nearest(mesh.x, [ld.start, ld.end])
         sl = slice(i0, i1)
         slope = (ld.w2 - ld.w1) / (ld.end - ld.start)
         a = -(ld.w1 + slope * (x0[sl] - ld.start))
