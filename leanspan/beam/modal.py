@@ -47,7 +47,6 @@ from dataclasses import dataclass
 
 
 import numpy as np
-import scipy.linalg
 
 from ..errors import BeamError
 from .model import G, BeamModel, DistributedLoad, PointLoad, Stiffness
@@ -167,6 +166,8 @@ def _lowest(A, B):
     """Lowest eigenpair of ``A phi = lam B phi`` (A stiffness, B mass), solved as the largest of
     ``B phi = mu A phi`` (mu = 1 / lam): the lowest mode of a fine mesh is then accurate to
     round-off of mu_max instead of losing digits with (L / h)^4 (the flexibility form)."""
+    import scipy.linalg  # imported where used: a job without vibration never loads it
+
     n = A.shape[0]
     try:
         mu, vec = scipy.linalg.eigh(B, A, subset_by_index=[n - 1, n - 1])
@@ -277,6 +278,8 @@ def _reduced_basis(sysm, ratio, mass, rtol=1e-9, modes=3, max_rounds=40):
     candidate with the largest residual gets its own full solve added to the basis until every
     residual is below ``rtol`` (eigenvalue error about rtol^2: exact to round-off).
     """
+    import scipy.linalg  # imported where used: a job without vibration never loads it
+
     n = sysm.K1.shape[0]
     Sd = np.diag(sysm.S)
     full = lambda k: scipy.linalg.eigh(mass[k] * sysm.Mu + sysm.Mp, ratio[k] * sysm.K1 + Sd,  # noqa: E731

@@ -42,7 +42,6 @@ import itertools
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.linalg import cho_solve_banded, cholesky_banded
 
 from ..errors import BeamError, MechanismError
 from .model import FEATURE_GAP, BeamModel, Couple, DeflectionLimit, DistributedLoad, PointLoad
@@ -480,6 +479,36 @@ def _supports_dofs(model, mesh):
     return fixed, springs
 
 
+DENSE_LIMIT = 300
+"""Systems up to this many unknowns are factored densely by numpy (no scipy import on the
+hot path of a small job); larger ones by scipy's banded Cholesky."""
+
+
+def _cholesky_solver(ab):
+    """``solve(b)`` for the symmetric positive definite matrix in upper band storage ``ab``
+    (float): a dense numpy Cholesky factor for small systems, scipy's banded one for large.
+    Raises ``numpy.linalg.LinAlgError`` when the matrix is not positive definite.
+
+    >>> ab = np.array([[0.0, -1.0], [2.0, 2.0]])          # [[2, -1], [-1, 2]]
+    >>> np.round(_cholesky_solver(ab)(np.array([1.0, 1.0])), 12).tolist()
+    [1.0, 1.0]
+    """
+    u, n = ab.shape[0] - 1, ab.shape[1]
+    if n > DENSE_LIMIT:
+        from scipy.linalg import cho_solve_banded, cholesky_banded
+
+        cb = cholesky_banded(ab, lower=False)
+        return lambda b: cho_solve_banded((cb, False), b)
+    A = np.diag(ab[u])
+    for k in range(1, u + 1):  # the band's few diagonals
+        A += np.diag(ab[u - k, k:], k) + np.diag(ab[u - k, k:], -k)
+    L = np.linalg.cholesky(A)
+
+    def solve(b):
+        return np.linalg.solve(L.T, np.linalg.solve(L, b))
+    return solve
+
+
 def _refined_solve(ab, b, steps: int = 2):
     """Solve ``A x = b`` (``A`` symmetric positive definite, long double upper band) by a
     double-precision banded Cholesky factor and iterative refinement; the iterate and its
@@ -490,12 +519,12 @@ def _refined_solve(ab, b, steps: int = 2):
     """
     try:
         with np.errstate(all="ignore"):
-            cb = cholesky_banded(ab.astype(float), lower=False)
-            x = cho_solve_banded((cb, False), b).astype(ab.dtype)
+            factor_solve = _cholesky_solver(ab.astype(float))
+            x = factor_solve(b).astype(ab.dtype)
             bl = b.astype(ab.dtype)
             for _ in range(steps):
                 r = (bl - _band_matvec(ab, x)).astype(float)
-                x += cho_solve_banded((cb, False), r)
+                x += factor_solve(r)
     except (np.linalg.LinAlgError, ValueError):
         raise _singular() from None
     if not np.all(np.isfinite(x)):
