@@ -218,13 +218,17 @@ def _by_columns(path, header, rows, col, table):
     H = len(header)
     if any(len(c) > H for _, c in rows):
         return None
-    grid = np.array([c + [""] * (H - len(c)) for _, c in rows], dtype=object).reshape(len(rows), H)
+    cells = [c for _, c in rows]
+    if any(len(c) != H for c in cells):
+        cells = [c + [""] * (H - len(c)) for c in cells]
+    # a column at a time: zip transposes in C
+    grid = [np.array(column, dtype=object) for column in zip(*cells)] if cells else [np.array([], object)] * H
     lines = np.array([ln for ln, _ in rows], int)
-    fam_col = grid[:, col["family"][0]] if len(rows) else np.array([], object)
+    fam_col = grid[col["family"][0]]
     order = list(dict.fromkeys(fam_col))  # families in order of first appearance
     if any(f not in FAMILIES for f in order):
         return None
-    mats = grid[:, col["material"][0]] if "material" in col else np.full(len(rows), "", object)
+    mats = grid[col["material"][0]] if "material" in col else np.full(len(rows), "", object)
     resolved = {}
     for name in set(mats) - {""}:  # each distinct material once
         try:
@@ -242,7 +246,7 @@ def _by_columns(path, header, rows, col, table):
             if what == "text":
                 continue
             within = "section length" if what == "dim" or TABULATED[key][0] == "length" else TABULATED[key][0]
-            nums, blank = _numbers(grid[idx, j], factor, within)
+            nums, blank = _numbers(grid[j][idx], factor, within)
             if nums is None:
                 return None
             if what == "dim":
@@ -255,7 +259,7 @@ def _by_columns(path, header, rows, col, table):
         block.materials = [resolved[x] if x else DEFAULT_MATERIAL[f] for x in m]
         if (m == "").any():
             defaulted[f"{DEFAULT_MATERIAL[f]} ({f})"] = lines[idx][m == ""].tolist()
-        block.names = list(grid[idx, col["name"][0]]) if "name" in col else [""] * idx.size
+        block.names = list(grid[col["name"][0]][idx]) if "name" in col else [""] * idx.size
         block.lines = lines[idx].tolist()
         blocks[f], raw[f] = block, values
     # the "assumed material" notes in the order the row reader gives: by their first row

@@ -54,20 +54,31 @@ FAMILY_DIMENSIONS = {
 _ODD = np.arange(1, 60, 2, dtype=float)  # series terms: the tail is below 1e-8 relative
 
 
+_EXACT = 8  # terms with their hyperbolic factors; beyond, tanh = 1 and sech = 0 to below 1e-10
+_POWER = {p: float(np.sum(_ODD[_EXACT:] ** -p)) for p in (5, 6, 7)}  # the saturated tails
+
+
 def _rectangle(b, d):
+    """J and Cw of solid rectangles b x d (arrays) by the series below, with the terms past the
+    eighth (where tanh(n pi a / 2c) = 1 and sech = 0 to 1e-10 since a >= c) summed in closed form."""
     a, c = np.maximum(b, d), np.minimum(b, d)  # long and short sides
-    k = np.pi * _ODD / c[..., None]             # (..., terms)
+    n = _ODD[:_EXACT]
+    k = np.pi * n / c[..., None]             # (..., terms)
     ka2 = k * a[..., None] / 2
     th = np.tanh(ka2)
     # J: Saint-Venant's series (Timoshenko & Goodier, Theory of Elasticity, sec. 109)
-    J = a * c**3 / 3 * (1 - 192 / np.pi**5 * (c / a) * np.sum(th / _ODD**5, axis=-1))
+    J = a * c**3 / 3 * (1 - 192 / np.pi**5 * (c / a) * (np.sum(th / n**5, axis=-1) + _POWER[5]))
     # Cw = int omega^2 dA with the series above; sech^2 written to avoid overflow
     e = np.exp(-2 * ka2)
     sech2 = 4 * e / (1 + e) ** 2
     a_, c_ = a[..., None], c[..., None]
     t2 = 64 / (c_ * k**5) * (a_ / (2 * k) - th / k**2)
     t3 = 32 / (c_ * k**6) * (th / k - a_ * sech2 / 2)
-    Cw = a**3 * c**3 / 144 - np.sum(t2, axis=-1) + np.sum(t3, axis=-1)
+    # the tail with th = 1, sech = 0 and k = n pi / c: 64/c (a/2 (c/pi)^6 S6 - (c/pi)^7 S7) for
+    # t2 and 32/c (c/pi)^7 S7 for t3
+    cp = c / np.pi
+    tail = 64 / c * (a / 2 * cp**6 * _POWER[6] - cp**7 * _POWER[7]) - 32 / c * cp**7 * _POWER[7]
+    Cw = a**3 * c**3 / 144 - np.sum(t2, axis=-1) + np.sum(t3, axis=-1) - tail
     return J, Cw
 
 
