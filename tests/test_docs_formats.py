@@ -105,6 +105,9 @@ def test_selection_job_keys_are_documented():
 
     assert not _missing(job._SEARCH_KEYS), "[search] keys"
     assert not _missing(job._LIMIT_KEYS | set(limit_keys())), "[limits] keys"
+    from leanspan.project import PROJECT_KEYS
+
+    assert not _missing(set(PROJECT_KEYS) | {"project"}), "[project] keys"
 
 
 def test_beam_job_keys_are_documented():

@@ -85,7 +85,8 @@ def test_every_part_is_on_the_sheet(demo):
                     "Assumptions and what is not checked"):
         assert f"<h2>{heading}</h2>" in html
     for caption in ("Spans", "Supports", "Loads by case", "Combinations", "Search space and limits",
-                    "Properties of", "Support reactions"):
+                    "Properties of", "Characteristic support reactions per load case",
+                    "Design support reactions"):
         assert caption in html
     assert re.search(r"\d{4}-\d{2}-\d{2}", html)                    # the date
     assert html.count('class="caution"') >= 2                      # prominent, top and bottom
@@ -482,3 +483,66 @@ def test_selection_beam_drawing_keeps_the_self_weight_note_inside(job, demo):
         fig, ax, r = _drawn(model, units=units)
         assert any(t.get_text().startswith("+ self-weight") for t in ax.texts)
         assert _lane_text_problems(fig, ax, r) == []
+
+
+def test_characteristic_reactions_per_case_by_statics(demo):
+    """The demo's simply supported 4.8 m beam: per load case, the unfactored reactions are the
+    lever-rule shares of the case's loads (statics): dead 2.6 kN/m + 3.5 kN at 3.0 m + the chosen
+    member's self-weight, snow 2.4 kN/m + 2.0 kN at 3.0 m (the demo job's invented loads)."""
+    sel, html = demo
+    got = keyed(html)
+    L, g = 4.8, 9.80665
+    m = sel.chosen["mass_per_length"]
+    for case, w, P in (("dead", 2.6 + m * g / 1e3, 3.5), ("snow", 2.4, 2.0)):
+        right = w * L / 2 + P * 3.0 / L
+        left = w * L + P - right
+        assert close_to_sig(first_number(got[f"{case}.R0.force"]), left)   # kN
+        assert close_to_sig(first_number(got[f"{case}.R1.force"]), right)
+
+
+def test_substituted_formulas_reproduce_the_demands(demo):
+    """Each formula's numbers give the check's demand: sigma = M / S and tau = V x factor
+    (Navier's and Jourawski's formulas), sigma_lt = M / (chi S)."""
+    from leanspan.select.chosen import check_rows
+
+    sel, html = demo
+    rows = {r.check: r for r in check_rows(sel.chosen_member)}
+    vals = lambda r: [t[0] if isinstance(t, tuple) else t for t in r.formula if not isinstance(t, str)]  # noqa: E731
+    M, S, sigma = vals(rows["bending"])
+    assert M / S == pytest.approx(sel.chosen["demands"]["sigma"], rel=1e-12) and sigma == pytest.approx(M / S)
+    V, k, tau = vals(rows["shear"])
+    assert V * k == pytest.approx(sel.chosen["demands"]["tau"], rel=1e-12)
+    M, chi, S, s_lt = vals(rows["buckling"])[:4]
+    assert M / (chi * S) == pytest.approx(sel.chosen["demands"]["sigma_lt"], rel=1e-9)
+    assert "Substituted formulas" in html and "σ = |M| / Sz" in html
+
+
+def test_project_fields_fill_the_title_block(tmp_path, capsys):
+    src = demo_text().replace("[beam]", '[project]\nname = "Invented boathouse"\nreference = "J-17"\n'
+                                        'revision = "C"\nprepared_by = "A. Nobody"\n\n[beam]', 1)
+    job = tmp_path / "job.toml"
+    job.write_text(src, encoding="utf-8")
+    out = tmp_path / "sheet.html"
+    assert main(["select", str(job), "--report", str(out)]) in (0, 1)
+    html = out.read_text(encoding="utf-8")
+    for label, value in (("Project", "Invented boathouse"), ("Reference", "J-17"), ("Revision", "C"),
+                         ("Prepared by", "A. Nobody")):
+        assert f"<tr><td><b>{label}</b></td><td>{value}</td></tr>" in html
+    assert "<tr><td><b>Checked by</b></td><td></td></tr>" in html  # left blank to sign
+    bad = tmp_path / "bad.toml"
+    bad.write_text(src.replace("revision", "revison"), encoding="utf-8")
+    capsys.readouterr()
+    assert main(["select", str(bad)]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "project.revison: unknown key" in err[0]
+
+
+def test_beam_sheet_carries_the_project_fields(tmp_path):
+    src = (EXAMPLES / "beam-three-span.toml").read_text(encoding="utf-8")
+    job = tmp_path / "beam.toml"
+    job.write_text(src + '\n[project]\nname = "Invented footbridge"\nchecked_by = "B. Somebody"\n', encoding="utf-8")
+    out = tmp_path / "beam.html"
+    assert main(["beam", str(job), "--report", str(out)]) == 0
+    html = out.read_text(encoding="utf-8")
+    assert "<tr><td><b>Project</b></td><td>Invented footbridge</td></tr>" in html
+    assert "<tr><td><b>Checked by</b></td><td>B. Somebody</td></tr>" in html

@@ -30,12 +30,14 @@ def add_parser(subparsers):
 def run(args) -> int:
     from ..beam import parse_beam, solve
     from ..fileio import load_toml
+    from ..project import parse_project
     from ..select.member import section_stiffness
 
     path = Path(args.file)
     data = load_toml(path)
     with stage("reading the job"):
         model = parse_beam(data, path.parent, field_prefix=f"{path.name}: ", section_stiffness=section_stiffness)
+        project = parse_project(data.get("project"), f"{path.name}: ")
     for note in model.notes:
         warn("beam", note)
     with stage("solving the beam"):
@@ -52,7 +54,7 @@ def run(args) -> int:
         from ..report.sheet import write_beam_sheet
 
         with option_paths(("--report", args.report)):
-            write_beam_sheet(sol, args.report, units=args.units, source=str(path))
+            write_beam_sheet(sol, args.report, units=args.units, source=str(path), project=project)
     if args.json:
         out["caution"] = CAUTION
         emit_json(out, "the beam's results")

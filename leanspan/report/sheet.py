@@ -97,10 +97,11 @@ def _invented(*texts) -> bool:
     return any("invented" in (t or "").lower() for t in texts)
 
 
-def _header(title: str, kind: str, source: str, units: str, invented: bool, contents) -> str:
+def _header(title: str, kind: str, source: str, units: str, invented: bool, contents, project=None) -> str:
     shown = ", ".join(_u(k, units)[0] for k in ("length", "force", "moment", "pressure", "mass/length"))
     system = "SI" if units == "si" else "US customary"
-    rows = [("Sheet", kind), ("Date", _today()), ("Input", source or "(not given)"),
+    rows = list(project.rows()) if project is not None else []
+    rows += [("Sheet", kind), ("Date", _today()), ("Input", source or "(not given)"),
             ("Units", f"{system} ({shown}; positions in {_u('span', units)[0]})"),
             ("Program", f"leanspan {__version__}")]
     out = [f"<h1>{esc(title)}</h1>", '<table class="meta">']
@@ -244,6 +245,29 @@ def _dims_text(cand, units):
     return ", ".join(f"{k} = {_qu(v, 'length', units)}" for k, v in cand["dims"].items())
 
 
+def _formula_text(tokens, units) -> str:
+    """A substituted formula (:attr:`CheckRow.formula`) as text, values in display units."""
+    out = []
+    for t in tokens:
+        if isinstance(t, tuple):
+            out.append(_qu(t[0], t[1], units))
+        elif isinstance(t, str):
+            out.append(t)
+        else:
+            out.append(f"{float(t):.4g}")
+    return "".join(out)
+
+
+def _formulas(chosen, units) -> str:
+    """The governing checks' formulas with their numbers, one line each."""
+    items = [f"<li><b>{esc(r.check)}</b> ({esc(r.combination)}): {esc(_formula_text(r.formula, units))}</li>"
+             for r in check_rows(chosen) if r.formula]
+    if not items:
+        return ""
+    return ('<h3>Substituted formulas</h3><p class="small">Each check at its governing combination, '
+            "the chosen member's own values substituted:</p><ul class=\"formulas\">" + "".join(items) + "</ul>")
+
+
 def _check_rows(sel, chosen, units):
     """The checks table rows (and row classes) from the registry's rows for the chosen member."""
     rows, classes = [], []
@@ -283,7 +307,7 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
     contents = [("job", "Job"), ("beam", "Loaded beam and internal forces"), ("section", "The section"),
                 ("checks", "Checks"), ("candidates", "Ranked candidates"),
                 ("assumptions", "Assumptions and what is not checked")]
-    head = _header(title, "member selection", source, units, _invented(title, source), contents)
+    head = _header(title, "member selection", source, units, _invented(title, source), contents, job.project)
     if sel.success:
         verdict = (f'<p class="verdict"><b>Chosen: {esc(cand["name"])}</b> ({esc(cand["material"])}, '
                    f'{esc(cand["series"])}), <span data-key="chosen.mass_per_length">'
@@ -305,15 +329,27 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
                    f"EI = {_qu(float(row['E']) * float(row['Iz']), 'flexural stiffness', units)}, "
                    f"self-weight included): envelope of all combinations in grey, the governing "
                    f"combination as a line with its extremes marked.")
-    rs = [(n, r) for n, r in sol.results.items() if r.kind != "case"]
-    rrows = []
-    for n, r in rs:
-        for s, rx in zip(sol.model.supports, r.reactions):
-            rrows.append([n, f"{s.type} at {_qu(s.at, 'span', units)}", num(_q(rx["force"], "force", units))]
-                         + ([num(_q(rx["moment"], "moment", units))] if s.rotational else ["-"]))
     fl, ml = _u("force", units)[0], _u("moment", units)[0]
-    reactions = table(["combination", "support", f"force [{fl}] (up +)", f"moment [{ml}] (ccw +)"], rrows,
-                      caption="Support reactions of the chosen member (envelope: the larger-magnitude bound)")
+
+    def reaction_rows(kind_test):
+        out = []
+        for n, r in sol.results.items():
+            if not kind_test(r.kind):
+                continue
+            for i, (s, rx) in enumerate(zip(sol.model.supports, r.reactions)):
+                out.append([n, f"{s.type} at {_qu(s.at, 'span', units)}",
+                            num(_q(rx["force"], "force", units), f"{n}.R{i}.force")]
+                           + ([num(_q(rx["moment"], "moment", units))] if s.rotational else ["-"]))
+        return out
+    heads = ["support", f"force [{fl}] (up +)", f"moment [{ml}] (ccw +)"]
+    sw = job.search.self_weight
+    reactions = (table(["load case"] + heads, reaction_rows(lambda k: k == "case"),
+                       caption="Characteristic support reactions per load case (unfactored"
+                               + (f"; case {sw} includes the chosen member's self-weight" if sw else "")
+                               + "), for the supporting structure and the bearings")
+                 + table(["combination"] + heads, reaction_rows(lambda k: k != "case"),
+                         caption="Design support reactions of the chosen member per combination "
+                                 "(envelope: the larger-magnitude bound)"))
     parts.append(section("Loaded beam and internal forces", beam_fig + diag + reactions, anchor="beam"))
 
     secn, props = chosen.section, chosen.properties
@@ -335,7 +371,7 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
             "black mark is 1.0); each check "
             f"is shown at its governing combination. Stress limits: {esc(job.limits.describe(units))} "
             f"(for {esc(cand['material'])}). {how}</p>")
-    parts.append(section("Checks", ctable + note, anchor="checks"))
+    parts.append(section("Checks", ctable + _formulas(chosen, units) + note, anchor="checks"))
 
     labels, trows = table_rows(sel, units, top)
     shown = sel.shown(top)
@@ -391,7 +427,7 @@ def write_selection_sheet(sel, path, units: str = "si", source: str = "", top: i
 
 
 # -- beam sheet --------------------------------------------------------------------------------
-def beam_sheet_html(solution, units: str = "si", source: str = "") -> str:
+def beam_sheet_html(solution, units: str = "si", source: str = "", project=None) -> str:
     """The whole beam sheet as an HTML string (see :func:`write_beam_sheet`)."""
     from .diagrams import diagram_figure, governing, loaded_beam_figure
 
@@ -399,7 +435,7 @@ def beam_sheet_html(solution, units: str = "si", source: str = "") -> str:
     title = model.name or (Path(source).stem if source else "Beam")
     contents = [("job", "Job"), ("beam", "Loaded beam and internal forces"), ("results", "Results"),
                 ("assumptions", "Assumptions and what is not checked")]
-    head = _header(title, "beam analysis", source, units, _invented(title, source), contents)
+    head = _header(title, "beam analysis", source, units, _invented(title, source), contents, project)
     parts = [head, section("Job", _beam_tables(model, units, show_ei=True), anchor="job")]
     picks = governing(solution)
     parts.append(section("Loaded beam and internal forces",
@@ -463,8 +499,9 @@ def beam_sheet_html(solution, units: str = "si", source: str = "") -> str:
     return page(f"{title} — leanspan calculation sheet", "\n".join(parts))
 
 
-def write_beam_sheet(solution, path, units: str = "si", source: str = "") -> None:
-    """Write the calculation sheet of a solved beam (:class:`leanspan.beam.BeamSolution`) atomically.
+def write_beam_sheet(solution, path, units: str = "si", source: str = "", project=None) -> None:
+    """Write the calculation sheet of a solved beam (:class:`leanspan.beam.BeamSolution`) atomically;
+    ``project`` (:class:`leanspan.project.Project`) fills the title block.
 
     Raises
     ------
@@ -472,7 +509,7 @@ def write_beam_sheet(solution, path, units: str = "si", source: str = "") -> Non
         ``path`` does not end in .html, its folder is missing, or it is an input file.
     """
     path = _check_target(path)
-    _write(path, beam_sheet_html(solution, units, source))
+    _write(path, beam_sheet_html(solution, units, source, project))
 
 
 # -- section sheet -----------------------------------------------------------------------------

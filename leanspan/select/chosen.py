@@ -57,12 +57,16 @@ def _default_row(check, chosen) -> list:
     if c < 0:
         return []
     util = float(res.utilisation[check.name][k])
-    action = check.action(res.effects.take(k), c) if check.action is not None else ()
+    one = res.effects.take(k)
+    action = check.action(one, c) if check.action is not None else ()
+    formula = ()
+    if check.formula is not None:
+        formula = check.formula(one, {col: np.asarray(v)[[k]] for col, v in res.props.items()}, c)
     return [CheckRow(check=check.label, combination=res.effects.combinations[c].name, action=action,
                      demand=float(res.demand[check.name][k]), limit=float(res.allowable[check.name][k]),
                      kind=check.kind, utilisation=None if np.isnan(util) else util,
                      keys={"demand": f"chosen.demands.{check.demand_key}", "limit": f"limit.{check.name}",
-                           "utilisation": f"chosen.utilisation.{check.name}"})]
+                           "utilisation": f"chosen.utilisation.{check.name}"}, formula=formula)]
 
 
 def check_rows(chosen: ChosenMember) -> list:

@@ -37,6 +37,7 @@ from ..catalog.materials import get_material, materials_table
 from ..catalog.table import check_shape_names
 from ..errors import LeanspanError, SelectionError, brief
 from ..fileio import is_file
+from ..project import Project, parse_project
 from ..units import UnitSystem, check_number, display_factor, fmt, parse
 from .checks import limit_keys
 
@@ -128,6 +129,7 @@ class Job:
     limits: Limits
     title: str = ""
     base_dir: Path = Path(".")
+    project: Project = Project()  # the sheet's title-block fields ([project])
 
 
 def _names(value, field):
@@ -237,7 +239,7 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
     search = SearchSpec(families, materials, catalog, sizes["max_depth"], sizes["min_depth"],
                         sizes["max_width"], sizes["min_width"], objective, sw, mat_file)
     title = data["beam"].get("title") or data["beam"].get("name") or ""
-    return Job(model, search, limits, str(title), Path(base_dir))
+    return Job(model, search, limits, str(title), Path(base_dir), parse_project(data.get("project"), p))
 
 
 def _factor(value, field):

@@ -38,9 +38,20 @@ def _action(eff, c):
     return tuple(out) or (("M", 0.0, "moment"),)
 
 
+def _formula(eff, props, c):
+    """σ = M / Sz with the governing moment and the smaller modulus (the fibre it stresses)."""
+    hi, lo = float(eff.M_max[0, c]), float(eff.M_min[0, c])
+    sag = max(hi, 0.0) >= max(-lo, 0.0)
+    top, bot = float(props["Sz_top"][0]), float(props["Sz_bot"][0])
+    M, S = (hi if sag else -lo), min(top, bot)
+    side = "bottom" if bot <= top else "top"
+    return ("σ = |M| / Sz," + side + " = ", (M, "moment"), " / ", (S, "section modulus"), " = ",
+            (M / S, "pressure"))
+
+
 BENDING = register(Check(
     name="bending", label="bending", columns=("Sz_top", "Sz_bot", "strength_bending"),
     demand=_demand, allowable=_allowable, kind="pressure", demand_key="sigma",
     sentence="Bending stress σ = M / Sz, the larger of M max / Sz bottom and |M min| / Sz top, "
              "against the bending stress limit.",
-    action=_action))
+    action=_action, formula=_formula))

@@ -43,6 +43,9 @@ def _sheet_rows(chosen):
             action=(("v", c["v_extreme"], "length"), ("at x =", c["at"], "span")),
             demand=abs(c["v_extreme"]), limit=c["allowed"], kind="length",
             utilisation=c["utilisation"], rule=rules.get(name),
+            formula=("|v| = ", (abs(c["v_extreme"]), "length"), " at x = ", (c["at"], "span"), " ≤ allowed ",
+                     (c["allowed"], "length"), f" ({c['limit']} of the {c['kind']}, "
+                     f"length ", (c["to"] - c["from"], "span"), ")"),
             keys={"demand": "chosen.demands.v_abs" if i == worst else None, "limit": None,
                   "utilisation": f"chosen.utilisation.{key}"}))
     return out

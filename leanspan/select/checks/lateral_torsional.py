@@ -251,6 +251,18 @@ def _details(eff, props) -> dict:
             "method": eff.limits.get("lateral_torsional_method", "curve")}
 
 
+def _formula(eff, props, c):
+    """σ = |M| / (χ Sz) of the governing segment, with its Mcr and C1 (from :func:`_details`)."""
+    d = _details(eff, props)
+    if not d["checked"]:
+        return ("not checkable: the principal axes are tilted",)
+    S = float(min(props["Sz_top"][0], props["Sz_bot"][0]))
+    M, chi = abs(d["M"]), d["chi"]
+    return ("σ = |M| / (χ Sz) = ", (M, "moment"), " / (", chi, " × ", (S, "section modulus"), ") = ",
+            (M / (chi * S), "pressure"), "; segment x = ", (d["segment_start"], "span"), " to ",
+            (d["segment_end"], "span"), ", Mcr = ", (d["Mcr"], "moment"), ", C1 = ", d["C1"])
+
+
 def _allowable(props, limits, eff):
     return limits.bending_allowable(props["strength_bending"])[:, None]
 
@@ -269,4 +281,4 @@ LATERAL_TORSIONAL = register(Check(
     limit_keys={"lateral_restraint": "text", "lateral_restraint_at": "lengths", "load_height": "text",
                 "overhang_length_factor": "number", "lateral_torsional_method": "text",
                 "max_moment_ratio": "number"},
-    active=_active, details=_details))
+    active=_active, details=_details, formula=_formula))

@@ -83,7 +83,9 @@ class CheckRow:
     ``demand`` and ``limit`` are in ``kind`` units; ``rule``, where given, is the limit's
     rule with a ``describe(units)`` method (``span/360``, ``12 mm``) shown beside it;
     ``keys`` names the values for the sheet's ``data-key`` attributes (``demand``,
-    ``limit``, ``utilisation``).
+    ``limit``, ``utilisation``); ``formula``, where given, is the check's formula with its
+    numbers substituted: text pieces and ``(value, display kind)`` pairs (a bare float is a
+    plain number), e.g. ``("σ = M / Sz = ", (28.7e3, "moment"), " / ", (1.83e-4, "section modulus"))``.
     """
 
     check: str
@@ -95,6 +97,7 @@ class CheckRow:
     utilisation: float | None
     rule: object = None
     keys: dict = field(default_factory=dict)
+    formula: tuple = ()  # the formula with its numbers: text pieces and (value, kind) pairs
 
 
 @dataclass(frozen=True)
@@ -143,6 +146,10 @@ class Check:
         :meth:`Effects.take`, ``props`` arrays of length 1): the values behind its result (Mcr,
         segment, C1, reduction factor ...; SI floats, strings), shown as ``checks.<name>`` in
         the selection's JSON for the chosen (else closest) candidate.
+    formula : callable, optional
+        ``formula(effects, props, c) -> tuple`` for ONE candidate at combination ``c``: the
+        :attr:`CheckRow.formula` of its default sheet row (the sheet prints it with the numbers
+        in display units).
     """
 
     name: str
@@ -160,6 +167,7 @@ class Check:
     sheet_rows: Callable | None = None
     demand_json: Callable | None = None
     details: Callable | None = None
+    formula: Callable | None = None
 
     def __post_init__(self):
         if not self.name.isidentifier():

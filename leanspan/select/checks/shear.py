@@ -31,9 +31,14 @@ def _action(eff, c):
     return (("|V| max", float(eff.V_abs[0, c]), "force"),)
 
 
+def _formula(eff, props, c):
+    V, k = float(eff.V_abs[0, c]), float(props["shear_factor"][0])
+    return ("τ = |V| × shear factor = ", (V, "force"), " × ", (k, "shear factor"), " = ", (V * k, "pressure"))
+
+
 SHEAR = register(Check(
     name="shear", label="shear", columns=("shear_factor", "strength_shear"),
     demand=_demand, allowable=_allowable, kind="pressure", demand_key="tau",
     sentence="Shear stress τ = |V| × shear factor (the section's peak shear stress per unit shear "
              "force) against the shear stress limit.",
-    action=_action))
+    action=_action, formula=_formula))
