@@ -8,8 +8,13 @@ contains one of the substrings).
 from __future__ import annotations
 
 import importlib.util
+import os
 import sys
 from pathlib import Path
+
+# the command line's BLAS setting (leanspan/cli/__init__.py), before numpy loads
+for _var in ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS"):
+    os.environ.setdefault(_var, "1")
 
 
 def main(argv: list[str]) -> int:
