@@ -266,6 +266,11 @@ def fundamental_frequencies(model: BeamModel, EI, mass_per_length, permanent_cas
     if level is None:
         level = max(_converged_level(model, loads, ratio[k], mass[k], tol) for k in ends)
     sysm = _system(model, loads, level)
+    if not springs:
+        # K phi = lambda (m Mu + Mp) phi with K = r K1: lambda scales with r exactly, so only the
+        # distinct masses need the Ritz solve (at r = 1), a one-parameter family
+        m_unique, back = np.unique(mass, return_inverse=True)
+        return _reduced_basis(sysm, np.ones(m_unique.size), m_unique)[back] * np.sqrt(ratio)
     return _reduced_basis(sysm, ratio, mass)
 
 
