@@ -168,6 +168,39 @@ def test_effective_section_of_a_slender_plate_girder_web_by_hand():
     assert float(S[0]) < float(df.Sz_top[0])
 
 
+def test_effective_section_flanges_first_then_web_by_hand():
+    """I 2000x600x20x25 in S460 (fy 440 for 16 < t <= 40, EN 10025-4, from memory), sagging, by the
+    EN 1993-1-5 4.4(3) chain: top flange outstands c/t = 290/25 = 11.6 > 14 eps (k_sigma 0.43, tip cut),
+    then the web 1950/20 = 97.5 > class 3 with psi from the section with the effective flange."""
+    df = catalog_table(series=["gen_plate_girder"], materials=["S460"])
+    df = df[df.name == "I 2000x600x20x25"].reset_index(drop=True)
+    p = member_arrays(df, list(df.columns))
+    eps = math.sqrt(235 / 440)
+    d, b, tw, tf = 2.0, 0.6, 0.020, 0.025
+    cf, hw = (b - tw) / 2, d - 2 * tf
+    lam_f = (cf / tf) / (28.4 * eps * math.sqrt(0.43))
+    rho_f = (lam_f - 0.188) / lam_f**2
+    A, I = 2 * b * tf + hw * tw, (b * d**3 - (b - tw) * hw**3) / 12
+    a_f, y_f = 2 * (1 - rho_f) * cf * tf, d - tf / 2
+    y1 = (A * d / 2 - a_f * y_f) / (A - a_f)
+    top, bot = d - tf, tf
+    psi = (bot - y1) / (top - y1)
+    k = 7.81 - 6.29 * psi + 9.78 * psi**2
+    lam_w = (hw / tw) / (28.4 * eps * math.sqrt(k))
+    rho_w = (lam_w - 0.055 * (3 + psi)) / lam_w**2
+    bc = hw / (1 - psi)
+    beff = rho_w * bc
+    a_w, y_w = (bc - beff) * tw, top - 0.4 * beff - (bc - beff) / 2
+    holes = [(a_f, y_f, 2 * (1 - rho_f) * cf * tf**3 / 12), (a_w, y_w, tw * (bc - beff) ** 3 / 12)]
+    a = sum(h[0] for h in holes)
+    ye = (A * d / 2 - sum(h[0] * h[1] for h in holes)) / (A - a)
+    Ie = I + A * (d / 2 - ye) ** 2 - sum(h[2] + h[0] * (h[1] - ye) ** 2 for h in holes)
+    S, r = effective_moduli(p, 1.0)
+    assert float(r[0, 0]) == pytest.approx(rho_f, rel=1e-9) and float(r[0, 2]) == pytest.approx(rho_w, rel=1e-9)
+    assert float(S[0]) == pytest.approx(Ie / max(d - ye, ye), rel=1e-9)
+    assert 0.85 < float(S[0]) / float(df.Sz_top[0]) < 1.0
+
+
 def test_effective_box_flange_in_compression_by_hand():
     """box 400x400x10, S355J2H: top flange c = 370, psi = 1, k_sigma = 4, lam_p = 37 / (28.4 eps 2),
     rho = (lam_p - 0.22) / lam_p^2 (EN 1993-1-5 4.4(2)); the middle (1 - rho) c of the flange is removed."""
@@ -181,6 +214,26 @@ def test_effective_box_flange_in_compression_by_hand():
     ye = (A * yc - a_h * y_h) / (A - a_h)
     Ie = Iz + A * (yc - ye) ** 2 - (a_h * 0.010**2 / 12 + a_h * (y_h - ye) ** 2)
     assert float(S[0]) == pytest.approx(Ie / max(d - ye, ye), rel=1e-9)  # webs 37 < 124 eps: fully effective
+
+
+def test_aluminium_effective_thickness_by_hand():
+    """box 200x200x5 of 6061-T6 (f0 240 MPa, EN 1999-1-1 Table 3.2b, from memory): eps = sqrt(250/240);
+    top flange beta = (200 - 15)/5 = 37 > 22 eps (class 4, buckling class A); rho_c = 32 / (beta/eps) -
+    220 / (beta/eps)^2 (EN 1999-1-1 6.1.5, from memory); the flange keeps the thickness rho_c t."""
+    df, p = _rows("box 200x200x5", series=["gen_alu_box"])
+    eps = math.sqrt(250 / 240)
+    q = 37 / eps
+    rho = 32 / q - 220 / q**2
+    c = classify(p, 1.0)
+    assert int(c.section_class[0]) == 4 and c.limit[0] == pytest.approx(22 * eps)
+    S, r = effective_moduli(p, 1.0)
+    assert float(r[0, 0]) == pytest.approx(rho, rel=1e-12)
+    A, yc, Iz, d = (float(df[k][0]) for k in ("A", "yc", "Iz", "depth"))
+    th = (1 - rho) * 0.005
+    a_h, y_h = th * 0.185, d - 0.0025
+    ye = (A * yc - a_h * y_h) / (A - a_h)
+    Ie = Iz + A * (yc - ye) ** 2 - (0.185 * th**3 / 12 + a_h * (y_h - ye) ** 2)
+    assert float(S[0]) == pytest.approx(Ie / max(d - ye, ye), rel=1e-9)  # webs: beta 0.4 x 37 < 22 eps
 
 
 def test_web_shear_buckling_of_a_slender_plate_girder_by_hand():

@@ -214,7 +214,7 @@ def _stress(el: Elements, y_n, sign):
     s1 = np.where(el.horizontal, sa, np.fmax(sa, sb))
     with np.errstate(divide="ignore", invalid="ignore"):
         psi = np.where(el.horizontal, 1.0, np.round(np.fmin(sa, sb) / s1, 9))  # -1 stays -1 (symmetric)
-    tip = sb >= sa  # outstands: yb is the tip
+    tip = el.horizontal | (sb >= sa)  # outstands: yb is the tip; a flange is uniform (k_sigma 0.43)
     comp = (s1 > 0) & (el.type != NONE)
     comp = np.where(el.type == TUBE, el.type == TUBE, comp)
     return comp, np.where(comp, psi, 1.0), tip, np.where(sa >= sb, el.ya, el.yb)
