@@ -327,5 +327,5 @@ def test_sheet_names_the_class_and_the_source(tmp_path, capsys):
     sheet = tmp_path / "sheet.html"
     assert main(["select", str(job), "--report", str(sheet)]) == 0
     html = sheet.read_text(encoding="utf-8")
-    assert "class 4 (sagging): top flange ratio 37.0" in html and "EN 1993-1-5 4.4" in html
+    assert "class 4 (sagging): top flange c/t 37.0" in html and "EN 1993-1-5 4.4" in html
     assert "local buckling of flanges, webs or thin walls" not in html  # covered: off the not-checked list

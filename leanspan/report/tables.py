@@ -80,19 +80,19 @@ def thickness_note(shown, units: str = "si") -> str:
 
     >>> thickness_note([{"name": "I 1000x300x10x25", "material": "S355", "strength_bending": 345e6,
     ...                  "strength_thickness": 0.025}])
-    'Yield stepped down by thickness (thickest element; EN 10025-2 and the other product standards): I 1000x300x10x25 (S355, t 25 mm): 345 MPa.'
+    'Yield stepped down by thickness (the thickest element; EN 10025-2 and the other product standards): S355 345 MPa: I 1000x300x10x25.'
     """
     steps = thickness_steps()
     su, sf = display_factor("pressure", units)
-    lu, lf = display_factor("length", units)
-    parts = [f"{c['name']} ({c['material']}, t {fmt(c['strength_thickness'] / lf, 4)} {lu}): "
-             f"{fmt(c['strength_bending'] / sf, 4)} {su}" for c in shown
-             if c.get("strength_thickness") is not None and c["material"] in steps
-             and c["strength_thickness"] > steps[c["material"]][0][0] * (1 + 1e-9)]
-    if not parts:
+    groups = {}
+    for c in shown:
+        t = c.get("strength_thickness")
+        if t is not None and c["material"] in steps and t > steps[c["material"]][0][0] * (1 + 1e-9):
+            groups.setdefault(f"{c['material']} {fmt(c['strength_bending'] / sf, 4)} {su}", []).append(c["name"])
+    if not groups:
         return ""
-    return ("Yield stepped down by thickness (thickest element; EN 10025-2 and the other product standards): "
-            + "; ".join(parts) + ".")
+    return ("Yield stepped down by thickness (the thickest element; EN 10025-2 and the other product standards): "
+            + "; ".join(f"{k}: {', '.join(v)}" for k, v in groups.items()) + ".")
 
 
 def _unrestrained(sel, top):

@@ -35,6 +35,7 @@ import dataclasses
 import numpy as np
 
 from ...errors import SelectionError
+from .bending import BENDING
 from .registry import Check, TextRule, register
 from .section_class import METALS, classify, effective_moduli, epsilon
 
@@ -121,7 +122,7 @@ def _sheet_rows(chosen):
     d = chosen.selection.result.details(chosen.index).get("local_buckling", {})
     if not rows or "element" not in d:
         return rows
-    what = "ratio" if str(chosen.row["kind"]) != "aluminium" else "β"
+    what = "β" if str(chosen.row["kind"]) == "aluminium" else ("d/t" if d["element"] == "wall" else "c/t")
     text = (f"class {d['section_class']} ({d['moment']}): {d['element']} {what} {d['ratio']:.1f} vs class 3 "
             f"limit {d['limit']:.1f}, ε = {d['epsilon']:.3f}")
     if d["section_class"] == 4:
@@ -140,4 +141,4 @@ LOCAL_BUCKLING = register(Check(
              "sections are excluded or checked as M / S_eff on the effective section (EN 1993-1-5 4.4 "
              "effective widths, flanges then webs), as [limits] slender_sections says.",
     covers=("local_buckling",), limit_keys={"slender_sections": "text"},
-    active=_active, sheet_rows=_sheet_rows, details=_details))
+    action=BENDING.action, active=_active, sheet_rows=_sheet_rows, details=_details))
