@@ -329,3 +329,11 @@ def test_sheet_names_the_class_and_the_source(tmp_path, capsys):
     html = sheet.read_text(encoding="utf-8")
     assert "class 4 (sagging): top flange c/t 37.0" in html and "EN 1993-1-5 4.4" in html
     assert "local buckling of flanges, webs or thin walls" not in html  # covered: off the not-checked list
+
+
+def test_rows_thicker_than_the_table_keep_its_last_step_with_a_warning(tmp_path):
+    p = tmp_path / "list.csv"
+    p.write_text("family,d,b,tw,tf,material\nibeam,900,400,40,160,S355\n")
+    df = catalog_table(user_csv=p)
+    assert df.strength_bending[0] == pytest.approx(295e6)  # EN 10025-2 Table 7, 100 < t <= 150 mm (from memory)
+    assert any("S355: 1 catalogue row(s) thicker than 150 mm" in w for w in df.attrs["warnings"])
