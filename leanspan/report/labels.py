@@ -86,8 +86,7 @@ MEMBER_KEYS = ("A", "yc", "depth", "width", "Iz", "Iy", "Sz_top", "Sz_bot", "Zz"
 CATALOG_CSV_KEYS = ("d", "b", "tw", "tf", "t", "r", "b_top", "tf_top", "b_bot", "tf_bot",
                     "A", "yc", "zc", "Iz", "Iy", "Iyz", "I1", "I2", "theta", "Sz_top", "Sz_bot",
                     "Sy_left", "Sy_right", "Zz", "Zy", "rz", "ry", "depth", "width", "shear_factor",
-                    "E", "G", "density", "strength_bending", "strength_shear", "strength_thickness",
-                    "mass_per_length")
+                    "E", "G", "density", "strength_bending", "strength_shear", "mass_per_length")
 CATALOG_TABLE_KEYS = ("depth", "width", "A", "Iz", "Sz_top", "Sz_bot", "Zz", "Iy", "mass_per_length")
 # the materials table
 MATERIAL_KEYS = ("E", "G", "density", "strength_bending", "strength_shear")
