@@ -3,23 +3,19 @@
 Every steel, stainless and aluminium candidate is split into up to four plate elements from its
 family's dimensions (the catalogue's ``dims`` columns), bending about the horizontal axis:
 
-========== ======================== ========================== =============================
-family     top flange (slot 0)      bottom flange (slot 1)     web (slot 2)
-========== ======================== ========================== =============================
-ibeam      2 outstands c = (b_top - tw - 2r)/2, t = tf_top;    internal, c = d - tf_top - tf_bot - 2r
-           bottom likewise
-channel    1 outstand c = b - tw - r, t = tf (each flange)     internal, c = d - 2 tf - 2 r
-tee        2 outstands c = (b - tw - 2r)/2  -                  stem: outstand, root at the flange,
-                                                               c = d - tf - r, t = tw
-angle      -                        outstand c = b - t - r     vertical leg: outstand, root at the
-                                    (horizontal leg)           bottom, c = d - t - r
-box        internal c = b - 3t      internal c = b - 3t        2 webs, internal, c = d - 3t
-tube       the wall: d / t (slot 3)
-========== ======================== ========================== =============================
+- ``ibeam``: top and bottom flanges, each 2 outstands c = (b_top - tw - 2r)/2, t = tf_top (bottom
+  alike); the web, internal, c = d - tf_top - tf_bot - 2r, t = tw;
+- ``channel``: each flange 1 outstand c = b - tw - r, t = tf; the web, internal, c = d - 2tf - 2r;
+- ``tee``: the flange, 2 outstands c = (b - tw - 2r)/2; the stem, an outstand with its root at the
+  flange, c = d - tf - r, t = tw;
+- ``angle``: the horizontal leg, an outstand c = b - t - r; the vertical leg, an outstand with its
+  root at the bottom, c = d - t - r;
+- ``box``: top and bottom flanges, internal, c = b - 3t; 2 webs, internal, c = d - 3t;
+- ``tube``: the wall, d / t.
 
 Welded I sections have no weld throat in the dimensions, so c runs to the web face (r = 0):
 conservative. ``c = b - 3t`` for hollow sections is the simplification EN 1993-1-1 Table 5.2
-allows (from memory). Solid bars and timber have no elements (class 1, nothing to check).
+allows (from memory). Solid metal bars have no plate elements (class 1); timber is not classified (0).
 
 **Stress distribution.** Elastic bending about the horizontal axis, sagging (top in compression)
 and hogging separately: a flange is in uniform compression (psi = 1) or in tension; a web or leg
@@ -63,7 +59,8 @@ of an outstand whose tip is compressed, next to the neutral axis where its root 
 reduced first with the gross stress ratio, then the webs with the stress ratio of the section
 with effective flanges (EN 1993-1-5 4.4(3), one pass, no iteration). The ineffective strips are
 holes in the gross section (exact A, yc, Iz of the catalogue with fillets); S_eff = I_eff / the
-larger distance of the extreme fibres from the effective neutral axis. Tubes (CHS) of class 4 have
+larger distance of the gross section's extreme fibres from the effective neutral axis
+(conservative where a strip at a tip is cut). Tubes (CHS) of class 4 have
 no effective-width rule here (EN 1993-1-6 territory): they fail.
 
 **Web shear buckling** (steel only): webs with hw / t > 72 eps / eta (EN 1993-1-5 5.1(2), eta = 1.2 up
