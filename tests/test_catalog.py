@@ -106,7 +106,10 @@ def test_filters_and_material_pairing():
     assert set(df[df.series != "gen_alu_i"].material) == {"S275"}
     assert (df.depth <= 0.4 * (1 + 1e-4)).all() and (df.width >= 0.1 * (1 - 1e-4)).all()
     steel = df[df.material == "S275"]
-    assert np.allclose(steel.mass_per_length, steel.A * 7850) and (steel.strength_bending == 275e6).all()
+    assert np.allclose(steel.mass_per_length, steel.A * 7850)
+    # EN 10025-2 Table 7 (from memory): 275 MPa up to 16 mm, 265 up to 40 mm, 255 up to 63 mm
+    t = steel.strength_thickness
+    assert (steel.strength_bending == np.select([t <= 0.016, t <= 0.040], [275e6, 265e6], 255e6)).all()
     timber = catalog_table(materials="C16")
     assert set(timber.series) == {"sawn_metric", "sawn_dressed_in"}
     with pytest.raises(CatalogError, match="unknown family 'wood'"):

@@ -79,7 +79,7 @@ def _plastic_allowable(props, limits, eff):
 TOY = Check(name="plastic_bending", label="plastic", columns=("Zz",), demand=_plastic_demand,
             allowable=_plastic_allowable, kind="pressure", demand_key="sigma_plastic",
             sentence="Toy check: plastic bending stress M / Zz against the plastic stress limit.",
-            covers=("local_buckling",), limit_keys={"plastic_stress": "pressure"})
+            covers=("connections",), limit_keys={"plastic_stress": "pressure"})
 
 JOB = """
 [beam]
@@ -109,7 +109,7 @@ def test_a_registered_check_reaches_screen_table_json_and_sheet(tmp_path, capsys
         out = json.loads(capsys.readouterr().out)
         assert main(["select", str(job)]) == 0
         text = capsys.readouterr().out
-        assert "local buckling of flanges, webs or thin walls" not in not_checked()
+        assert "connections, fixings and notches" not in not_checked()
     # JSON: the check's utilisation, equal to the hand value. Simply supported span under a
     # uniform load: M = w L^2 / 8 (beam-formula handbooks); plastic modulus of a rectangle
     # Zz = b d^2 / 4 (mechanics-of-materials texts).
@@ -126,9 +126,9 @@ def test_a_registered_check_reaches_screen_table_json_and_sheet(tmp_path, capsys
     html = sheet.read_text(encoding="utf-8")
     assert 'data-key="chosen.utilisation.plastic_bending"' in html
     assert "Toy check: plastic bending stress" in html
-    assert "local buckling of flanges" not in html
+    assert "connections, fixings and notches" not in html
     # unregistered again: the contract's three checks only
-    assert "local buckling of flanges, webs or thin walls" in not_checked()
+    assert "connections, fixings and notches" in not_checked()
     assert main(["select", str(job), "--json"]) == 2  # plastic_stress is unknown without the check
     assert "limits.plastic_stress: unknown key" in capsys.readouterr().err
 
@@ -186,9 +186,9 @@ def test_an_inactive_check_adds_nothing(tmp_path, capsys):
     sheet = tmp_path / "toy.html"
     with registered_check(lazy):
         out = _json_select(capsys, job, sheet)
-        assert set(out["chosen"]["utilisation"]) == {"bending", "shear", "deflection"}
+        assert set(out["chosen"]["utilisation"]) == {"bending", "shear", "deflection", "local_buckling"}
         html = sheet.read_text(encoding="utf-8")
-        assert "plastic_bending" not in html and "local buckling of flanges" in html
+        assert "plastic_bending" not in html and "connections, fixings and notches" in html
         job.write_text(JOB, encoding="utf-8")  # now asked for
         out = _json_select(capsys, job, sheet)
         assert "plastic_bending" in out["chosen"]["utilisation"]

@@ -99,7 +99,7 @@ def test_every_part_is_on_the_sheet(demo):
     assert "local building code" in html and "licensed" in html
     assert "Invented demo data" in html                             # the demo job says it is invented
     assert html.count("<svg") >= 3 + 3                              # beam, diagrams, section + bars
-    assert html.count('class="bar"') == 5                           # bending, shear, two deflection checks, buckling
+    assert html.count('class="bar"') == 6                           # bending, shear, two deflection checks, buckling, local buckling
     for label in ("dead", "snow", "span/360", "span/250", "1.35 × dead + 1.5 × snow"):
         assert label in html
     # the extremes are annotated on the diagrams (in the SVG text, fonts left to the browser)

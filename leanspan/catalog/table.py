@@ -4,7 +4,9 @@
 material kind``, one column per dimension key (:data:`DIM_KEYS`, NaN where a family
 does not use it), the section keys of :data:`leanspan.sections.properties.KEYS`, and
 the material columns ``E G density strength_bending strength_shear mass_per_length``
-(SI units throughout).
+and ``strength_thickness`` (SI units throughout). The strengths of graded metals are stepped
+by thickness (:mod:`.thickness`): ``strength_thickness`` is the row's governing thickness
+(its thickest element), NaN for materials without steps.
 
 The geometry and properties of the built-in series are computed once per family
 (all rows at once) and cached: in memory for the process and on disk under
@@ -46,6 +48,7 @@ from ..sections.properties import KEYS, STABILITY_KEYS, family_properties, famil
 from .csvfile import column_factor
 from .materials import get_material, materials_table
 from .series import RENAMED, SERIES
+from .thickness import beyond_table, governing_thickness, strength_factors, thickness_steps
 from .user import TABULATED, read_user_catalog
 
 __all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "dims_of", "row_dims", "cache_dir",
@@ -53,7 +56,7 @@ __all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "dims_of", "row_dims
 
 DIM_KEYS = ("d", "b", "tw", "tf", "t", "r", "b_top", "tf_top", "b_bot", "tf_bot")
 MATERIAL_COLUMNS = ("kind", "E", "G", "density", "strength_bending", "strength_shear",
-                    "mass_per_length")
+                    "mass_per_length", "strength_thickness")
 _TEXT_COLUMNS = ("name", "family", "series", "material")
 # every column a block builds: what the disk cache must hold to be used
 _COLUMNS = _TEXT_COLUMNS + DIM_KEYS + tuple(KEYS) + STABILITY_KEYS
@@ -324,7 +327,7 @@ def catalog_table(series=None, families=None, materials=None, user_csv=None, max
                 ok[user] = df["material"][user].map(own).to_numpy(bool)
             parts.append(_with_materials(df[ok], m.name, mats))
         df = pd.concat(parts, ignore_index=True)
-    df.attrs["warnings"] = warnings
+    df.attrs["warnings"] = warnings + beyond_table(df["material"].to_numpy(), df["strength_thickness"].to_numpy())
     return df
 
 
@@ -349,7 +352,20 @@ def _with_materials(df, material, mats):
     for col in ("E", "G", "density", "strength_bending", "strength_shear"):
         df[col] = np.array([getattr(m, col) for m in rows], float)[inv] if rows else []
     df["mass_per_length"] = df["A"].to_numpy() * df["density"].to_numpy()
+    _step_strengths(df)
     return df
+
+
+def _step_strengths(df) -> None:
+    """Scale the strengths of graded metals by their yield step at the governing thickness (the
+    thickest element, :mod:`.thickness`); ``strength_thickness`` is that thickness (NaN: no steps)."""
+    t = governing_thickness(df["family"].to_numpy(), {k: df[k].to_numpy(float) for k in DIM_KEYS})
+    names = df["material"].to_numpy().astype(str)
+    stepped = np.isin(names, list(thickness_steps()))
+    factor = strength_factors(names, t)
+    df["strength_bending"] = df["strength_bending"].to_numpy() * factor
+    df["strength_shear"] = df["strength_shear"].to_numpy() * factor
+    df["strength_thickness"] = np.where(stepped, t, np.nan)
 
 
 def dims_of(df) -> dict[str, dict[str, np.ndarray]]:

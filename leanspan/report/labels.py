@@ -71,6 +71,7 @@ PROPERTIES: dict[str, tuple[str, str | None]] = {
     "density": ("Density", "density"),
     "strength_bending": ("Bending strength (material)", "pressure"),
     "strength_shear": ("Shear strength (material)", "pressure"),
+    "strength_thickness": ("Thickness the strengths are stepped for (thickest element)", "length"),
 }
 
 # the section listing (text and sheet); keys without a value are left out
@@ -80,7 +81,7 @@ SECTION_KEYS = ("A", "yc", "zc", "depth", "width", "Iz", "Iy", "Iyz", "I1", "I2"
 # the chosen member's table on the selection sheet
 MEMBER_KEYS = ("A", "yc", "depth", "width", "Iz", "Iy", "Sz_top", "Sz_bot", "Zz", "rz", "ry",
                "shear_factor", "mass_per_length", "E", "G", "density", "strength_bending",
-               "strength_shear", "EIz")
+               "strength_shear", "strength_thickness", "EIz")
 # the catalogue: every column with a unit (CSV, in this order) and the terminal table
 CATALOG_CSV_KEYS = ("d", "b", "tw", "tf", "t", "r", "b_top", "tf_top", "b_bot", "tf_bot",
                     "A", "yc", "zc", "Iz", "Iy", "Iyz", "I1", "I2", "theta", "Sz_top", "Sz_bot",

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from .. import CAUTION
+from ..catalog.thickness import thickness_steps
 from ..fileio import atomic_write
 from ..units import display_factor, fmt, utilisation_text
 from .labels import generated_note
@@ -64,7 +65,34 @@ def ranked_table_text(sel, units: str = "si", top: int = 10) -> str:
     note = generated_note(c["series"] for c in sel.shown(top))
     if note:
         out.append(note)
+    if any(c["utilisation"].get("local_buckling") is None and not c["passes"]
+           and c["governing"] == "local_buckling" for c in sel.shown(top)):
+        out.append("inf under local buckling: a slender (class 4) section, excluded; set slender_sections = "
+                   "\"effective\" in [limits] to check it on its effective section.")
+    stepped = thickness_note(sel.shown(top), units)
+    if stepped:
+        out.append(stepped)
     return "\n".join(out)
+
+
+def thickness_note(shown, units: str = "si") -> str:
+    """A line naming the shown rows whose yield strength is stepped down for thickness ("" if none).
+
+    >>> thickness_note([{"name": "I 1000x300x10x25", "material": "S355", "strength_bending": 345e6,
+    ...                  "strength_thickness": 0.025}])
+    'Yield stepped down by thickness (the thickest element; EN 10025-2 and the other product standards): S355 345 MPa: I 1000x300x10x25.'
+    """
+    steps = thickness_steps()
+    su, sf = display_factor("pressure", units)
+    groups = {}
+    for c in shown:
+        t = c.get("strength_thickness")
+        if t is not None and c["material"] in steps and t > steps[c["material"]][0][0] * (1 + 1e-9):
+            groups.setdefault(f"{c['material']} {fmt(c['strength_bending'] / sf, 4)} {su}", []).append(c["name"])
+    if not groups:
+        return ""
+    return ("Yield stepped down by thickness (the thickest element; EN 10025-2 and the other product standards): "
+            + "; ".join(f"{k}: {', '.join(v)}" for k, v in groups.items()) + ".")
 
 
 def _unrestrained(sel, top):

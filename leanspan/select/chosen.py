@@ -17,7 +17,7 @@ from ..beam import solve
 from .checks import CheckRow
 from .member import Member, beam_with_member, member_from_row
 
-__all__ = ["ChosenMember", "chosen_member", "check_rows"]
+__all__ = ["ChosenMember", "chosen_member", "check_rows", "default_row"]
 
 
 @dataclass(frozen=True)
@@ -50,7 +50,7 @@ def chosen_member(sel) -> ChosenMember:
     return ChosenMember(k, cand, row, member, props, solve(model), sel)
 
 
-def _default_row(check, chosen) -> list:
+def default_row(check, chosen) -> list:
     """One row: the check at its governing combination, from the screen's arrays."""
     res, k = chosen.selection.result, chosen.index
     c = int(res.combination[check.name][k])
@@ -74,5 +74,5 @@ def check_rows(chosen: ChosenMember) -> list:
     checks the job asks for)."""
     out = []
     for check in chosen.selection.result.checks:
-        out += check.sheet_rows(chosen) if check.sheet_rows is not None else _default_row(check, chosen)
+        out += check.sheet_rows(chosen) if check.sheet_rows is not None else default_row(check, chosen)
     return out

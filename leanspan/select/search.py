@@ -190,6 +190,7 @@ def _rows(df, res: Screen, order, positions) -> list:
             "material": str(row["material"]),
             "dims": {key: float(v) for key, v in row_dims(row).items()},
             "mass_per_length": float(row["mass_per_length"]),
+            **_strengths(row),
             "depth": float(row["depth"]),
             "width": float(row["width"]),
             "utilisation": util,
@@ -198,6 +199,12 @@ def _rows(df, res: Screen, order, positions) -> list:
             "demands": res.demands(k),
         })
     return out
+
+
+def _strengths(row) -> dict:
+    """The row's bending strength after any thickness step, and the thickness it is stepped for."""
+    t = float(row["strength_thickness"]) if "strength_thickness" in row.index else float("nan")
+    return {"strength_bending": float(row["strength_bending"]), "strength_thickness": None if np.isnan(t) else t}
 
 
 def rank_order(df, res: Screen, objective: str) -> np.ndarray:

@@ -26,7 +26,7 @@ import numpy as np
 
 from ...errors import SelectionError
 
-__all__ = ["Check", "Effects", "CheckRow", "register", "unregister", "registered", "active_checks", "get_check",
+__all__ = ["Check", "Effects", "CheckRow", "TextRule", "register", "unregister", "registered", "active_checks", "get_check",
            "registered_check", "not_checked", "NOT_CHECKED", "limit_keys"]
 
 #: What a sizing run may leave unchecked: topic -> the sentence on the sheet. A check that
@@ -98,6 +98,20 @@ class CheckRow:
     rule: object = None
     keys: dict = field(default_factory=dict)
     formula: tuple = ()  # the formula with its numbers: text pieces and (value, kind) pairs
+
+
+@dataclass(frozen=True)
+class TextRule:
+    """A limit's rule printed as given beside the limit on the sheet (``CheckRow.rule``).
+
+    >>> TextRule("minimum").describe("us")
+    'minimum'
+    """
+
+    text: str
+
+    def describe(self, units: str = "si") -> str:
+        return self.text
 
 
 @dataclass(frozen=True)

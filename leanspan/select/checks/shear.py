@@ -1,7 +1,12 @@
-"""Shear: the peak shear stress tau = |V| x shear factor against the allowable shear stress.
+"""Shear: the peak shear stress tau = |V| x shear factor against the allowable shear stress,
+reduced for web shear buckling of slender steel webs.
 
 The shear factor is the section's max over y of Q(y) / (Iz b(y)) (Jourawski's formula,
-any mechanics-of-materials text), so tau is the peak of V Q / (I b) over the depth.
+any mechanics-of-materials text), so tau is the peak of V Q / (I b) over the depth. A steel
+web (I, channel, box) with hw / t > 72 eps / eta gets the allowable times min(1, chi_w), chi_w of
+EN 1993-1-5 Table 5.1 for a non-rigid end post with lam_w = hw / (86.4 t eps) (transverse
+stiffeners at the supports only; see :func:`.section_class.web_shear`). Stainless and aluminium
+webs are not checked for shear buckling.
 
 >>> import numpy as np
 >>> from leanspan.select.checks.registry import Effects
@@ -14,17 +19,42 @@ any mechanics-of-materials text), so tau is the peak of V Q / (I b) over the dep
 
 from __future__ import annotations
 
-from .registry import Check, register
+import dataclasses
+
+import numpy as np
+
+from .registry import Check, TextRule, register
+from .section_class import web_shear
 
 __all__ = ["SHEAR"]
+
+_WEB = ("family", "kind", "strength_bending", "d", "tw", "tf", "t", "tf_top", "tf_bot")
 
 
 def _demand(eff, props):
     return eff.V_abs * props["shear_factor"][:, None]
 
 
+def _web(props):
+    """web_shear of the candidates, or None for candidates without geometry (direct allowables)."""
+    return web_shear(props) if all(c in props for c in _WEB) else None
+
+
 def _allowable(props, limits, eff):
-    return limits.shear_allowable(props["strength_shear"])[:, None]
+    web = _web(props)
+    factor = 1.0 if web is None else web[4]
+    return (limits.shear_allowable(props["strength_shear"]) * factor)[:, None]
+
+
+def _details(eff, props) -> dict:
+    """The web's slenderness hw / t, its limit 72 eps / eta, and lam_w, chi_w where it is beyond."""
+    web = _web(props)
+    if web is None or np.isnan(web[0][0]):
+        return {"web": False}
+    ratio, limit, lam, chi, factor = (float(x[0]) for x in web)
+    none = lambda x: None if np.isnan(x) else x  # noqa: E731
+    return {"web": True, "hw_over_t": ratio, "limit": limit, "lam_w": none(lam), "chi_w": none(chi),
+            "factor": factor}
 
 
 def _action(eff, c):
@@ -36,9 +66,24 @@ def _formula(eff, props, c):
     return ("τ = |V| × shear factor = ", (V, "force"), " × ", (k, "shear factor"), " = ", (V * k, "pressure"))
 
 
+def _sheet_rows(chosen):
+    """The default row; where the web buckles in shear, chi_w beside the limit."""
+    from ..chosen import default_row
+
+    rows = default_row(SHEAR, chosen)
+    d = chosen.selection.result.details(chosen.index).get("shear", {})
+    if not rows or d.get("chi_w") is None:
+        return rows
+    text = (f"× {d['factor']:.3f}: web shear buckling, hw/t = {d['hw_over_t']:.1f} > 72 ε / η = "
+            f"{d['limit']:.1f}, λw = {d['lam_w']:.3f}, χw = {d['chi_w']:.3f}")
+    return [dataclasses.replace(rows[0], rule=TextRule(text))]
+
+
 SHEAR = register(Check(
-    name="shear", label="shear", columns=("shear_factor", "strength_shear"),
+    name="shear", label="shear", columns=("shear_factor", "strength_shear") + _WEB,
     demand=_demand, allowable=_allowable, kind="pressure", demand_key="tau",
     sentence="Shear stress τ = |V| × shear factor (the section's peak shear stress per unit shear "
-             "force) against the shear stress limit.",
-    action=_action, formula=_formula))
+             "force) against the shear stress limit; for steel webs with hw/t > 72 ε / η the limit is "
+             "times min(1, χw), the shear buckling factor of EN 1993-1-5 Table 5.1 (non-rigid end post, "
+             "λw = hw / (86.4 t ε), stiffeners at the supports only; η = 1.2 up to S460).",
+    action=_action, sheet_rows=_sheet_rows, details=_details, formula=_formula))
