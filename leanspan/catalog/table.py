@@ -3,7 +3,8 @@
 :func:`catalog_table` returns a pandas DataFrame with the columns ``name family series
 material kind``, one column per dimension key (:data:`DIM_KEYS`, NaN where a family
 does not use it), the section keys of :data:`leanspan.sections.properties.KEYS`, and
-the material columns ``E G density strength_bending strength_shear mass_per_length``
+the material columns ``E G density strength_bending strength_shear mass_per_length`` (and the
+optional ``E_05 rho_k fc_90 ft_0 fc_0``, NaN where the material gives none)
 (SI units throughout).
 
 The geometry and properties of the built-in series are computed once per family
@@ -44,6 +45,7 @@ from ..fileio import atomic_write
 from ..sections.families import FAMILIES
 from ..sections.properties import KEYS, STABILITY_KEYS, family_properties, family_stability
 from .csvfile import column_factor
+from .materials import OPTIONAL as MATERIAL_OPTIONAL
 from .materials import get_material, materials_table
 from .series import RENAMED, SERIES
 from .user import TABULATED, read_user_catalog
@@ -53,7 +55,7 @@ __all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "dims_of", "row_dims
 
 DIM_KEYS = ("d", "b", "tw", "tf", "t", "r", "b_top", "tf_top", "b_bot", "tf_bot")
 MATERIAL_COLUMNS = ("kind", "E", "G", "density", "strength_bending", "strength_shear",
-                    "mass_per_length")
+                    "mass_per_length") + MATERIAL_OPTIONAL  # the optional ones NaN where not given
 _TEXT_COLUMNS = ("name", "family", "series", "material")
 # every column a block builds: what the disk cache must hold to be used
 _COLUMNS = _TEXT_COLUMNS + DIM_KEYS + tuple(KEYS) + STABILITY_KEYS
@@ -346,8 +348,8 @@ def _with_materials(df, material, mats):
     uniq, inv = np.unique(names, return_inverse=True) if len(names) else (np.array([]), np.zeros(0, int))
     rows = [mats[u] for u in uniq]
     df["kind"] = np.array([m.kind for m in rows], dtype=object)[inv] if rows else []
-    for col in ("E", "G", "density", "strength_bending", "strength_shear"):
-        df[col] = np.array([getattr(m, col) for m in rows], float)[inv] if rows else []
+    for col in ("E", "G", "density", "strength_bending", "strength_shear") + MATERIAL_OPTIONAL:
+        df[col] = np.array([getattr(m, col) for m in rows], float)[inv] if rows else []  # None -> NaN
     df["mass_per_length"] = df["A"].to_numpy() * df["density"].to_numpy()
     return df
 
