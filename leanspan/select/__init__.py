@@ -13,8 +13,8 @@ ranked :class:`Selection`), :mod:`.chosen` (the chosen member, solved).
 ...                  "search": {"families": ["sawn_metric"], "materials": ["C24"]},
 ...                  "limits": {"stress_factor": 0.6}}, Path("."))
 >>> sel = run_selection(job)
->>> sel.success, list(sel.to_frame().columns[-5:])
-(True, ['bending', 'shear', 'deflection', 'governing', 'passes'])
+>>> sel.success, list(sel.to_frame().columns[-6:])
+(True, ['bending', 'shear', 'deflection', 'bearing', 'governing', 'passes'])
 """
 
 __all__ = ["Check", "CheckRow", "Effects", "register", "unregister", "registered", "registered_check",

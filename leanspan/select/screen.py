@@ -410,6 +410,38 @@ class FieldSampler:
         return FieldSampler(self.resp, self.parents, self.mass_g[index],
                             None if self.v_scale is None else self.v_scale[index], rows)
 
+    def _weights(self):
+        """The factors (C_concrete, U) with the self-weight unit case zeroed, and each candidate's
+        factored weight per length on it, t (K, C_concrete)."""
+        sw = self.resp.self_weight_index
+        F = self.F.copy()
+        t = self.mass_g[:, None] * (F[:, sw][None, :] if sw is not None else 0.0)
+        if sw is not None:
+            F[:, sw] = 0.0
+        return F, t
+
+    def _combine(self, field):
+        """sum_u F_cu field_u + t_kc field_self-weight of a field (1 or K, U, ...) -> (K', C_concrete, ...)."""
+        if field.shape[0] > 1 and self.rows is not None:
+            field = field[self.rows]
+        sw = self.resp.self_weight_index
+        F, t = self._weights()
+        if field.shape[0] == 1:
+            out = np.einsum("cu,u...->c...", F, field[0])[None]
+            if sw is not None:
+                out = out + t[(...,) + (None,) * (field.ndim - 2)] * field[0, sw][None, None]
+        else:
+            Fk = np.broadcast_to(F, (field.shape[0],) + F.shape).copy()
+            if sw is not None:
+                Fk[:, :, sw] = t
+            out = np.einsum("kcu,ku...->kc...", Fk, field)
+        return out
+
+    def reactions(self) -> np.ndarray:
+        """The upward support forces (K, C_concrete, n_supports), in the order of ``resp.supports``."""
+        out = self._combine(self.resp.reactions[..., 0])
+        return np.broadcast_to(out, (self.mass_g.size,) + out.shape[1:])
+
     def _combined(self, name, elems):
         """Coefficients (K, C_concrete, len(elems), n) of the combined field on elements ``elems``:
         sum_u F_cu field_u + t_kc field_self-weight (t = the candidate's factored weight), for
@@ -419,23 +451,7 @@ class FieldSampler:
         scale = name == "v" and self.v_scale is not None
         if scale:
             field = r.v[:1] * r.EI[:1, None, :, None]
-        field = field[:, :, elems, :]
-        if field.shape[0] > 1 and self.rows is not None:
-            field = field[self.rows]
-        sw = r.self_weight_index
-        F = self.F.copy()
-        t = self.mass_g[:, None] * (F[:, sw][None, :] if sw is not None else 0.0)  # (K, C)
-        if sw is not None:
-            F[:, sw] = 0.0
-        if field.shape[0] == 1:
-            out = np.einsum("cu,uen->cen", F, field[0])[None]
-            if sw is not None:
-                out = out + t[:, :, None, None] * field[0, sw][None, None]
-        else:
-            Fk = np.broadcast_to(F, (field.shape[0],) + F.shape).copy()
-            if sw is not None:
-                Fk[:, :, sw] = t
-            out = np.einsum("kcu,kuen->kcen", Fk, field)
+        out = self._combine(field[:, :, elems, :])
         if scale:
             out = out * self.v_scale[:, None, None, None]
         return np.broadcast_to(out, (self.mass_g.size,) + out.shape[1:])
@@ -506,3 +522,6 @@ class _StackedSampler:
 
     def peak(self, name, a, b):
         return np.concatenate([s.peak(name, a, b) for s in self.samplers], axis=0)
+
+    def reactions(self):
+        return np.concatenate([s.reactions() for s in self.samplers], axis=0)

@@ -1,13 +1,14 @@
 """The checks a candidate member must pass, one module each, gathered in a registry.
 
 Importing this package registers the built-in checks in order: bending, shear,
-deflection, vibration (active only when the job's ``[limits]`` ask for it). See
+deflection, lateral-torsional buckling and vibration (active only when the job's ``[limits]`` ask
+for them), final deflection with creep (only with ``[design]``) and bearing (always: the required length). See
 :mod:`.registry` for how to add one.
 """
 
-from .registry import (NOT_CHECKED, Check, CheckRow, Effects, active_checks, get_check, limit_keys, not_checked,
+from .registry import (NOT_CHECKED, Check, CheckRow, Effects, TextRule, active_checks, get_check, limit_keys, not_checked,
                        register, registered, registered_check, unregister)
-from . import bending, shear, deflection, lateral_torsional, vibration  # noqa: E402,F401  (each registers itself)
+from . import bending, shear, deflection, lateral_torsional, vibration, deflection_final, bearing  # noqa: E402,F401  (each registers itself)
 
-__all__ = ["Check", "CheckRow", "Effects", "NOT_CHECKED", "register", "unregister", "registered", "active_checks",
+__all__ = ["Check", "CheckRow", "TextRule", "Effects", "NOT_CHECKED", "register", "unregister", "registered", "active_checks",
            "registered_check", "get_check", "not_checked", "limit_keys"]

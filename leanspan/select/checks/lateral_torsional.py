@@ -53,6 +53,7 @@ import numpy as np
 
 from ...errors import SelectionError
 from ..screen_reduce import to_parents
+from ..design import allowable_stress
 from .registry import Check, register
 
 __all__ = ["LATERAL_TORSIONAL", "critical_moment", "reduction_factor", "moment_factor"]
@@ -183,13 +184,14 @@ def _fractile_moduli(props):
     return props["E"] * fractile, props["G"] * fractile
 
 
-def _resistance_factor(Mcr, S, f, curves, limits):
+def _resistance_factor(Mcr, S, f, curves, limits, allow=None):
     """chi (K, C) from Mcr (K, C), the smaller elastic modulus S and strength f (K, 1) by the
-    material's method (``curves`` from :func:`_curves`, each (K, 1))."""
+    material's method (``curves`` from :func:`_curves`, each (K, 1)); ``allow`` (broadcasting to
+    (K, C)) is the allowable bending stress the ``"ratio"`` method reads."""
     with np.errstate(divide="ignore", invalid="ignore"):
         if limits.get("lateral_torsional_method", "curve") == "ratio":
             r = limits.get("max_moment_ratio", 1.0)
-            return np.minimum(1.0, r * Mcr / (S * limits.bending_allowable(f)))
+            return np.minimum(1.0, r * Mcr / (S * allow))
         lam = np.sqrt(S * f / Mcr)
     alpha, lam0, timber = curves
     return np.where(timber, _kcrit(lam), reduction_factor(lam, alpha, lam0))
@@ -207,6 +209,10 @@ def _segment_results(eff, props):
     y_load = {"top": depth, "centroid": yc, "bottom": np.zeros_like(depth)}[limits.get("load_height", "top")]
     zj_up = (ys - yc) - props["wagner"] / (2.0 * Iz)  # mono-symmetry, measured upwards
     S = np.minimum(props["Sz_top"], props["Sz_bot"])
+    allow = None
+    if limits.get("lateral_torsional_method", "curve") == "ratio":  # per concrete combination
+        allow = np.asarray(allowable_stress(props, limits, eff, "bending"), float)
+        allow = allow[:, sampler.parents] if allow.shape[1] > 1 else allow
     k_over = limits.get("overhang_length_factor", 2.0)
     for a, b, cantilever in _segments(model, limits):  # a small set
         x = np.linspace(a, b, _SAMPLES)
@@ -220,7 +226,7 @@ def _segment_results(eff, props):
         Mcr = critical_moment(E[:, None], G[:, None], Iy[:, None], J[:, None], Cw[:, None], b - a, C1, C2, C3,
                               zg=(y_load - ys)[:, None], zj=up * zj_up[:, None],
                               k=k_over if cantilever else 1.0)
-        chi = _resistance_factor(Mcr, S[:, None], f, curves, limits)
+        chi = _resistance_factor(Mcr, S[:, None], f, curves, limits, allow)
         with np.errstate(divide="ignore", invalid="ignore"):
             d = np.abs(Mpk) / (chi * S[:, None])
         yield a, b, cantilever, Mpk, C1, Mcr, chi, np.where(np.isnan(d), np.inf, d)
@@ -262,7 +268,7 @@ def _details(eff, props) -> dict:
 
 
 def _allowable(props, limits, eff):
-    return limits.bending_allowable(props["strength_bending"])[:, None]
+    return allowable_stress(props, limits, eff, "bending")
 
 
 LATERAL_TORSIONAL = register(Check(

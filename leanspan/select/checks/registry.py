@@ -26,7 +26,7 @@ import numpy as np
 
 from ...errors import SelectionError
 
-__all__ = ["Check", "Effects", "CheckRow", "register", "unregister", "registered", "active_checks", "get_check",
+__all__ = ["Check", "Effects", "CheckRow", "TextRule", "register", "unregister", "registered", "active_checks", "get_check",
            "registered_check", "not_checked", "NOT_CHECKED", "limit_keys"]
 
 #: What a sizing run may leave unchecked: topic -> the sentence on the sheet. A check that
@@ -34,11 +34,13 @@ __all__ = ["Check", "Effects", "CheckRow", "register", "unregister", "registered
 NOT_CHECKED = {
     "lateral_torsional_buckling": "lateral-torsional buckling (the member is assumed restrained against it)",
     "local_buckling": "local buckling of flanges, webs or thin walls",
-    "bearing": "bearing at supports and under point loads, and web crippling",
+    "bearing": "bearing at the supports",
+    "local_bearing": "bearing under point loads, and web crippling",
     "connections": "connections, fixings and notches",
     "vibration": "vibration and footfall response",
     "fire": "fire resistance",
-    "durability": "durability: moisture, decay, corrosion, creep and long-term deflection",
+    "durability": "durability: moisture, decay and corrosion",
+    "creep": "creep and long-term deflection",
     "combined_actions": "combined actions: axial force, torsion and bending about the minor axis",
 }
 
@@ -95,6 +97,16 @@ class CheckRow:
     utilisation: float | None
     rule: object = None
     keys: dict = field(default_factory=dict)
+
+
+class TextRule:
+    """A limit's rule given as text (``"minimum"``, ``"span/250 (final)"``), for ``CheckRow.rule``."""
+
+    def __init__(self, text):
+        self.text = text
+
+    def describe(self, units="si"):
+        return self.text
 
 
 @dataclass(frozen=True)

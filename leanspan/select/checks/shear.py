@@ -14,6 +14,7 @@ any mechanics-of-materials text), so tau is the peak of V Q / (I b) over the dep
 
 from __future__ import annotations
 
+from ..design import allowable_stress
 from .registry import Check, register
 
 __all__ = ["SHEAR"]
@@ -24,7 +25,7 @@ def _demand(eff, props):
 
 
 def _allowable(props, limits, eff):
-    return limits.shear_allowable(props["strength_shear"])[:, None]
+    return allowable_stress(props, limits, eff, "shear")  # the user's limits or [design]
 
 
 def _action(eff, c):

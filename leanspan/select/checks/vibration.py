@@ -32,7 +32,7 @@ import numpy as np
 
 from ...beam.modal import fundamental_frequencies, natural_frequency, point_flexibility
 from ...errors import SelectionError
-from .registry import Check, CheckRow, register
+from .registry import Check, CheckRow, TextRule, register
 
 __all__ = ["VIBRATION", "settings"]
 
@@ -81,16 +81,6 @@ def _demand_json(row) -> dict:
             "point_deflection": None if np.isnan(row[1]) else float(row[1])}
 
 
-class _Rule:
-    """The limit's rule as the sheet prints it beside the value."""
-
-    def __init__(self, text):
-        self.text = text
-
-    def describe(self, units="si"):
-        return self.text
-
-
 def _sheet_rows(chosen):
     """The frequency row (f1, where its mode peaks, the limit) and the 1 kN deflection row,
     from the screen's values for the chosen member (the numbers of the JSON)."""
@@ -107,7 +97,7 @@ def _sheet_rows(chosen):
         out.append(CheckRow(
             check="vibration, fundamental frequency f1", combination=f"mass: {perm}",
             action=(("mode 1 peaks at x =", mode.peak, "span"),), demand=f1, limit=f_min, kind="frequency",
-            utilisation=f_min / f1, rule=_Rule("minimum"),
+            utilisation=f_min / f1, rule=TextRule("minimum"),
             keys={"demand": "chosen.demands.f1", "limit": "limit.min_frequency",
                   "utilisation": "chosen.utilisation.vibration" if governing == 0
                   else "chosen.utilisation.vibration.f1"}))
@@ -117,7 +107,7 @@ def _sheet_rows(chosen):
         out.append(CheckRow(
             check="vibration, deflection under 1 kN", combination="1 kN alone",
             action=(("1 kN at x =", float(xs[j]), "span"), ("v", -1e3 * row[1], "length")),
-            demand=row[1], limit=flex, kind="compliance", utilisation=row[1] / flex, rule=_Rule("maximum"),
+            demand=row[1], limit=flex, kind="compliance", utilisation=row[1] / flex, rule=TextRule("maximum"),
             keys={"demand": "chosen.demands.point_deflection", "limit": "limit.point_deflection",
                   "utilisation": "chosen.utilisation.vibration" if governing == 1
                   else "chosen.utilisation.vibration.point"}))
