@@ -90,33 +90,40 @@ def _strength(eff, props, concrete):
 
 
 def bearing_lengths(eff, props):
-    """``(required (K, Cc, S), reactions (K, Cc, S), strength (K, Cc))`` at every support under
-    every strength concrete combination (NaN where not a strength combination or not covered)."""
+    """``(required (K, S), reaction (K, S), strength (K, S), combination (K, S))`` at every support:
+    the required length is monotonic in reaction / strength, so the strength concrete combination
+    of the largest ratio governs (its index among ``resp.combos``); NaN where not covered."""
     sampler = eff.sampler
     resp = sampler.resp
-    combos = resp.combos
-    R = sampler.reactions()  # (K, Cc, S)
-    strength = np.array([c.check == "strength" for c in combos])
-    R = np.where(strength[None, :, None], R, np.nan)
-    f = _strength(eff, props, combos)[:, :, None]
+    K, S = np.size(eff.mass_per_length), len(resp.supports)
+    col = {c: _column(props, c, K) for c in ("kind", "family", "width", "depth", "tw", "tf", "tf_bot", "r")}
+    kind, family = col["kind"].astype(str), col["family"].astype(str)
+    timber = np.isin(kind, TIMBER)
+    web = np.isin(family, _WEB) & np.isin(kind, _STEEL)
+    nan = np.full((K, S), np.nan)
+    strength = np.flatnonzero([c.check == "strength" for c in resp.combos])
+    if not (timber | web).any() or strength.size == 0:  # nothing this check covers
+        return nan, nan, nan, np.zeros((K, S), int)
+    R = sampler.reactions()[:, strength, :]  # (K, Cs, S)
+    f = _strength(eff, props, resp.combos)[:, strength]  # (K, Cs)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        ratio = np.maximum(R, 0.0) / f[:, :, None]
+    j = np.argmax(np.where(np.isnan(ratio), -np.inf, ratio), axis=1)  # (K, S)
+    T = np.take_along_axis(ratio, j[:, None, :], axis=1)[:, 0, :]  # reaction / strength (m^2)
     L = eff.model.length
     at = np.array([s.at for s in resp.supports])
-    col = {c: _column(props, c, R.shape[0]) for c in ("kind", "family", "width", "depth", "tw", "tf", "tf_bot", "r")}
-    kind, family = col["kind"].astype(str), col["family"].astype(str)
-    timber = np.isin(kind, TIMBER)[:, None, None]
-    web = (np.isin(family, _WEB) & np.isin(kind, _STEEL))[:, None, None]
-    req_t = required_timber(R, col["width"][:, None, None], f, at, L - at)
+    req_t = required_timber(T, col["width"][:, None], 1.0, at, L - at)
     k = np.where(np.isfinite(col["tf_bot"]), col["tf_bot"], col["tf"]) + np.nan_to_num(col["r"])
     near = np.minimum(at, L - at)[None, :] <= col["depth"][:, None]  # (K, S)
-    req_w = required_web(R, col["tw"][:, None, None], k[:, None, None], f, near[:, None, :])
-    req = np.where(timber, req_t, np.where(web, req_w, np.nan))
-    return req, R, f[:, :, 0]
+    req_w = required_web(T, col["tw"][:, None], k[:, None], 1.0, near)
+    req = np.where(timber[:, None], req_t, np.where(web[:, None], req_w, np.nan))
+    reaction = np.take_along_axis(R, j[:, None, :], axis=1)[:, 0, :]
+    f_used = np.take_along_axis(f, j, axis=1)
+    return req, reaction, f_used, strength[j]
 
 
 def _demand(eff, props):
-    req = bearing_lengths(eff, props)[0]
-    with np.errstate(invalid="ignore"):
-        return np.fmax.reduce(req, axis=1) if req.shape[1] else np.full((req.shape[0], req.shape[2]), np.nan)
+    return bearing_lengths(eff, props)[0]
 
 
 def _allowable(props, limits, eff):
@@ -139,22 +146,29 @@ def _method(kind, family) -> str:
 def _details(eff, props) -> dict:
     """Each support of one candidate: its largest reaction, the combination, the strength used, the
     required and the given bearing length."""
-    req, R, f = bearing_lengths(eff, props)
-    combos = eff.sampler.resp.combos
+    req, R, f, j = bearing_lengths(eff, props)
     kind, family = (str(_column(props, c, 1)[0]) for c in ("kind", "family"))
     out = []
     for s, support in enumerate(eff.sampler.resp.supports):  # a small set
-        r = np.where(np.isnan(req[0, :, s]), -np.inf, req[0, :, s])
-        j = int(np.argmax(r)) if r.size else 0
-        ok = r.size and np.isfinite(r[j])
+        ok = bool(np.isfinite(req[0, s]))
         given = support.bearing_length
         out.append({"at": support.at, "type": support.type,
-                    "reaction": float(R[0, j, s]) if ok else None,
-                    "combination": eff.combinations[int(eff.sampler.parents[j])].name if ok else None,
-                    "strength": float(f[0, j]) if ok else None,
-                    "required": float(req[0, j, s]) if ok else None, "given": given,
-                    "utilisation": float(req[0, j, s] / given) if ok and given else None})
+                    "reaction": float(R[0, s]) if ok else None,
+                    "combination": eff.combinations[int(eff.sampler.parents[j[0, s]])].name if ok else None,
+                    "strength": float(f[0, s]) if ok else None,
+                    "required": float(req[0, s]) if ok else None, "given": given,
+                    "utilisation": float(req[0, s] / given) if ok and given else None})
     return {"method": _method(kind, family), "supports": out}
+
+
+def _inputs(props, support) -> tuple:
+    """The section's values the formula reads, for the sheet: b (timber), tw and k (steel webs)."""
+    kind = str(_column(props, "kind", 1)[0])
+    if kind in TIMBER:
+        return (("b", float(_column(props, "width", 1)[0]), "length"),)
+    tf_bot, tf, r = (float(_column(props, c, 1)[0]) for c in ("tf_bot", "tf", "r"))
+    k = (tf_bot if np.isfinite(tf_bot) else tf) + (r if np.isfinite(r) else 0.0)
+    return (("tw", float(_column(props, "tw", 1)[0]), "length"), ("k", k, "length"))
 
 
 def _sheet_rows(chosen):
@@ -171,7 +185,7 @@ def _sheet_rows(chosen):
         rows.append(CheckRow(
             check=f"bearing, {s['type']} support {i + 1}", combination=f"{s['combination']}: {method}"
                   + (f"; γM from {source}" if source else ""),
-            action=(("R", s["reaction"], "force"), ("f", s["strength"], "pressure")),
+            action=(("R", s["reaction"], "force"), ("f", s["strength"], "pressure")) + _inputs(props, s),
             demand=s["required"], limit=s["given"], kind="length", utilisation=s["utilisation"],
             rule=None if s["given"] else TextRule("no bearing_length given: required length only"),
             keys={"demand": None, "limit": None,

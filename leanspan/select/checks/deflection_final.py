@@ -171,7 +171,7 @@ def _sheet_rows(chosen):
     return [CheckRow(
         check="final deflection with creep", combination=f"{combo.name}: u_fin = {terms}",
         action=((f"kdef = {kd:g} ({SOURCES['kdef'].split(' (')[0]}), service class {design.service_class}; "
-                 "u_fin", float(res.demand["deflection_final"][k]), "length"),),
+                 "u_inst", float(res.effects.v_abs[k, c]), "length"),),
         demand=float(res.demand["deflection_final"][k]), limit=float(res.allowable["deflection_final"][k]),
         kind="length", utilisation=None if np.isnan(util) else util,
         rule=None if rule is None else TextRule(rule.describe() + (" (final)" if design.final_limit else "")),
