@@ -303,6 +303,27 @@ def _field_extremes(field, F, sw, t, scale, lengths, x0, elems):
     return {sg: tuple(np.concatenate([p[i] for p in parts[sg]]) for i in range(2)) for sg in (1, -1)}
 
 
+def worst_span(field, F, sw, t, scale, spans, lengths, x0, limit):
+    """The span (or overhang) of largest |v| / allowed under one combination's factors ``F``, per
+    candidate: ``(|v|, allowed, ratio)`` arrays (K,), NaN where no span has elements (see
+    :func:`_field_extremes` for ``field``, ``sw``, ``t``, ``scale``)."""
+    mids = x0 + lengths / 2
+    mag_out, allowed_out, ratio = (np.full(t.size, np.nan) for _ in range(3))
+    for a, b, _kind in spans:  # a small set
+        elems = np.nonzero((mids > a) & (mids < b))[0]
+        if elems.size == 0:
+            continue
+        d = _field_extremes(field, F, sw, t, scale, lengths, x0, elems)
+        mag = np.maximum(np.abs(d[1][0]), np.abs(d[-1][0]))
+        allowed = float(limit.allowed(b - a))
+        r = mag / allowed
+        upd = ~(r <= ratio)  # NaN-aware maximum
+        ratio = np.where(upd, r, ratio)
+        mag_out = np.where(upd, mag, mag_out)
+        allowed_out = np.where(upd, allowed, allowed_out)
+    return mag_out, allowed_out, ratio
+
+
 def screen(model, cand: Candidates, self_weight_case=None) -> Screen:
     """Check every candidate against every combination of ``model`` (a BeamModel).
 
@@ -336,7 +357,6 @@ def screen_effects(model, cand: Candidates, self_weight_case=None) -> Effects:
 
     C = len(resp.combos)
     out = {k: np.full((K, C), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
-    mids = x0 + lengths / 2
     for ci, combo in enumerate(resp.combos):  # a small set
         F = np.asarray(combo.factors, float)
         t = mass_g * (F[sw] if sw is not None else 0.0)
@@ -346,19 +366,8 @@ def screen_effects(model, cand: Candidates, self_weight_case=None) -> Effects:
             out["M_max"][:, ci], out["M_min"][:, ci] = snap_round_off(m[1][0], m[-1][0])
             out["V_abs"][:, ci] = np.maximum(np.abs(v[1][0]), np.abs(v[-1][0]))
         elif combo.limit is not None:
-            ratio = np.full(K, np.nan)
-            for a, b, _kind in resp.spans:
-                elems = np.nonzero((mids > a) & (mids < b))[0]
-                if elems.size == 0:
-                    continue
-                d = _field_extremes(v_field, F, sw, t, v_scale, lengths, x0, elems)
-                mag = np.maximum(np.abs(d[1][0]), np.abs(d[-1][0]))
-                allowed = float(combo.limit.allowed(b - a))
-                r = mag / allowed
-                upd = ~(r <= ratio)  # NaN-aware maximum
-                ratio = np.where(upd, r, ratio)
-                out["v_abs"][:, ci] = np.where(upd, mag, out["v_abs"][:, ci])
-                out["v_allowed"][:, ci] = np.where(upd, allowed, out["v_allowed"][:, ci])
+            out["v_abs"][:, ci], out["v_allowed"][:, ci], _ = worst_span(
+                v_field, F, sw, t, v_scale, resp.spans, lengths, x0, combo.limit)
     names = [c.name for c in model.combinations]
     parents = np.array([names.index(c.parent or c.name) for c in resp.combos], int)
     sampler = FieldSampler(resp, parents, mass_g, None if not fixed else v_scale)

@@ -55,7 +55,7 @@ def creep_factors(design, kind) -> np.ndarray:
 def _one_sampler(s, design, model, kd):
     """(u_fin, allowed, ratio) (K, C_concrete) of one FieldSampler: the worst span of every
     deflection combination."""
-    from ..screen import _field_extremes  # the screen's exact extremes of a combined field
+    from ..screen import worst_span  # here, not at the top: the screen imports the checks
 
     r = s.resp
     sw = r.self_weight_index
@@ -66,7 +66,6 @@ def _one_sampler(s, design, model, kd):
     else:
         field, scale = (r.v if s.rows is None else r.v[s.rows]), None
     lengths, x0 = r.lengths, r.x_nodes[:-1]
-    mids = x0 + lengths / 2
     K, Cc = s.mass_g.size, len(r.combos)
     out = {k: np.full((K, Cc), np.nan) for k in ("u", "allowed", "ratio")}
     for ci, combo in enumerate(r.combos):  # a small set
@@ -78,19 +77,9 @@ def _one_sampler(s, design, model, kd):
             rows = kd == value
             F2 = F + value * q * (F != 0)
             t = s.mass_g * (F2[sw] if sw is not None else 0.0)
-            ratio = np.full(K, np.nan)
-            for a, b, _kind in r.spans:
-                elems = np.nonzero((mids > a) & (mids < b))[0]
-                if elems.size == 0:
-                    continue
-                d = _field_extremes(field, F2, sw, t, scale, lengths, x0, elems)
-                mag = np.maximum(np.abs(d[1][0]), np.abs(d[-1][0]))
-                allowed = float(limit.allowed(b - a))
-                upd = rows & ~(mag / allowed <= ratio)  # NaN-aware maximum
-                ratio = np.where(upd, mag / allowed, ratio)
-                out["u"][:, ci] = np.where(upd, mag, out["u"][:, ci])
-                out["allowed"][:, ci] = np.where(upd, allowed, out["allowed"][:, ci])
-            out["ratio"][:, ci] = np.where(rows, ratio, out["ratio"][:, ci])
+            mag, allowed, ratio = worst_span(field, F2, sw, t, scale, r.spans, lengths, x0, limit)
+            for key, got in (("u", mag), ("allowed", allowed), ("ratio", ratio)):
+                out[key][:, ci] = np.where(rows, got, out[key][:, ci])
     return out
 
 
