@@ -263,3 +263,27 @@ def test_bad_design_and_bearing_input(tmp_path, capsys, design, supports, limits
     assert status == 2 and err.count("\n") == 1 and "Traceback" not in err, err
     for w in words:
         assert w in err, err
+
+
+def test_box_bearing_by_hand_and_uncovered_shapes_fail(tmp_path, capsys):
+    """Rectangular hollow sections: both walls yield, R = f 2t (2.5 k + lb) at an end, lb >= k, k =
+    the outer corner radius (ANSI/AISC 360 chapter K, from memory); end reaction w L / 2 (statics).
+    Round tubes are not covered: with a bearing_length given they fail the check (null length)."""
+    path = tmp_path / "box.toml"
+    path.write_text('[beam]\nspans = ["4 m"]\n[[support]]\nat = "0 m"\ntype = "pin"\nbearing_length = "20 mm"\n'
+                    '[[load]]\ncase = "dead"\ntype = "udl"\nw = "60 kN/m"\n[search]\nfamilies = ["gen_shs_rhs", '
+                    '"gen_chs"]\nself_weight = "none"\n[limits]\nstress_factor = 1.0\n', encoding="utf-8")
+    out, _ = _select(path, capsys)
+    table = catalog_table(families=["gen_shs_rhs", "gen_chs"]).set_index("name")
+    seen = set()
+    for cand in out["candidates"]:
+        row = table.loc[cand["name"]]
+        req = cand["demands"]["bearing_required"]
+        if cand["family"] == "tube":
+            assert req[0] is None and cand["utilisation"]["bearing"] is None and not cand["passes"]
+        else:
+            k = row.r if row.r > 0 else 1.5 * row.t
+            assert req[0] == pytest.approx(max(60e3 * 4 / 2 / (row.strength_bending * 2 * row.t) - 2.5 * k, k),
+                                           rel=1e-9)
+        seen.add(cand["family"])
+    assert "box" in seen

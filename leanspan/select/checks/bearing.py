@@ -19,8 +19,11 @@ bearing, l1 / 2, is not applied.)
 ``F <= f tw (n k + lb)`` with k = the flange thickness plus the root radius (the web toe of the
 fillet), n = 5 at a support farther than the member depth from the member's end and 2.5 nearer;
 at such an end lb is at least k (J10.2). Web crippling (J10.3) and web buckling are not checked.
-Other metal shapes (tubes, boxes, tees, angles, solid bars) and aluminium are not covered: their
-required length is reported as ``null``.
+**Steel boxes** (rectangular hollow sections: the same yielding of both walls, ANSI/AISC 360
+chapter K, from memory): tw = 2 t and k = the outer corner radius (1.5 t where it is not known,
+r = 0). Other shapes (tubes, tees, angles, solid bars) and aluminium are not covered: their
+required length is ``null``, and where a support gives a ``bearing_length`` they fail the check
+(it cannot be made for them), as the registry treats any candidate it cannot check.
 
 >>> round(float(required_timber(12e3, 0.1, 1.7e6, 0.0, 3.0)) * 1e3, 3)      # end support: l + 30 mm = F / (f b)
 40.588
@@ -70,6 +73,15 @@ def _column(props, name, K):
     return np.full(K, "") if name in ("kind", "family") else np.full(K, np.nan)
 
 
+def _web(col):
+    """Web thickness and k (K,): I-sections and channels tw and the bottom flange + root radius;
+    boxes two walls 2 t and k = the outer corner radius (1.5 t where it is 0: not known)."""
+    box = col["family"].astype(str) == "box"
+    k_open = np.where(np.isfinite(col["tf_bot"]), col["tf_bot"], col["tf"]) + np.nan_to_num(col["r"])
+    k_box = np.where(col["r"] > 0, col["r"], 1.5 * col["t"])
+    return np.where(box, 2.0 * col["t"], col["tw"]), np.where(box, k_box, k_open)
+
+
 def _strength(eff, props, concrete):
     """Bearing strength f (K, C_concrete) for every candidate (NaN where none applies)."""
     limits = eff.limits
@@ -96,10 +108,10 @@ def bearing_lengths(eff, props):
     sampler = eff.sampler
     resp = sampler.resp
     K, S = np.size(eff.mass_per_length), len(resp.supports)
-    col = {c: _column(props, c, K) for c in ("kind", "family", "width", "depth", "tw", "tf", "tf_bot", "r")}
+    col = {c: _column(props, c, K) for c in ("kind", "family", "width", "depth", "tw", "tf", "tf_bot", "r", "t")}
     kind, family = col["kind"].astype(str), col["family"].astype(str)
     timber = np.isin(kind, TIMBER)
-    web = np.isin(family, _WEB) & np.isin(kind, _STEEL)
+    web = np.isin(family, _WEB + ("box",)) & np.isin(kind, _STEEL)
     nan = np.full((K, S), np.nan)
     strength = np.flatnonzero([c.check == "strength" for c in resp.combos])
     if not (timber | web).any() or strength.size == 0:  # nothing this check covers
@@ -113,9 +125,9 @@ def bearing_lengths(eff, props):
     L = eff.model.length
     at = np.array([s.at for s in resp.supports])
     req_t = required_timber(T, col["width"][:, None], 1.0, at, L - at)
-    k = np.where(np.isfinite(col["tf_bot"]), col["tf_bot"], col["tf"]) + np.nan_to_num(col["r"])
+    tw, k = _web(col)
     near = np.minimum(at, L - at)[None, :] <= col["depth"][:, None]  # (K, S)
-    req_w = required_web(T, col["tw"][:, None], k[:, None], 1.0, near)
+    req_w = required_web(T, tw[:, None], k[:, None], 1.0, near)
     req = np.where(timber[:, None], req_t, np.where(web[:, None], req_w, np.nan))
     reaction = np.take_along_axis(R, j[:, None, :], axis=1)[:, 0, :]
     f_used = np.take_along_axis(f, j, axis=1)
@@ -140,6 +152,9 @@ def _method(kind, family) -> str:
         return "timber compression across the grain, EN 1995-1-1 6.1.5 (kc90 = 1.0, l_ef = l + 30 mm per side)"
     if kind in _STEEL and family in _WEB:
         return "local web yielding, ANSI/AISC 360-16 J10.2: F <= f tw (5k or 2.5k + lb)"
+    if kind in _STEEL and family == "box":
+        return ("wall local yielding of a rectangular hollow section, ANSI/AISC 360 chapter K: "
+                "F <= f 2t (5k or 2.5k + lb), k = outer corner radius")
     return "not covered for this shape and material"
 
 
@@ -166,9 +181,9 @@ def _inputs(props, support) -> tuple:
     kind = str(_column(props, "kind", 1)[0])
     if kind in TIMBER:
         return (("b", float(_column(props, "width", 1)[0]), "length"),)
-    tf_bot, tf, r = (float(_column(props, c, 1)[0]) for c in ("tf_bot", "tf", "r"))
-    k = (tf_bot if np.isfinite(tf_bot) else tf) + (r if np.isfinite(r) else 0.0)
-    return (("tw", float(_column(props, "tw", 1)[0]), "length"), ("k", k, "length"))
+    tw, k = _web({c: _column(props, c, 1) for c in ("family", "tw", "tf", "tf_bot", "r", "t")})
+    return (("tw" if str(_column(props, "family", 1)[0]) != "box" else "2t", float(tw[0]), "length"),
+            ("k", float(k[0]), "length"))
 
 
 def _sheet_rows(chosen):
@@ -195,7 +210,7 @@ def _sheet_rows(chosen):
 
 BEARING = register(Check(
     name="bearing", label="bearing",
-    columns=("kind", "family", "width", "depth", "tw", "tf", "tf_bot", "r", "fc_90", "strength_bending"),
+    columns=("kind", "family", "width", "depth", "tw", "tf", "tf_bot", "r", "t", "fc_90", "strength_bending"),
     demand=_demand, allowable=_allowable, kind="length", demand_key="bearing_required",
     sentence="Bearing at each support: the bearing length the largest reaction of the strength "
              "combinations needs (timber: compression across the grain, EN 1995-1-1 6.1.5 with kc90 = 1.0 "
