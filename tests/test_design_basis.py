@@ -219,8 +219,9 @@ def test_no_bearing_length_reports_the_length_without_a_utilisation(tmp_path, ca
 
 
 def test_vectorised_equals_the_per_candidate_loop():
-    """screen (vectorised) against screen_loop (one beam solve per candidate) with [design] on and a
-    spring support, for the design strengths, the final deflection and the bearing lengths."""
+    """screen (vectorised) against screen_loop (one beam solve per candidate) with [design] on, a
+    spring support and pattern loading, for the design strengths, the final deflection and the
+    bearing lengths."""
     import tomllib
 
     from leanspan.select.job import parse_job
@@ -230,7 +231,9 @@ def test_vectorised_equals_the_per_candidate_loop():
     text = JOB.format(spans='"3 m", "2.5 m"', supports='[[support]]\nat = "5.5 m"\ntype = "spring"\nk = "3 MN/m"\n'
                       'bearing_length = "90 mm"', g=1.0, q=2.0, qcase="imposed", sc=2, duration="short", psi2=0.3,
                       search='families = ["sawn_metric"]', limits="", design="")
-    job = parse_job(tomllib.loads(text.replace('self_weight = "none"', 'self_weight = "dead"')), Path("."))
+    text = text.replace('self_weight = "none"', 'self_weight = "dead"').replace(
+        "imposed = 1.5}", 'imposed = 1.5}\npattern = "imposed"')  # pattern members reduced to their combination
+    job = parse_job(tomllib.loads(text), Path("."))
     df = catalog_table(families=["sawn_metric", "gen_steel_i"]).iloc[::25]
     cand = candidates_from_table(df, job.limits)
     fast, slow = screen(job.model, cand), screen_loop(job.model, cand)

@@ -257,7 +257,8 @@ def _design_basis(sel, chosen) -> str:
              ["kh", f"{d['kh']:.4g}", src["kh"]],
              ["k_cr", "-" if d["k_cr"] is None else f"{d['k_cr']:g}", src["k_cr"]],
              ["kdef", f"{d['kdef']:g}", src["kdef"]]]
-    rows += [[f"ψ2, {p['case']}", f"{p['psi2']:g} ({p['duration']})", src["psi2"]] for p in d["psi2"]]
+    rows += [[f"ψ2, {p['case']}", f"{'-' if p['psi2'] is None else format(p['psi2'], 'g')} ({p['duration']})",
+              src["psi2"]] for p in d["psi2"]]
     return table(["design basis", "value", "source / why"], rows,
                  caption=f"Design basis of {chosen.candidate['name']} ({chosen.candidate['material']}); "
                          "values recalled from the standards (from memory)")

@@ -128,7 +128,9 @@ def basis_details(design, props, combinations) -> dict:
             "kmod": kmods, "gamma_M": gamma_M(kind),
             "kh": float(kh([kind], props["depth"], props.get("rho_k"))[0]),
             "k_cr": 0.67 if timber else None, "kdef": float(creep_factors(design, [kind])[0]),
-            "psi2": [{"case": case, "duration": dur, "psi2": design.psi2_of(case)} for case, dur in design.durations],
+            "psi2": [{"case": case, "duration": dur,  # None: not given and not needed (in no deflection combination)
+                      "psi2": design.psi2_of(case) if dur == "permanent" or case in dict(design.psi2) else None}
+                     for case, dur in design.durations],
             "sources": dict(SOURCES)}
 
 
