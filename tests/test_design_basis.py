@@ -290,3 +290,19 @@ def test_box_bearing_by_hand_and_uncovered_shapes_fail(tmp_path, capsys):
                                            rel=1e-9)
         seen.add(cand["family"])
     assert "box" in seen
+
+
+def test_the_invented_example_by_hand(capsys):
+    """data/examples/select-glulam-design-basis.toml: the chosen glulam beam's bending utilisation
+    M / (S kmod kh f_m,g,k / gamma_M) with M = w L^2 / 8 (statics), kmod = 0.9 (service class 2, short
+    term: EN 1995-1-1 Table 3.1), kh = (600 / h)^0.1 (3.3(3)), gamma_M = 1.25 (Table 2.3), all from
+    memory; and a continuously restrained beam is not marked as assuming restraint."""
+    path = Path(__file__).resolve().parents[1] / "data" / "examples" / "select-glulam-design-basis.toml"
+    out, _ = _select(path, capsys)
+    c = out["chosen"]
+    row = catalog_table(families=["glulam"], materials=[c["material"]]).set_index("name").loc[c["name"]]
+    w = 1.35 * (0.9e3 + row.mass_per_length * 9.80665) + 1.5 * 1.2e3
+    f_d = 0.9 * min((600 / (row.depth * 1e3)) ** 0.1, 1.1) * row.strength_bending / 1.25
+    assert c["utilisation"]["bending"] == pytest.approx(w * 6.0**2 / 8 / (row.Sz_bot * f_d), rel=1e-9)
+    assert main(["select", str(path)]) == 0
+    assert "assumes full lateral restraint" not in capsys.readouterr().out
