@@ -112,6 +112,9 @@ class Limits:
         return self._allowable(self.shear_stress, strength)
 
     def _allowable(self, absolute, strength):
+        if self.design is not None:  # a programming error, not bad input
+            raise RuntimeError("with [design] the allowable stresses depend on the combination: call "
+                               "leanspan.select.design.allowable_stress(props, limits, effects, which)")
         strength = np.asarray(strength, float)
         return np.full(strength.shape, absolute) if absolute is not None else self.stress_factor * strength
 

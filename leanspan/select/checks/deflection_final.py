@@ -35,6 +35,8 @@ is ``[design] final_limit`` for that span, else the combination's own ``limit``.
 
 from __future__ import annotations
 
+import weakref
+
 import numpy as np
 
 from ..design import SOURCES, TIMBER, gamma_M, kdef, kh
@@ -74,18 +76,32 @@ def _one_sampler(s, design, model, kd):
             continue
         F = np.asarray(combo.factors, float)
         for value in np.unique(kd):  # at most two: timber's kdef and the metals' 0
-            rows = kd == value
+            rows = np.flatnonzero(kd == value)
             F2 = F + value * q * (F != 0)
-            t = s.mass_g * (F2[sw] if sw is not None else 0.0)
-            mag, allowed, ratio = worst_span(field, F2, sw, t, scale, r.spans, lengths, x0, limit)
-            for key, got in (("u", mag), ("allowed", allowed), ("ratio", ratio)):
-                out[key][:, ci] = np.where(rows, got, out[key][:, ci])
+            t = s.mass_g[rows] * (F2[sw] if sw is not None else 0.0)
+            got = worst_span(field if field.shape[0] == 1 else field[rows], F2, sw, t,
+                             None if scale is None else scale[rows], r.spans, lengths, x0, limit)
+            for key, value_k in zip(("u", "allowed", "ratio"), got):
+                out[key][rows, ci] = value_k
     return out
+
+
+# sampler -> (props, limits, result): the demand and the allowable of one screen share one pass
+_LAST = weakref.WeakKeyDictionary()
 
 
 def final_deflections(eff, props):
     """``(u_fin, allowed)`` (K, C) of every candidate and model combination: the span closest to
     its final-deflection limit (pattern members reduced to their combination by the worst ratio)."""
+    hit = _LAST.get(eff.sampler)
+    if hit is not None and hit[0] is props and hit[1] is eff.limits:
+        return hit[2]
+    result = _final_deflections(eff, props)
+    _LAST[eff.sampler] = (props, eff.limits, result)
+    return result
+
+
+def _final_deflections(eff, props):
     design, sampler, model = eff.limits.design, eff.sampler, eff.model
     kd = creep_factors(design, props["kind"])
     parts = getattr(sampler, "samplers", None)  # the per-candidate reference path
