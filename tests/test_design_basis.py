@@ -9,7 +9,7 @@ the textbook deflection formulas.
 from __future__ import annotations
 
 import json
-import math
+import re
 from pathlib import Path
 
 import numpy as np
@@ -292,7 +292,7 @@ def test_box_bearing_by_hand_and_uncovered_shapes_fail(tmp_path, capsys):
     assert "box" in seen
 
 
-def test_the_invented_example_by_hand(capsys):
+def test_the_invented_example_by_hand(tmp_path, capsys):
     """data/examples/select-glulam-design-basis.toml: the chosen glulam beam's bending utilisation
     M / (S kmod kh f_m,g,k / gamma_M) with M = w L^2 / 8 (statics), kmod = 0.9 (service class 2, short
     term: EN 1995-1-1 Table 3.1), kh = (600 / h)^0.1 (3.3(3)), gamma_M = 1.25 (Table 2.3), all from
@@ -306,3 +306,13 @@ def test_the_invented_example_by_hand(capsys):
     assert c["utilisation"]["bending"] == pytest.approx(w * 6.0**2 / 8 / (row.Sz_bot * f_d), rel=1e-9)
     assert main(["select", str(path)]) == 0
     assert "assumes full lateral restraint" not in capsys.readouterr().out
+    # R = w L / 2 at each end (statics, the snow-leading combination governs); the sheet prints the
+    # JSON's bearing utilisation rounded up to 3 decimals
+    sup = out["checks"]["bearing"]["supports"]
+    assert sup[0]["reaction"] == pytest.approx(w * 6.0 / 2, rel=1e-9)
+    assert sup[0]["utilisation"] == pytest.approx(c["utilisation"]["bearing"], rel=1e-12)
+    sheet = tmp_path / "sheet.html"
+    assert main(["select", str(path), "--report", str(sheet)]) == 0
+    capsys.readouterr()
+    shown = re.search(r'data-key="chosen.utilisation.bearing">([0-9.]+)', sheet.read_text(encoding="utf-8"))
+    assert 0 <= float(shown.group(1)) - c["utilisation"]["bearing"] <= 1e-3 + 1e-12

@@ -192,6 +192,7 @@ def _sheet_rows(chosen):
     props = {c: np.asarray(v)[[k]] for c, v in res.props.items()}
     det = _details(res.effects.take(k), props)
     method = det["method"]
+    governing = int(res.combination["bearing"][k])  # the support column of the largest utilisation
     rows = []
     for i, s in enumerate(det["supports"]):
         if s["required"] is None:
@@ -204,7 +205,8 @@ def _sheet_rows(chosen):
             demand=s["required"], limit=s["given"], kind="length", utilisation=s["utilisation"],
             rule=None if s["given"] else TextRule("no bearing_length given: required length only"),
             keys={"demand": None, "limit": None,
-                  "utilisation": f"chosen.utilisation.bearing.{i + 1}" if s["given"] else None}))
+                  "utilisation": None if not s["given"] else "chosen.utilisation.bearing" if i == governing
+                  else f"chosen.utilisation.bearing.{i + 1}"}))
     return rows
 
 
