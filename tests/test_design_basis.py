@@ -252,10 +252,14 @@ def test_vectorised_equals_the_per_candidate_loop():
     ('psi2 = {}', "", "", ["design.psi2", "imposed"]),
     ('colour = "red"', "", "", ["design.colour", "unknown key"]),
     ('', "", "[limits]\nstress_factor = 0.6", ["limits.stress_factor", "[design]"]),
+    ("drop", SUPPORTS.format(a="50 mm", mid="4 m", b="100 mm"),
+     '[limits]\nbending_stress = "10 MPa"\nshear_stress = "1 MPa"', ["limits.bearing_stress", "support[1]"]),
 ])
 def test_bad_design_and_bearing_input(tmp_path, capsys, design, supports, limits, words):
     text = _job(tmp_path, supports=supports, limits=limits).read_text()
-    if design:  # replace the [design] key it names
+    if design == "drop":  # no [design]: the user basis
+        text = text.split("[design]")[0]
+    elif design:  # replace the [design] key it names
         key = design.split(" =")[0]
         lines = [ln for ln in text.split("[design]")[1].splitlines() if ln and not ln.startswith(key + " ")]
         text = text.split("[design]")[0] + "[design]\n" + "\n".join(lines + [design]) + "\n"

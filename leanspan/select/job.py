@@ -254,6 +254,11 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
                     for k, kind in limit_keys().items() if k in limits_t and k not in _LIMIT_KEYS),
         design=parse_design(data["design"], model, f"{p}design", units) if "design" in data else None,
     )
+    seats = [s for s in model.supports if s.bearing_length is not None]
+    if seats and limits.design is None and limits.stress_factor is None and limits.get("bearing_stress") is None:
+        raise SelectionError(f"{p}limits.bearing_stress: {seats[0].where} gives a bearing_length but the "
+                             "limits are absolute stresses; give bearing_stress (e.g. \"1.5 MPa\"), "
+                             "stress_factor or a [design] table")
     if series:
         families = (families or ()) + series
     search = SearchSpec(families, materials, catalog, sizes["max_depth"], sizes["min_depth"],
