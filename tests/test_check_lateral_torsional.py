@@ -328,3 +328,23 @@ def test_json_details_reproduce_the_chosen_demand(tmp_path, capsys, support):
     S = min(row.Sz_top, row.Sz_bot)
     assert abs(det["M"]) / (det["chi"] * S) == pytest.approx(best["demands"]["sigma_lt"], rel=1e-9)
     assert det["segment_start"] < det["segment_end"]
+
+
+def test_timber_uses_the_tabulated_fifth_percentile_modulus(tmp_path, capsys):
+    """Glulam under a uniform moment: Mcr of the closed form (Timoshenko & Gere) with E = E_0,g,05 of
+    EN 14080:2013 Table 5 (GL28h: 10,500 MPa, from memory) and G scaled by the same E_05 / E_mean
+    (common practice), not the 0.83 stand-in."""
+    from leanspan.catalog.table import catalog_table
+
+    L, M = 6.0, 3.0
+    path = tmp_path / "glulam.toml"
+    path.write_text(JOB.format(L=L, M=M, restraint="supports", extra="").replace(
+        'families = ["gen_steel_i"]', 'families = ["glulam"]\nmaterials = ["GL28h"]').replace(
+        'max_depth = "220 mm"', 'max_depth = "400 mm"'), encoding="utf-8")
+    main(["select", str(path), "--json"])
+    out = json.loads(capsys.readouterr().out)
+    first = out["candidates"][0]
+    row = catalog_table(families=["glulam"], materials=["GL28h"]).set_index("name").loc[first["name"]]
+    E05, G05 = 10500e6, 650e6 * 10500 / 12600
+    Mcr = math.pi / L * math.sqrt(E05 * row.Iy * G05 * row.J * (1 + math.pi**2 * E05 * row.Cw / (G05 * row.J * L**2)))
+    assert out["checks"]["lateral_torsional"]["Mcr"] == pytest.approx(Mcr, rel=1e-9)

@@ -205,7 +205,7 @@ def test_inactive_check_adds_nothing(tmp_path, capsys):
     status, cap = _run(tmp_path, capsys, "", "--json", "--report", str(sheet))
     assert status == 0
     chosen = json.loads(cap.out)["chosen"]
-    assert set(chosen["utilisation"]) == {"bending", "shear", "deflection", "local_buckling"}
+    assert set(chosen["utilisation"]) == {"bending", "shear", "deflection", "local_buckling", "bearing"}  # bearing: always
     assert "f1" not in chosen["demands"] and "point_deflection" not in chosen["demands"]
     html = sheet.read_text(encoding="utf-8")
     assert "vibration and footfall response" in html and "chosen.utilisation.vibration" not in html

@@ -186,7 +186,7 @@ def test_an_inactive_check_adds_nothing(tmp_path, capsys):
     sheet = tmp_path / "toy.html"
     with registered_check(lazy):
         out = _json_select(capsys, job, sheet)
-        assert set(out["chosen"]["utilisation"]) == {"bending", "shear", "deflection", "local_buckling"}
+        assert set(out["chosen"]["utilisation"]) == {"bending", "shear", "deflection", "local_buckling", "bearing"}  # bearing: always
         html = sheet.read_text(encoding="utf-8")
         assert "plastic_bending" not in html and "connections, fixings and notches" in html
         job.write_text(JOB, encoding="utf-8")  # now asked for

@@ -186,3 +186,42 @@ def test_cli_materials_csv_round_trip(tmp_path):
     assert {row["name"] for row in rows} >= {"GL24h", "GL28h"} and all(row["kind"] == "glulam" for row in rows)
     back = load_user_materials(out)  # the written CSV reads back as a user materials file
     assert back["GL28h"] == materials_table()["GL28h"]
+
+
+# EN 338:2016 Table 1 (from memory): class -> (E_0,05 MPa, rho_k kg/m3, f_c,90,k, f_t,0,k, f_c,0,k MPa)
+EN338_MORE = {"C16": (5400, 310, 2.2, 8.5, 17), "C24": (7400, 350, 2.5, 14.5, 21), "C30": (8000, 380, 2.7, 19, 24)}
+# EN 14080:2013 Table 5 (from memory): E_0,g,05, rho_g,k, f_c,90,g,k, f_t,0,g,k, f_c,0,g,k
+EN14080_MORE = {"GL24h": (9600, 385, 2.5, 19.2, 24), "GL28h": (10500, 425, 2.5, 22.3, 28),
+                "GL32h": (11800, 440, 2.5, 25.6, 32)}
+
+
+@pytest.mark.parametrize("name", list(EN338_MORE) + list(EN14080_MORE))
+def test_timber_fractile_density_and_strengths(name):
+    E05, rho_k, fc90, ft0, fc0 = {**EN338_MORE, **EN14080_MORE}[name]
+    m = get_material(name)
+    assert _close(m.E_05, E05 * MPA) and _close(m.rho_k, rho_k)
+    assert _close(m.fc_90, fc90 * MPA) and _close(m.ft_0, ft0 * MPA) and _close(m.fc_0, fc0 * MPA)
+    assert m.rho_k < m.density and m.E_05 < m.E  # 5 % fractiles below the means
+
+
+def test_lumber_reference_values_nds():
+    # NDS Supplement Table 4A, Douglas Fir-Larch No. 2 (from memory): Fc-perp 625 psi, Fc 1350 psi,
+    # Ft 575 psi, Emin 580,000 psi; E_05 = Emin x 1.66 / 1.03 (NDS Appendix D, from memory)
+    m = get_material("DF-L No.2")
+    assert _close(m.fc_90, 625 * PSI) and _close(m.fc_0, 1350 * PSI) and _close(m.ft_0, 575 * PSI)
+    assert _close(m.E_05, 580000 * 1.66 / 1.03 * PSI) and m.rho_k is None
+
+
+def test_metals_give_no_timber_values_and_user_rows_may_add_them(tmp_path):
+    assert get_material("S355").fc_90 is None and get_material("S355").E_05 is None
+    p = tmp_path / "mine.csv"
+    p.write_text("name,kind,E [GPa],G,density,strength_bending,strength_shear,fc_90,E_05 [GPa]\n"
+                 "Invented-T,timber,10,600,450,22,3.6,2.4,6.9\nC24,,,,,,,3.0,\n")
+    t = load_user_materials(p)
+    assert _close(t["Invented-T"].fc_90, 2.4 * MPA) and _close(t["Invented-T"].E_05, 6.9e9)
+    assert t["Invented-T"].ft_0 is None
+    assert _close(t["C24"].fc_90, 3.0 * MPA) and _close(t["C24"].E_05, 7400 * MPA)  # only fc_90 changed
+    bad = tmp_path / "bad.toml"
+    bad.write_text('[[material]]\nname = "C24"\nfc_90 = "-2 MPa"\n')
+    with pytest.raises(MaterialError, match="fc_90"):
+        load_user_materials(bad)

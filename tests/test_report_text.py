@@ -75,9 +75,9 @@ CATALOG_HEADERS = {
 }
 MATERIAL_HEADERS = {
     "si": "name,kind,group,E [MPa],G [MPa],density [kg/m^3],strength_bending [MPa],strength_shear [MPa],"
-          "basis,source",
+          "E_05 [MPa],rho_k [kg/m^3],fc_90 [MPa],ft_0 [MPa],fc_0 [MPa],basis,source",
     "us": "name,kind,group,E [ksi],G [ksi],density [lb/ft^3],strength_bending [ksi],strength_shear [ksi],"
-          "basis,source",
+          "E_05 [ksi],rho_k [lb/ft^3],fc_90 [ksi],ft_0 [ksi],fc_0 [ksi],basis,source",
 }
 
 

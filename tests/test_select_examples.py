@@ -28,8 +28,9 @@ def check_contract(out):
     assert isinstance(out["screened"], int) and out["screened"] >= len(out["candidates"]) >= 1
     for c in out["candidates"] + ([out["chosen"]] if out["chosen"] else []):
         assert CANDIDATE_KEYS <= set(c), CANDIDATE_KEYS - set(c)
-        # the contract's three checks, and lateral_torsional where the job asks for it (the demo does)
-        assert set(c["utilisation"]) - {"lateral_torsional"} == {"bending", "shear", "deflection", "local_buckling"}
+        # the contract's checks (bearing always: null without a bearing_length), and lateral_torsional
+        # where the job asks for it (the demo does)
+        assert set(c["utilisation"]) - {"lateral_torsional"} == {"bending", "shear", "deflection", "local_buckling", "bearing"}
         assert c["governing"] in c["utilisation"]
         assert isinstance(c["passes"], bool) and isinstance(c["rank"], int)
         assert isinstance(c["dims"], dict) and all(isinstance(v, float) for v in c["dims"].values())

@@ -74,6 +74,8 @@ class Support:
 
     ``pin`` and ``roller`` both restrain the deflection (axial effects are not modelled);
     ``fixed`` restrains deflection and rotation; ``guided`` restrains rotation only.
+    ``bearing_length`` (m, optional) is the length of the seat the member bears on, for the
+    selection's bearing check (the beam solution does not use it).
     """
 
     at: float
@@ -81,9 +83,13 @@ class Support:
     k: float | None = None
     kr: float | None = None
     where: str = "support"
+    bearing_length: float | None = None
 
     def __post_init__(self):
         object.__setattr__(self, "at", _num(self.at, f"{self.where}.at"))
+        if self.bearing_length is not None:
+            object.__setattr__(self, "bearing_length",
+                               _num(self.bearing_length, f"{self.where}.bearing_length", positive=True))
         if not isinstance(self.type, str) or self.type not in SUPPORT_TYPES:
             raise BeamError(f"{self.where}.type: expected one of {', '.join(SUPPORT_TYPES)}, got {brief(self.type)}")
         if self.type == "spring":

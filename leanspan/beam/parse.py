@@ -176,12 +176,18 @@ def parse_beam(data: dict, base_dir: Path, field_prefix: str = "", section_stiff
     defaults = sorted(supports)  # a [[support]] at one of these replaces it
     for i, t in enumerate(_tables(data, beam, "support", p)):
         where = f"{p}support[{i + 1}]"
-        _only(t, {"at", "type", "k", "kr"}, where)
+        _only(t, {"at", "type", "k", "kr", "bearing_length"}, where)
         at = parse(_need(t, "at", where), "length", f"{where}.at", units, within="position")
         kind = _need(t, "type", where)
         k = parse(t["k"], "force/length", f"{where}.k", units) if "k" in t else None
         kr = parse(t["kr"], "moment", f"{where}.kr", units) if "kr" in t else None
-        s = Support(at, kind, k, kr, where=where)
+        seat = None
+        if "bearing_length" in t:
+            seat = parse(t["bearing_length"], "length", f"{where}.bearing_length", units, within="section length")
+            if not seat > 0:
+                raise BeamError(f"{where}.bearing_length: expected a positive length (the seat the member "
+                                f"bears on, e.g. \"100 mm\"), got {brief(t['bearing_length'])}")
+        s = Support(at, kind, k, kr, where=where, bearing_length=seat)
         j = bisect.bisect_left(defaults, at - tol)  # a default support within tol (they are far apart)
         if j < len(defaults) and abs(defaults[j] - at) <= tol and defaults[j] in supports \
                 and supports[defaults[j]].where.endswith("beam.spans"):

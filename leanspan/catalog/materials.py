@@ -37,7 +37,7 @@ from ..fileio import load_toml, protect_inputs
 from ..units import check_range, parse
 from .csvfile import column_factor, read_table, to_float
 
-__all__ = ["KINDS", "Material", "materials_table", "get_material", "load_user_materials", "material_lookup",
+__all__ = ["KINDS", "REQUIRED", "OPTIONAL", "Material", "materials_table", "get_material", "load_user_materials", "material_lookup",
            "BUILTIN_FILES"]
 
 KINDS = ("steel", "stainless", "aluminium", "timber", "glulam")
@@ -50,7 +50,16 @@ _QUANTITIES = {
     "density": ("density", "kg/m^3", "a density"),
     "strength_bending": ("pressure", "MPa", "a bending strength"),
     "strength_shear": ("pressure", "MPa", "a shear strength"),
+    # optional (blank where a standard gives none, e.g. metals): what bearing, buckling and the design basis read
+    "E_05": ("pressure", "MPa", "an elastic modulus (5 % fractile)"),
+    "rho_k": ("density", "kg/m^3", "a characteristic density"),
+    "fc_90": ("pressure", "MPa", "a compression strength across the grain"),
+    "ft_0": ("pressure", "MPa", "a tension strength parallel to the grain"),
+    "fc_0": ("pressure", "MPa", "a compression strength parallel to the grain"),
 }
+#: the quantities every new material must give (the rest are optional)
+REQUIRED = ("E", "G", "density", "strength_bending", "strength_shear")
+OPTIONAL = tuple(k for k in _QUANTITIES if k not in REQUIRED)
 _TEXT = ("name", "kind", "group", "basis", "source")
 
 
@@ -69,6 +78,10 @@ class Material:
     strength_bending, strength_shear : float
         Characteristic (timber), reference (lumber grades) or yield-based (metals)
         strengths, Pa; ``basis`` says which.
+    E_05, rho_k, fc_90, ft_0, fc_0 : float or None
+        Optional (None where not given): E at the 5 % fractile (Pa), the characteristic
+        density (kg/m³), and the compression strength across the grain, tension and
+        compression strengths parallel to the grain (Pa, on the same ``basis``).
     group, basis, source : str
         A finer grouping, the basis of the strengths, and where the row comes from.
 
@@ -92,6 +105,11 @@ class Material:
     group: str = ""
     basis: str = ""
     source: str = ""
+    E_05: float | None = None
+    rho_k: float | None = None
+    fc_90: float | None = None
+    ft_0: float | None = None
+    fc_0: float | None = None
 
     def __post_init__(self):
         if not isinstance(self.name, str) or not self.name.strip():
@@ -101,12 +119,15 @@ class Material:
                                 f"expected one of {', '.join(KINDS)}")
         for key in _QUANTITIES:
             value = getattr(self, key)
+            if value is None and key in OPTIONAL:
+                continue
             if not isinstance(value, (int, float)) or not math.isfinite(value) or value <= 0:
                 raise MaterialError(f"material {self.name!r}: {key} must be a positive number, "
                                     f"got {brief(value)}")
 
     def as_dict(self) -> dict:
-        """The row as a plain dict (the ``leanspan materials --json`` keys)."""
+        """The row as a plain dict (the ``leanspan materials --json`` keys; ``None`` where an
+        optional value is not given)."""
         return {f.name: getattr(self, f.name) for f in fields(self)}
 
 
@@ -210,7 +231,7 @@ def _merge(table: dict[str, Material], rows: list[dict]) -> dict[str, Material]:
                 row.pop("name")
                 table[old_name] = replace(table[old_name], **row)  # keeps its place
             else:
-                missing = [k for k in ("kind",) + tuple(_QUANTITIES) if k not in row]
+                missing = [k for k in ("kind",) + REQUIRED if k not in row]
                 if missing:
                     raise MaterialError(f"{where}: new material {row['name']!r} is missing "
                                         f"{', '.join(missing)}")

@@ -3,8 +3,9 @@
 :func:`catalog_table` returns a pandas DataFrame with the columns ``name family series
 material kind``, one column per dimension key (:data:`DIM_KEYS`, NaN where a family
 does not use it), the section keys of :data:`leanspan.sections.properties.KEYS`, and
-the material columns ``E G density strength_bending strength_shear mass_per_length``
-and ``strength_thickness`` (SI units throughout). The strengths of graded metals are stepped
+the material columns ``E G density strength_bending strength_shear mass_per_length`` (and the
+optional ``E_05 rho_k fc_90 ft_0 fc_0``, NaN where the material gives none) and
+``strength_thickness`` (SI units throughout). The strengths of graded metals are stepped
 by thickness (:mod:`.thickness`): ``strength_thickness`` is the row's governing thickness
 (its thickest element), NaN for materials without steps.
 
@@ -46,6 +47,7 @@ from ..fileio import atomic_write
 from ..sections.families import FAMILIES
 from ..sections.properties import KEYS, STABILITY_KEYS, family_properties, family_stability
 from .csvfile import column_factor
+from .materials import OPTIONAL as MATERIAL_OPTIONAL
 from .materials import get_material, materials_table
 from .series import RENAMED, SERIES
 from .thickness import beyond_table, governing_thickness, strength_factors, thickness_steps
@@ -56,7 +58,7 @@ __all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "dims_of", "row_dims
 
 DIM_KEYS = ("d", "b", "tw", "tf", "t", "r", "b_top", "tf_top", "b_bot", "tf_bot")
 MATERIAL_COLUMNS = ("kind", "E", "G", "density", "strength_bending", "strength_shear",
-                    "mass_per_length", "strength_thickness")
+                    "mass_per_length", "strength_thickness") + MATERIAL_OPTIONAL  # optional: NaN where not given
 _TEXT_COLUMNS = ("name", "family", "series", "material")
 # every column a block builds: what the disk cache must hold to be used
 _COLUMNS = _TEXT_COLUMNS + DIM_KEYS + tuple(KEYS) + STABILITY_KEYS
@@ -349,8 +351,8 @@ def _with_materials(df, material, mats):
     uniq, inv = np.unique(names, return_inverse=True) if len(names) else (np.array([]), np.zeros(0, int))
     rows = [mats[u] for u in uniq]
     df["kind"] = np.array([m.kind for m in rows], dtype=object)[inv] if rows else []
-    for col in ("E", "G", "density", "strength_bending", "strength_shear"):
-        df[col] = np.array([getattr(m, col) for m in rows], float)[inv] if rows else []
+    for col in ("E", "G", "density", "strength_bending", "strength_shear") + MATERIAL_OPTIONAL:
+        df[col] = np.array([getattr(m, col) for m in rows], float)[inv] if rows else []  # None -> NaN
     df["mass_per_length"] = df["A"].to_numpy() * df["density"].to_numpy()
     _step_strengths(df)
     return df

@@ -72,6 +72,11 @@ PROPERTIES: dict[str, tuple[str, str | None]] = {
     "strength_bending": ("Bending strength (material)", "pressure"),
     "strength_shear": ("Shear strength (material)", "pressure"),
     "strength_thickness": ("Thickness the strengths are stepped for (thickest element)", "length"),
+    "E_05": ("Elastic modulus, 5 % fractile E_05", "modulus"),
+    "rho_k": ("Characteristic density rho_k", "density"),
+    "fc_90": ("Compression strength across the grain fc_90", "pressure"),
+    "ft_0": ("Tension strength parallel ft_0", "pressure"),
+    "fc_0": ("Compression strength parallel fc_0", "pressure"),
 }
 
 # the section listing (text and sheet); keys without a value are left out
@@ -89,7 +94,7 @@ CATALOG_CSV_KEYS = ("d", "b", "tw", "tf", "t", "r", "b_top", "tf_top", "b_bot", 
                     "E", "G", "density", "strength_bending", "strength_shear", "mass_per_length")
 CATALOG_TABLE_KEYS = ("depth", "width", "A", "Iz", "Sz_top", "Sz_bot", "Zz", "Iy", "mass_per_length")
 # the materials table
-MATERIAL_KEYS = ("E", "G", "density", "strength_bending", "strength_shear")
+MATERIAL_KEYS = ("E", "G", "density", "strength_bending", "strength_shear", "E_05", "rho_k", "fc_90", "ft_0", "fc_0")
 
 # column names of the terminal tables where the key is long
 _SHORT = {"mass_per_length": "mass", "strength_bending": "f_bending", "strength_shear": "f_shear"}

@@ -14,7 +14,8 @@ def materials_text(rows, units: str = "si") -> str:
     keys = labels.MATERIAL_KEYS
     heads = ["name", "kind"] + [f"{labels.short(k)} [{labels.unit(k, units)[0]}]" for k in keys] \
         + ["basis", "source"]
-    body = [[m.name, m.kind] + [fmt(getattr(m, k) / labels.unit(k, units)[1]) for k in keys]
+    body = [[m.name, m.kind] + ["-" if getattr(m, k) is None else fmt(getattr(m, k) / labels.unit(k, units)[1])
+                                for k in keys]
             + [m.basis, m.source] for m in rows]
     return aligned_table(heads, body)
 
@@ -23,5 +24,6 @@ def materials_csv(rows, units: str = "si") -> str:
     """The materials as CSV with unit headers (``E [MPa]``), readable back as a user materials file."""
     keys = labels.MATERIAL_KEYS
     columns = ["name", "kind", "group", *keys, "basis", "source"]
-    body = ([m.name, m.kind, m.group] + [getattr(m, k) for k in keys] + [m.basis, m.source] for m in rows)
+    body = ([m.name, m.kind, m.group] + [float("nan") if getattr(m, k) is None else getattr(m, k) for k in keys]
+            + [m.basis, m.source] for m in rows)  # not given: an empty cell
     return csv_text(columns, body, {k: labels.unit(k, units) for k in keys})

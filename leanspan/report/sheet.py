@@ -232,6 +232,39 @@ def _search_table(sel, units: str) -> str:
     return table(["search", "value"], rows, caption="Search space and limits")
 
 
+# -- the design basis (only with [design]) ----------------------------------------------------
+def _design_basis(sel, chosen) -> str:
+    """The design basis of the chosen member: method, classes and factors, each with its source."""
+    design = sel.job.limits.design
+    if design is None:
+        return ""
+    import numpy as np
+
+    from ..select.checks.deflection_final import basis_details
+
+    props = {c: np.asarray(v)[[chosen.index]] for c, v in sel.result.props.items()}
+    d = basis_details(design, props, sel.job.model.combinations)
+    src = d["sources"]
+    timber = d["material_kind"] in ("timber", "glulam")
+    rows = [["method", "design strengths from characteristic values: timber f_d = kmod × kh × f_k / γM "
+                       "(shear × k_cr), metals f_d = f / γM0; final deflection with creep",
+             "[design] in the job"],
+            ["service class", str(d["service_class"]), "the job (EN 1995-1-1 2.3.1.3)"]]
+    for k in d["kmod"]:
+        value = f"{k['kmod']:g}" if k["kmod"] is not None else "- (metal)"
+        rows.append([f"kmod, {k['combination']}", f"{value}: shortest-duration case {k['case']} ({k['duration']})",
+                     src["kmod"]])
+    rows += [["γM" if timber else "γM0", f"{d['gamma_M']:g} ({d['material_kind']})", src["gamma_M"]],
+             ["kh", f"{d['kh']:.4g}", src["kh"]],
+             ["k_cr", "-" if d["k_cr"] is None else f"{d['k_cr']:g}", src["k_cr"]],
+             ["kdef", f"{d['kdef']:g}", src["kdef"]]]
+    rows += [[f"ψ2, {p['case']}", f"{'-' if p['psi2'] is None else format(p['psi2'], 'g')} ({p['duration']})",
+              src["psi2"]] for p in d["psi2"]]
+    return table(["design basis", "value", "source / why"], rows,
+                 caption=f"Design basis of {chosen.candidate['name']} ({chosen.candidate['material']}); "
+                         "values recalled from the standards (from memory)")
+
+
 # -- selection sheet ---------------------------------------------------------------------------
 def _property_rows(row, cand, units):
     """(label, key, value SI, kind) for the chosen member's property table."""
@@ -320,7 +353,7 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
         verdict = (f'<p class="verdict fail"><b>No candidate passes</b> {esc(detail)}. The sheet '
                    f'shows the closest candidate, {esc(cand["name"])}, which FAILS.</p>')
     parts = [head + verdict, section("Job", _beam_tables(job.model, units, show_ei=False)
-                                     + _search_table(sel, units), anchor="job")]
+                                     + _search_table(sel, units) + _design_basis(sel, chosen), anchor="job")]
 
     beam_fig = _figure(loaded_beam_figure(sol.model, units), "beam",
                        BEAM_CAPTION)

@@ -98,7 +98,8 @@ def thickness_note(shown, units: str = "si") -> str:
 def _unrestrained(sel, top):
     """Which shown rows lean on full lateral restraint: open metal shapes and timber deeper than
     twice its width (common practice), while the buckling check is off."""
-    if any(c.name == "lateral_torsional" for c in sel.result.checks):
+    if any(c.name == "lateral_torsional" for c in sel.result.checks) \
+            or sel.job.limits.get("lateral_restraint") == "continuous":  # restrained all along, as the job says
         return [False] * len(sel.shown_positions(top))
     return [c["family"] in ("ibeam", "channel", "tee", "angle")
             or (c["family"] == "rectangle" and c["depth"] > 2 * c["width"]) for c in sel.shown(top)]

@@ -15,6 +15,12 @@ supply them) + ``[search]`` + ``[limits]``::
     stress_factor = 0.6                    # x each material's bending and shear strength
     # bending_stress = "165 MPa"           # or absolute values (override the factor)
 
+    # or, instead of the stress limits, design strengths from characteristic values:
+    # [design]
+    # service_class = 1
+    # duration = {dead = "permanent", imposed = "medium"}
+    # psi2 = {imposed = 0.3}
+
 Examples
 --------
 >>> from pathlib import Path
@@ -40,6 +46,7 @@ from ..fileio import is_file
 from ..project import Project, parse_project
 from ..units import UnitSystem, check_number, display_factor, fmt, parse
 from .checks import limit_keys
+from .design import parse_design
 
 __all__ = ["SearchSpec", "Limits", "Job", "parse_job"]
 
@@ -76,8 +83,16 @@ class Limits:
     shear_stress: float | None = None
     stress_factor: float | None = None
     extra: tuple = ()  # (key, value) of the [limits] keys that other registered checks read
+    design: object = None  # leanspan.select.design.DesignBasis: design strengths instead of these limits
 
     def __post_init__(self):
+        if self.design is not None:
+            given = [k for k in ("stress_factor", "bending_stress", "shear_stress") if getattr(self, k) is not None]
+            if given:
+                raise SelectionError(f"limits.{given[0]}: [design] sets the allowable stresses (design "
+                                     "strengths kmod x kh x f_k / gamma_M); remove stress_factor, "
+                                     "bending_stress and shear_stress, or remove [design]")
+            return
         if self.stress_factor is not None and not self.stress_factor > 0:
             raise SelectionError(f"limits.stress_factor: expected a positive number, got {brief(self.stress_factor)}")
         for name in ("bending_stress", "shear_stress"):
@@ -98,6 +113,9 @@ class Limits:
         return self._allowable(self.shear_stress, strength)
 
     def _allowable(self, absolute, strength):
+        if self.design is not None:  # a programming error, not bad input
+            raise RuntimeError("with [design] the allowable stresses depend on the combination: call "
+                               "leanspan.select.design.allowable_stress(props, limits, effects, which)")
         strength = np.asarray(strength, float)
         return np.full(strength.shape, absolute) if absolute is not None else self.stress_factor * strength
 
@@ -112,6 +130,8 @@ class Limits:
     def describe(self, units: str = "si") -> str:
         """The limits in words, stresses in the display unit system."""
         label, factor = display_factor("pressure", units)
+        if self.design is not None:
+            return self.design.describe()
         parts = []
         if self.stress_factor is not None:
             parts.append(f"{self.stress_factor:g} x material strengths")
@@ -154,7 +174,7 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
     search_t = data.get("search")
     if not isinstance(search_t, dict):
         raise SelectionError(f"{p}search: missing [search] table (families, materials, catalog ...)")
-    limits_t = data.get("limits")
+    limits_t = data.get("limits", {} if "design" in data else None)
     if not isinstance(limits_t, dict):
         raise SelectionError(f"{p}limits: missing [limits] table (bending_stress, shear_stress or stress_factor)")
     for key in search_t:
@@ -200,6 +220,7 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
     beam_data = dict(data)
     beam_data.pop("search", None)
     beam_data.pop("limits", None)
+    beam_data.pop("design", None)
     beam = dict(data["beam"])
     beam["EI"] = "1 N*m^2"  # placeholder: candidates supply EI
     if sw is not None:
@@ -233,7 +254,13 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
         stress_factor=_factor(limits_t.get("stress_factor"), f"{p}limits.stress_factor"),
         extra=tuple((k, _limit_value(limits_t[k], kind, f"{p}limits.{k}", units))
                     for k, kind in limit_keys().items() if k in limits_t and k not in _LIMIT_KEYS),
+        design=parse_design(data["design"], model, f"{p}design", units) if "design" in data else None,
     )
+    seats = [s for s in model.supports if s.bearing_length is not None]
+    if seats and limits.design is None and limits.stress_factor is None and limits.get("bearing_stress") is None:
+        raise SelectionError(f"{p}limits.bearing_stress: {seats[0].where} gives a bearing_length but the "
+                             "limits are absolute stresses; give bearing_stress (e.g. \"1.5 MPa\"), "
+                             "stress_factor or a [design] table")
     if series:
         families = (families or ()) + series
     search = SearchSpec(families, materials, catalog, sizes["max_depth"], sizes["min_depth"],

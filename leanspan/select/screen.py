@@ -303,6 +303,27 @@ def _field_extremes(field, F, sw, t, scale, lengths, x0, elems):
     return {sg: tuple(np.concatenate([p[i] for p in parts[sg]]) for i in range(2)) for sg in (1, -1)}
 
 
+def worst_span(field, F, sw, t, scale, spans, lengths, x0, limit):
+    """The span (or overhang) of largest |v| / allowed under one combination's factors ``F``, per
+    candidate: ``(|v|, allowed, ratio)`` arrays (K,), NaN where no span has elements (see
+    :func:`_field_extremes` for ``field``, ``sw``, ``t``, ``scale``)."""
+    mids = x0 + lengths / 2
+    mag_out, allowed_out, ratio = (np.full(t.size, np.nan) for _ in range(3))
+    for a, b, _kind in spans:  # a small set
+        elems = np.nonzero((mids > a) & (mids < b))[0]
+        if elems.size == 0:
+            continue
+        d = _field_extremes(field, F, sw, t, scale, lengths, x0, elems)
+        mag = np.maximum(np.abs(d[1][0]), np.abs(d[-1][0]))
+        allowed = float(limit.allowed(b - a))
+        r = mag / allowed
+        upd = ~(r <= ratio)  # NaN-aware maximum
+        ratio = np.where(upd, r, ratio)
+        mag_out = np.where(upd, mag, mag_out)
+        allowed_out = np.where(upd, allowed, allowed_out)
+    return mag_out, allowed_out, ratio
+
+
 def screen(model, cand: Candidates, self_weight_case=None) -> Screen:
     """Check every candidate against every combination of ``model`` (a BeamModel).
 
@@ -336,7 +357,6 @@ def screen_effects(model, cand: Candidates, self_weight_case=None) -> Effects:
 
     C = len(resp.combos)
     out = {k: np.full((K, C), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
-    mids = x0 + lengths / 2
     for ci, combo in enumerate(resp.combos):  # a small set
         F = np.asarray(combo.factors, float)
         t = mass_g * (F[sw] if sw is not None else 0.0)
@@ -346,19 +366,8 @@ def screen_effects(model, cand: Candidates, self_weight_case=None) -> Effects:
             out["M_max"][:, ci], out["M_min"][:, ci] = snap_round_off(m[1][0], m[-1][0])
             out["V_abs"][:, ci] = np.maximum(np.abs(v[1][0]), np.abs(v[-1][0]))
         elif combo.limit is not None:
-            ratio = np.full(K, np.nan)
-            for a, b, _kind in resp.spans:
-                elems = np.nonzero((mids > a) & (mids < b))[0]
-                if elems.size == 0:
-                    continue
-                d = _field_extremes(v_field, F, sw, t, v_scale, lengths, x0, elems)
-                mag = np.maximum(np.abs(d[1][0]), np.abs(d[-1][0]))
-                allowed = float(combo.limit.allowed(b - a))
-                r = mag / allowed
-                upd = ~(r <= ratio)  # NaN-aware maximum
-                ratio = np.where(upd, r, ratio)
-                out["v_abs"][:, ci] = np.where(upd, mag, out["v_abs"][:, ci])
-                out["v_allowed"][:, ci] = np.where(upd, allowed, out["v_allowed"][:, ci])
+            out["v_abs"][:, ci], out["v_allowed"][:, ci], _ = worst_span(
+                v_field, F, sw, t, v_scale, resp.spans, lengths, x0, combo.limit)
     names = [c.name for c in model.combinations]
     parents = np.array([names.index(c.parent or c.name) for c in resp.combos], int)
     sampler = FieldSampler(resp, parents, mass_g, None if not fixed else v_scale)
@@ -410,6 +419,38 @@ class FieldSampler:
         return FieldSampler(self.resp, self.parents, self.mass_g[index],
                             None if self.v_scale is None else self.v_scale[index], rows)
 
+    def _weights(self):
+        """The factors (C_concrete, U) with the self-weight unit case zeroed, and each candidate's
+        factored weight per length on it, t (K, C_concrete)."""
+        sw = self.resp.self_weight_index
+        F = self.F.copy()
+        t = self.mass_g[:, None] * (F[:, sw][None, :] if sw is not None else 0.0)
+        if sw is not None:
+            F[:, sw] = 0.0
+        return F, t
+
+    def _combine(self, field):
+        """sum_u F_cu field_u + t_kc field_self-weight of a field (1 or K, U, ...) -> (K', C_concrete, ...)."""
+        if field.shape[0] > 1 and self.rows is not None:
+            field = field[self.rows]
+        sw = self.resp.self_weight_index
+        F, t = self._weights()
+        if field.shape[0] == 1:
+            out = np.einsum("cu,u...->c...", F, field[0])[None]
+            if sw is not None:
+                out = out + t[(...,) + (None,) * (field.ndim - 2)] * field[0, sw][None, None]
+        else:
+            Fk = np.broadcast_to(F, (field.shape[0],) + F.shape).copy()
+            if sw is not None:
+                Fk[:, :, sw] = t
+            out = np.einsum("kcu,ku...->kc...", Fk, field)
+        return out
+
+    def reactions(self) -> np.ndarray:
+        """The upward support forces (K, C_concrete, n_supports), in the order of ``resp.supports``."""
+        out = self._combine(self.resp.reactions[..., 0])
+        return np.broadcast_to(out, (self.mass_g.size,) + out.shape[1:])
+
     def _combined(self, name, elems):
         """Coefficients (K, C_concrete, len(elems), n) of the combined field on elements ``elems``:
         sum_u F_cu field_u + t_kc field_self-weight (t = the candidate's factored weight), for
@@ -419,23 +460,7 @@ class FieldSampler:
         scale = name == "v" and self.v_scale is not None
         if scale:
             field = r.v[:1] * r.EI[:1, None, :, None]
-        field = field[:, :, elems, :]
-        if field.shape[0] > 1 and self.rows is not None:
-            field = field[self.rows]
-        sw = r.self_weight_index
-        F = self.F.copy()
-        t = self.mass_g[:, None] * (F[:, sw][None, :] if sw is not None else 0.0)  # (K, C)
-        if sw is not None:
-            F[:, sw] = 0.0
-        if field.shape[0] == 1:
-            out = np.einsum("cu,uen->cen", F, field[0])[None]
-            if sw is not None:
-                out = out + t[:, :, None, None] * field[0, sw][None, None]
-        else:
-            Fk = np.broadcast_to(F, (field.shape[0],) + F.shape).copy()
-            if sw is not None:
-                Fk[:, :, sw] = t
-            out = np.einsum("kcu,kuen->kcen", Fk, field)
+        out = self._combine(field[:, :, elems, :])
         if scale:
             out = out * self.v_scale[:, None, None, None]
         return np.broadcast_to(out, (self.mass_g.size,) + out.shape[1:])
@@ -506,3 +531,6 @@ class _StackedSampler:
 
     def peak(self, name, a, b):
         return np.concatenate([s.peak(name, a, b) for s in self.samplers], axis=0)
+
+    def reactions(self):
+        return np.concatenate([s.reactions() for s in self.samplers], axis=0)

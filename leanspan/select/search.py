@@ -146,9 +146,11 @@ def _mixed_bases(df, job) -> list:
     """A warning when one stress factor scales strengths of different bases (characteristic
     timber values, metal yields, allowable-stress reference values): one factor cannot suit all."""
     lim = job.limits
+    table = materials_table(job.search.materials_file)
+    if lim.design is not None:
+        return _design_bases(df, table)
     if lim.stress_factor is None or (lim.bending_stress is not None and lim.shear_stress is not None):
         return []
-    table = materials_table(job.search.materials_file)
     by_basis = {}
     for name in dict.fromkeys(df["material"]):  # the distinct materials, in table order
         m = table.get(name)
@@ -160,6 +162,21 @@ def _mixed_bases(df, job) -> list:
     return [f"limits.stress_factor: {lim.stress_factor:g} scales strengths of different bases: {shown}; "
             "one factor rarely suits them all: use a job per material kind or absolute bending_stress "
             "and shear_stress"]
+
+
+def _design_bases(df, table) -> list:
+    """A warning when [design] (characteristic timber values, metal yields) meets materials whose
+    strengths are on another basis (allowable-stress reference values): kmod / gamma_M do not suit them."""
+    odd = {}
+    for name in dict.fromkeys(df["material"]):
+        m = table.get(name)
+        expected = "characteristic" if m is not None and m.kind in ("timber", "glulam") else "yield"
+        if m is not None and m.basis and m.basis != expected:
+            odd.setdefault(m.basis, []).append(name)
+    return [f"design: the design basis takes characteristic timber strengths and metal yield strengths, "
+            f"but {', '.join(names[:3])}{' ...' if len(names) > 3 else ''} give {basis} values; kmod and "
+            "gamma_M do not apply to them: use [limits] stress limits for these materials"
+            for basis, names in odd.items()]
 
 
 def candidates_from_table(df, limits) -> Candidates:

@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from ..design import allowable_stress
 from .registry import Check, register
 
 __all__ = ["BENDING"]
@@ -28,7 +29,7 @@ def _demand(eff, props):
 
 
 def _allowable(props, limits, eff):
-    return limits.bending_allowable(props["strength_bending"])[:, None]
+    return allowable_stress(props, limits, eff, "bending")  # the user's limits or [design]
 
 
 def _action(eff, c):

@@ -38,8 +38,10 @@ d/b <= 2), 0.34 (b, rolled, d/b > 2), 0.49 (c, welded, d/b <= 2), 0.76 (d, welde
 other shapes), lam0 = 0.2 (EN 1993-1-1 Tables 6.3 and 6.4); stainless alpha 0.76, lam0 0.4
 (EN 1993-1-4 6.3.4); aluminium alpha 0.20, lam0 0.4 (EN 1999-1-1 6.3.2.2, elastic sections);
 timber and glulam by kcrit of EN 1995-1-1 6.3.3 (lam = sqrt(fm / sigma_crit); kcrit 1 up to
-0.75, 1.56 - 0.75 lam up to 1.4, 1 / lam^2 beyond), with E and G at their 5 % fractiles taken as
-0.67 (solid timber, EN 338) and 0.83 (glulam, EN 14080) of the mean values (from memory).
+0.75, 1.56 - 0.75 lam up to 1.4, 1 / lam^2 beyond), with E at its 5 % fractile: the material's
+``E_05`` (EN 338 / EN 14080 tables), G scaled by the same E_05 / E (common practice); a material
+without E_05 takes 0.67 (solid timber, EN 338) or 0.83 (glulam, EN 14080) of the mean values
+(from memory).
 ``"ratio"``: chi = max_moment_ratio Mcr / (S f), at most 1. The demand is the segment moment as
 a stress, M / (chi S), against the same allowable bending stress as the bending check.
 Sections with tilted principal axes (angles) cannot be checked this way and fail it.
@@ -51,6 +53,7 @@ import numpy as np
 
 from ...errors import SelectionError
 from ..screen_reduce import to_parents
+from ..design import allowable_stress
 from .registry import Check, register
 
 __all__ = ["LATERAL_TORSIONAL", "critical_moment", "reduction_factor", "moment_factor"]
@@ -171,13 +174,24 @@ def _curves(props):
     return alpha, lam0, np.isin(kind, ("timber", "glulam"))
 
 
-def _resistance_factor(Mcr, S, f, curves, limits):
+def _fractile_moduli(props):
+    """E and G at their 5 % fractiles for timber (K,): the material's ``E_05`` where given (G scaled
+    alike, common practice), else the stand-in fraction of the mean; metals their mean values."""
+    kind = np.asarray(props["kind"]).astype(str)
+    stand_in = np.select([kind == k for k in _FRACTILE], list(_FRACTILE.values()), 1.0)
+    E05 = np.asarray(props.get("E_05", np.full(kind.shape, np.nan)), float)
+    fractile = np.where(np.isin(kind, tuple(_FRACTILE)) & np.isfinite(E05), E05 / props["E"], stand_in)
+    return props["E"] * fractile, props["G"] * fractile
+
+
+def _resistance_factor(Mcr, S, f, curves, limits, allow=None):
     """chi (K, C) from Mcr (K, C), the smaller elastic modulus S and strength f (K, 1) by the
-    material's method (``curves`` from :func:`_curves`, each (K, 1))."""
+    material's method (``curves`` from :func:`_curves`, each (K, 1)); ``allow`` (broadcasting to
+    (K, C)) is the allowable bending stress the ``"ratio"`` method reads."""
     with np.errstate(divide="ignore", invalid="ignore"):
         if limits.get("lateral_torsional_method", "curve") == "ratio":
             r = limits.get("max_moment_ratio", 1.0)
-            return np.minimum(1.0, r * Mcr / (S * limits.bending_allowable(f)))
+            return np.minimum(1.0, r * Mcr / (S * allow))
         lam = np.sqrt(S * f / Mcr)
     alpha, lam0, timber = curves
     return np.where(timber, _kcrit(lam), reduction_factor(lam, alpha, lam0))
@@ -187,9 +201,7 @@ def _segment_results(eff, props):
     """Per segment between restraints: ``(a, b, cantilever, M, C1, Mcr, chi, demand)``, the
     arrays (K, C_concrete) (C1 a float on a cantilever)."""
     limits, model, sampler = eff.limits, eff.model, eff.sampler
-    kind = np.asarray(props["kind"]).astype(str)
-    fractile = np.select([kind == k for k in _FRACTILE], list(_FRACTILE.values()), 1.0)
-    E, G = props["E"] * fractile, props["G"] * fractile
+    E, G = _fractile_moduli(props)
     curves = tuple(c[:, None] for c in _curves(props))
     f = np.asarray(props["strength_bending"], float)[:, None]
     Iy, Iz, J, Cw = props["Iy"], props["Iz"], props["J"], props["Cw"]
@@ -197,6 +209,10 @@ def _segment_results(eff, props):
     y_load = {"top": depth, "centroid": yc, "bottom": np.zeros_like(depth)}[limits.get("load_height", "top")]
     zj_up = (ys - yc) - props["wagner"] / (2.0 * Iz)  # mono-symmetry, measured upwards
     S = np.minimum(props["Sz_top"], props["Sz_bot"])
+    allow = None
+    if limits.get("lateral_torsional_method", "curve") == "ratio":  # per concrete combination
+        allow = np.asarray(allowable_stress(props, limits, eff, "bending"), float)
+        allow = allow[:, sampler.parents] if allow.shape[1] > 1 else allow
     k_over = limits.get("overhang_length_factor", 2.0)
     for a, b, cantilever in _segments(model, limits):  # a small set
         x = np.linspace(a, b, _SAMPLES)
@@ -210,7 +226,7 @@ def _segment_results(eff, props):
         Mcr = critical_moment(E[:, None], G[:, None], Iy[:, None], J[:, None], Cw[:, None], b - a, C1, C2, C3,
                               zg=(y_load - ys)[:, None], zj=up * zj_up[:, None],
                               k=k_over if cantilever else 1.0)
-        chi = _resistance_factor(Mcr, S[:, None], f, curves, limits)
+        chi = _resistance_factor(Mcr, S[:, None], f, curves, limits, allow)
         with np.errstate(divide="ignore", invalid="ignore"):
             d = np.abs(Mpk) / (chi * S[:, None])
         yield a, b, cantilever, Mpk, C1, Mcr, chi, np.where(np.isnan(d), np.inf, d)
@@ -264,12 +280,12 @@ def _formula(eff, props, c):
 
 
 def _allowable(props, limits, eff):
-    return limits.bending_allowable(props["strength_bending"])[:, None]
+    return allowable_stress(props, limits, eff, "bending")
 
 
 LATERAL_TORSIONAL = register(Check(
     name="lateral_torsional", label="buckling",
-    columns=("E", "G", "Iy", "Iz", "J", "Cw", "ys", "yc", "wagner", "depth", "width", "theta", "Sz_top",
+    columns=("E", "E_05", "G", "Iy", "Iz", "J", "Cw", "ys", "yc", "wagner", "depth", "width", "theta", "Sz_top",
              "Sz_bot", "strength_bending", "kind", "series", "family"),
     demand=_demand, allowable=_allowable, kind="pressure", demand_key="sigma_lt",
     sentence="Lateral-torsional buckling: the largest moment of each segment between lateral "

@@ -35,6 +35,7 @@ import dataclasses
 import numpy as np
 
 from ...errors import SelectionError
+from ..design import allowable_stress
 from .bending import BENDING
 from .registry import Check, TextRule, register
 from .section_class import METALS, classify, effective_moduli, epsilon
@@ -86,7 +87,7 @@ def _demand(eff, props):
 
 
 def _allowable(props, limits, eff):
-    return limits.bending_allowable(props["strength_bending"])[:, None]
+    return allowable_stress(props, limits, eff, "bending")  # the user's limits or [design]
 
 
 def _details(eff, props) -> dict:

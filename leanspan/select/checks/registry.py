@@ -34,11 +34,13 @@ __all__ = ["Check", "Effects", "CheckRow", "TextRule", "register", "unregister",
 NOT_CHECKED = {
     "lateral_torsional_buckling": "lateral-torsional buckling (the member is assumed restrained against it)",
     "local_buckling": "local buckling of flanges, webs or thin walls",
-    "bearing": "bearing at supports and under point loads, and web crippling",
+    "bearing": "bearing at the supports",
+    "local_bearing": "bearing under point loads, and web crippling",
     "connections": "connections, fixings and notches",
     "vibration": "vibration and footfall response",
     "fire": "fire resistance",
-    "durability": "durability: moisture, decay, corrosion, creep and long-term deflection",
+    "durability": "durability: moisture, decay and corrosion",
+    "creep": "creep and long-term deflection",
     "combined_actions": "combined actions: axial force, torsion and bending about the minor axis",
 }
 
@@ -111,6 +113,16 @@ class TextRule:
     text: str
 
     def describe(self, units: str = "si") -> str:
+        return self.text
+
+
+class TextRule:
+    """A limit's rule given as text (``"minimum"``, ``"span/250 (final)"``), for ``CheckRow.rule``."""
+
+    def __init__(self, text):
+        self.text = text
+
+    def describe(self, units="si"):
         return self.text
 
 

@@ -23,6 +23,7 @@ import dataclasses
 
 import numpy as np
 
+from ..design import allowable_stress
 from .registry import Check, TextRule, register
 from .section_class import web_shear
 
@@ -42,8 +43,8 @@ def _web(props):
 
 def _allowable(props, limits, eff):
     web = _web(props)
-    factor = 1.0 if web is None else web[4]
-    return (limits.shear_allowable(props["strength_shear"]) * factor)[:, None]
+    factor = 1.0 if web is None else np.asarray(web[4], float)[:, None]
+    return allowable_stress(props, limits, eff, "shear") * factor  # the user's limits or [design], x chi_w
 
 
 def _details(eff, props) -> dict:
