@@ -48,7 +48,7 @@ from .materials import get_material, materials_table
 from .series import RENAMED, SERIES
 from .user import TABULATED, read_user_catalog
 
-__all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "dims_of", "row_dims", "cache_dir",
+__all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "family_rows", "dims_of", "row_dims", "cache_dir",
            "cache_file", "cache_enabled", "builtin_frame"]
 
 DIM_KEYS = ("d", "b", "tw", "tf", "t", "r", "b_top", "tf_top", "b_bot", "tf_bot")
@@ -326,6 +326,23 @@ def catalog_table(series=None, families=None, materials=None, user_csv=None, max
         df = pd.concat(parts, ignore_index=True)
     df.attrs["warnings"] = warnings
     return df
+
+
+def family_rows(family: str, dims: dict, names, material: str, series: str = "built_up",
+                material_table=None):
+    """Rows with every catalogue column for N sections of one family in one material, built as
+    the catalogue builds its own (what a built-up search screens).
+
+    >>> import numpy as np
+    >>> df = family_rows("rectangle", {"b": np.array([0.1]), "d": np.array([0.3])}, ["r"], "C24")
+    >>> round(float(df.Iz[0] / (0.1 * 0.3**3 / 12)), 12), df.series[0], df.material[0]   # b d^3 / 12
+    (1.0, 'built_up', 'C24')
+    """
+    import pandas as pd
+
+    mats = materials_table(material_table)
+    df = pd.DataFrame(_block(series, family, dims, list(names), material))
+    return _with_materials(df, get_material(material, mats).name, mats)
 
 
 def _user_rows_default(sub, cat, mats):

@@ -221,7 +221,13 @@ def run_selection(job, table=None) -> Selection:
     table : pandas.DataFrame, optional
         Catalogue rows to screen instead of the job's own search (used by tests).
     """
-    df = candidate_table(job.search) if table is None else table
+    dropped = dropped_pass = 0  # built-up candidates screened but not kept for the table
+    if table is None and getattr(job, "built_up", ()):
+        from .built_up import built_up_table
+
+        df, dropped, dropped_pass = built_up_table(job, candidate_table(job.search) if job.catalogue else None)
+    else:
+        df = candidate_table(job.search) if table is None else table
     warnings = (list(df.attrs.get("warnings", [])) if hasattr(df, "attrs") else []) + list(job.model.notes)
     warnings += _mixed_bases(df, job)
     if len(df) == 0:
@@ -232,13 +238,15 @@ def run_selection(job, table=None) -> Selection:
     order = rank_order(df, res, job.search.objective)
     first = _rows(df, res, order, [0])[0]
     n_pass = int(res.passes.sum())
+    screened = len(df) + dropped
     if n_pass:
         chosen = first
-        msg = f"{n_pass} of {len(df)} candidates pass; lightest by {job.search.objective}: {chosen['name']}"
+        msg = (f"{n_pass + dropped_pass} of {screened} candidates pass; lightest by {job.search.objective}: "
+               f"{chosen['name']}")
     else:
         chosen = None
         best = first
         g = best["governing"]
-        msg = (f"no candidate passes ({len(df)} screened); closest is {best['name']} "
+        msg = (f"no candidate passes ({screened} screened); closest is {best['name']} "
                f"({best['material']}) with {g} at {utilisation_text(best['utilisation'][g])} × its limit")
-    return Selection(bool(n_pass), msg, chosen, order, len(df), df, res, job, warnings)
+    return Selection(bool(n_pass), msg, chosen, order, screened, df, res, job, warnings)

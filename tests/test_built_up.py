@@ -1,0 +1,247 @@
+"""The built-up search ([built_up] in a selection job) against a brute-force loop.
+
+The loop here walks the space with itertools, applies the proportion rules in plain Python,
+builds every candidate as a Section of separate plates or laminations through the section
+machinery (shapely polygons, Section.properties, Section.composite) and screens it with
+screen_loop, the per-candidate reference that solves the beam with beam.solve for each one.
+The search must find the same winner and the same utilisations (to 1e-9). The jobs are invented.
+"""
+
+from __future__ import annotations
+
+import itertools
+import json
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from leanspan.catalog.materials import material_lookup
+from leanspan.cli import main
+from leanspan.select.job import parse_job
+from leanspan.select.member import member_from_section
+from leanspan.select.screen import Candidates, screen_loop
+from leanspan.select.search import run_selection
+from leanspan.sections.io import section_from_spec
+
+BEAM = {  # an invented 7.2 m floor beam with two strength and one deflection combination
+    "beam": {"spans": ["7.2 m"]},
+    "load": [{"case": "dead", "type": "udl", "w": "6 kN/m"},
+             {"case": "imposed", "type": "udl", "w": "9 kN/m"},
+             {"case": "imposed", "type": "point", "P": "20 kN", "at": "2.5 m"}],
+    "combination": [{"name": "ULS", "factors": {"dead": 1.35, "imposed": 1.5}},
+                    {"name": "ULS dead", "factors": {"dead": 1.35}},
+                    {"name": "SLS", "factors": {"dead": 1.0, "imposed": 1.0}, "check": "deflection",
+                     "limit": "span/300"}],
+    "limits": {"stress_factor": 0.6},
+}
+
+# an invented 4.5 m timber floor beam
+TIMBER_BEAM = {**BEAM, "beam": {"spans": ["4.5 m"]},
+               "load": [{"case": "dead", "type": "udl", "w": "1.5 kN/m"},
+                        {"case": "imposed", "type": "udl", "w": "2.5 kN/m"}]}
+
+
+def mm(x):
+    return f"{x:g}"
+
+
+def brute_force(job, cases):
+    """cases: [(name, material, section spec in mm)] -> (utilisations (K, checks), passes, masses, depths)."""
+    lookup = material_lookup()
+    members = [member_from_section(section_from_spec({"units": "mm", "part": parts}), lookup, name)
+               for name, parts in cases]
+    props = {}
+    for key in ("Sz_top", "Sz_bot", "shear_factor"):
+        props[key] = np.array([m.properties[key] for m in members])
+    for key in ("strength_bending", "strength_shear"):
+        props[key] = np.array([getattr(lookup(m.material), key) for m in members])
+    cand = Candidates(np.array([m.EI for m in members]), np.array([m.mass_per_length for m in members]),
+                      props, job.limits)
+    res = screen_loop(job.model, cand, job.search.self_weight)
+    depth = np.array([m.properties["depth"] for m in members])
+    return res, np.array([m.mass_per_length for m in members]), depth
+
+
+def winner(names, res, mass, depth):
+    """Lightest passing, ties by depth then name (the documented rank order)."""
+    ok = [i for i in range(len(names)) if res.passes[i]]
+    return min(ok, key=lambda i: (mass[i], depth[i], names[i])) if ok else None
+
+
+def compare(sel, names, res, mass, depth):
+    got = {(r["name"], r["material"]): r for r in sel.ranked}
+    w = winner([n for n, _ in names], res, mass, depth)
+    assert sel.chosen is not None and w is not None
+    assert (sel.chosen["name"], sel.chosen["material"]) == names[w]
+    assert sel.chosen["mass_per_length"] == pytest.approx(mass[w], rel=1e-9)
+    assert sel.screened == len(names)
+    checked = 0
+    for i, key in enumerate(names):
+        if key not in got:  # the table keeps the passing rows and the nearest failures
+            assert not res.passes[i] or mass[i] > mass[w]
+            continue
+        for check, value in got[key]["utilisation"].items():
+            ref = res.utilisation[check][i]
+            assert value == pytest.approx(ref, rel=1e-9, abs=1e-12), (key, check)
+        assert got[key]["passes"] == bool(res.passes[i])
+        checked += 1
+    assert checked >= 10
+
+
+def girder_parts(hw, tw, bt, tft, bb, tfb, material):
+    """A welded girder as three separate touching plates (mm), bottom flange first."""
+    return [{"shape": "rectangle", "b": bb, "d": tfb, "material": material},
+            {"shape": "rectangle", "b": tw, "d": hw, "at": [0, tfb], "material": material},
+            {"shape": "rectangle", "b": bt, "d": tft, "at": [0, tfb + hw], "material": material}]
+
+
+def test_plate_girders_equal_the_brute_force_loop():
+    spec = {"material": ["S355", "S275"], "web_depth": {"from": "250 mm", "to": "450 mm", "step": "50 mm"},
+            "web_thickness": ["5 mm", "6 mm", "8 mm"], "flange_width": ["120 mm", "150 mm", "180 mm"],
+            "flange_thickness": ["8 mm", "10 mm", "12 mm"], "max_web_ratio": 70, "max_outstand_ratio": 9}
+    job = parse_job({**BEAM, "built_up": {"plate_girder": spec}}, Path("."))
+    sel = run_selection(job)
+    cases = []
+    for material, hw, tw, b, tf in itertools.product(["S355", "S275"], [250, 300, 350, 400, 450], [5, 6, 8],
+                                                     [120, 150, 180], [8, 10, 12]):
+        if hw / tw > 70 or (b - tw) / 2 / tf > 9:  # the job's proportion rules
+            continue
+        cases.append(((f"web {mm(hw)}x{mm(tw)} fl {mm(b)}x{mm(tf)}", material),
+                      girder_parts(hw, tw, b, tf, b, tf, material)))
+    res, mass, depth = brute_force(job, cases)
+    compare(sel, [c[0] for c in cases], res, mass, depth)
+
+
+def test_unequal_flanges_and_size_limits_equal_the_brute_force_loop():
+    spec = {"material": "S355", "web_depth": ["380 mm", "440 mm", "500 mm"], "web_thickness": ["6 mm", "7 mm"],
+            "flange_width": ["140 mm", "180 mm"], "flange_thickness": ["8 mm", "12 mm"],
+            "bottom_flange_width": ["140 mm", "180 mm"], "bottom_flange_thickness": ["10 mm", "14 mm"],
+            "max_depth_to_width": 3.5}
+    job = parse_job({**BEAM, "search": {"max_depth": "520 mm"}, "built_up": {"plate_girder": spec}}, Path("."))
+    sel = run_selection(job)
+    cases = []
+    for hw, tw, bt, tft, bb, tfb in itertools.product([380, 440, 500], [6, 7], [140, 180], [8, 12], [140, 180],
+                                                      [10, 14]):
+        d = hw + tft + tfb
+        if d / max(bt, bb) > 3.5 or d > 520 * (1 + 1e-4):
+            continue
+        name = f"web {mm(hw)}x{mm(tw)} fl {mm(bt)}x{mm(tft)}" + ("" if (bt, tft) == (bb, tfb) else f"/{mm(bb)}x{mm(tfb)}")
+        cases.append(((name, "S355"), girder_parts(hw, tw, bt, tft, bb, tfb, "S355")))
+    res, mass, depth = brute_force(job, cases)
+    compare(sel, [c[0] for c in cases], res, mass, depth)
+
+
+@pytest.mark.parametrize("layout", ["stacked", "side_by_side"])
+def test_laminations_equal_the_brute_force_loop(layout):
+    size_key = "width" if layout == "stacked" else "depth"
+    sizes = [90, 115, 140] if layout == "stacked" else [195, 220, 245, 270]
+    spec = {"material": ["GL24h", "C24"], "layout": layout, "count": {"from": 2, "to": 9},
+            "thickness": ["33 mm", "45 mm"], size_key: [f"{s} mm" for s in sizes], "max_depth_to_width": 6}
+    job = parse_job({**TIMBER_BEAM, "built_up": {"laminated": spec}}, Path("."))
+    sel = run_selection(job)
+    cases = []
+    for material, n, t, s in itertools.product(["GL24h", "C24"], range(2, 10), [33, 45], sizes):
+        b, d = (s, n * t) if layout == "stacked" else (n * t, s)
+        if d / b > 6:
+            continue
+        if layout == "stacked":  # n laminations on top of each other
+            parts = [{"shape": "rectangle", "b": s, "d": t, "at": [0, k * t], "material": material} for k in range(n)]
+            name = f"laminated {n}x{mm(t)}x{mm(s)}"
+        else:  # n plies side by side
+            parts = [{"shape": "rectangle", "b": t, "d": s, "at": [-b / 2 + (k + 0.5) * t, 0], "material": material}
+                     for k in range(n)]
+            name = f"plies {n}x{mm(t)}x{mm(s)}"
+        cases.append(((name, material), parts))
+    res, mass, depth = brute_force(job, cases)
+    compare(sel, [c[0] for c in cases], res, mass, depth)
+
+
+def test_built_up_beside_the_catalogue():
+    spec = {"material": "S355", "web_depth": ["450 mm", "500 mm"], "web_thickness": ["6 mm"],
+            "flange_width": ["180 mm"], "flange_thickness": ["12 mm"]}
+    alone = run_selection(parse_job({**BEAM, "built_up": {"plate_girder": spec}}, Path(".")))
+    both = run_selection(parse_job({**BEAM, "search": {"families": ["gen_steel_i"], "materials": ["S355"]},
+                                    "built_up": {"plate_girder": spec}}, Path(".")))
+    catalogue = run_selection(parse_job({**BEAM, "search": {"families": ["gen_steel_i"], "materials": ["S355"]}},
+                                        Path(".")))
+    assert alone.screened == 2 and set(alone.table["series"]) == {"built_up"}
+    assert both.screened == catalogue.screened + 2  # every catalogue row plus both girders
+    # the combined winner is the lighter of the two searches' winners
+    best = min((alone.chosen, catalogue.chosen), key=lambda c: c["mass_per_length"])
+    assert both.chosen["name"] == best["name"]
+
+
+def test_chunks_do_not_change_the_result(monkeypatch):
+    """Screening in chunks of 7 keeps the same winner and the same kept rows as one chunk."""
+    import leanspan.select.built_up as bu
+
+    spec = {"material": "S355", "web_depth": {"from": "200 mm", "to": "500 mm", "step": "20 mm"},
+            "web_thickness": ["6 mm", "8 mm"], "flange_width": ["120 mm", "160 mm"],
+            "flange_thickness": ["8 mm", "12 mm"]}
+    job = parse_job({**BEAM, "built_up": {"plate_girder": spec}}, Path("."))
+    whole = run_selection(job)
+    monkeypatch.setattr(bu, "CHUNK", 7)
+    monkeypatch.setattr(bu, "KEEP", 5)
+    calls = []
+    original = bu.space_rows
+    monkeypatch.setattr(bu, "space_rows", lambda *a, **k: calls.append(len(a[1])) or original(*a, **k))
+    pieces = run_selection(job)
+    assert max(calls) <= 7 or calls[-1] > 7  # screened 7 at a time (the last call builds the kept rows)
+    assert len(calls) > whole.screened / 7
+    assert pieces.chosen == whole.chosen
+    assert pieces.screened == whole.screened
+    assert [r["name"] for r in pieces.shown(5)] == [r["name"] for r in whole.shown(5)]
+
+
+BAD = {
+    "unknown kind": ({"box_girder": {}}, "built_up.box_girder: unknown built-up kind"),
+    "unknown key": ({"plate_girder": {"web_depth": ["300 mm"], "web_thickness": ["6 mm"], "flange_width": ["150 mm"],
+                                      "flange_thickness": ["10 mm"], "fillet": "5 mm"}}, "plate_girder.fillet: unknown key"),
+    "missing axis": ({"plate_girder": {"web_depth": ["300 mm"]}}, "plate_girder.web_thickness: missing"),
+    "timber girder": ({"plate_girder": {"material": "C24", "web_depth": ["300 mm"], "web_thickness": ["6 mm"],
+                                        "flange_width": ["150 mm"], "flange_thickness": ["10 mm"]}},
+                      "plate_girder.material: C24 is timber"),
+    "bad range": ({"laminated": {"count": {"from": 2, "to": 1}, "thickness": ["45 mm"], "width": ["90 mm"]}},
+                  "laminated.count: to (1) is below from (2)"),
+    "no step": ({"laminated": {"count": [2], "thickness": {"from": "30 mm", "to": "40 mm"}, "width": ["90 mm"]}},
+                "laminated.thickness.step: missing"),
+    "half a count": ({"laminated": {"count": [2.5], "thickness": ["45 mm"], "width": ["90 mm"]}},
+                     "laminated.count[1]: expected a whole number"),
+    "too many": ({"plate_girder": {"web_depth": {"from": "100 mm", "to": "2000 mm", "step": "0.1 mm"},
+                                   "web_thickness": {"from": "1 mm", "to": "100 mm", "step": "0.1 mm"},
+                                   "flange_width": {"from": "150 mm", "to": "400 mm", "step": "1 mm"},
+                                   "flange_thickness": ["10 mm"]}}, "combinations; at most"),
+    "nothing left": ({"plate_girder": {"web_depth": ["300 mm"], "web_thickness": ["6 mm"], "flange_width": ["150 mm"],
+                                       "flange_thickness": ["10 mm"], "max_web_ratio": 10}}, "no candidate meets"),
+}
+
+
+@pytest.mark.parametrize("name", sorted(BAD))
+def test_bad_built_up_tables_are_refused_naming_the_field(name):
+    from leanspan.errors import LeanspanError
+
+    table, words = BAD[name]
+    with pytest.raises(LeanspanError, match=None) as err:
+        run_selection(parse_job({**BEAM, "built_up": table}, Path(".")))
+    assert words in str(err.value) and "\n" not in str(err.value)
+
+
+def test_cli_exit_2_with_one_line(tmp_path, capsys):
+    job = tmp_path / "job.toml"
+    job.write_text('''[beam]
+spans = ["4 m"]
+[[load]]
+case = "dead"
+type = "udl"
+w = "2 kN/m"
+[limits]
+stress_factor = 0.6
+[built_up.laminated]
+count = [2, 3]
+thickness = ["45 mm"]
+depth = ["200 mm"]
+''')
+    assert main(["select", str(job)]) == 2
+    err = capsys.readouterr().err.strip().splitlines()
+    assert len(err) == 1 and "built_up.laminated.depth: not used with layout" in err[0]
