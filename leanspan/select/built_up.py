@@ -46,7 +46,7 @@ from ..units import check_number, parse
 
 __all__ = ["Space", "parse_built_up", "built_up_table", "KINDS", "CHUNK", "KEEP", "MAX_CANDIDATES"]
 
-CHUNK = 65536  # candidates screened at a time
+CHUNK = 2**18  # candidates screened at a time (large: more repeated weights per chunk)
 KEEP = 1000  # passing built-up candidates kept for the ranked table
 MAX_CANDIDATES = 50_000_000  # combinations one space may hold
 SERIES = "built_up"
@@ -363,13 +363,75 @@ class _Summary:
                 cat(self.second, float), cat(self.worst, float))
 
 
+#: Weights per length within this relative difference share their beam extremes in the first pass.
+SAME_WEIGHT = 1e-12
+#: Candidates whose first-pass utilisation lies this close to 1 are screened again exactly.
+CLOSE_CALL = 1e-9
+
+
 def _screen_rows(df, job):
+    """Pass/fail and the largest utilisation of every row: :func:`screen_by_weight`, then the
+    exact screen again for the close calls (so every pass/fail is the exact screen's)."""
     from .screen import screen
     from .search import candidates_from_table
 
-    res = screen(job.model, candidates_from_table(df, job.limits), job.search.self_weight)
+    cand = candidates_from_table(df, job.limits)
+    passes, worst = _verdict(screen_by_weight(job.model, cand, job.search.self_weight))
+    close = np.flatnonzero(np.abs(worst - 1.0) <= CLOSE_CALL)
+    if close.size:
+        passes[close], worst[close] = _verdict(screen(job.model, cand.take(close), job.search.self_weight))
+    return passes, worst
+
+
+def _verdict(res):
     worst = np.fmax.reduce(np.stack(list(res.utilisation.values()), axis=1), axis=1)
-    return res.passes, worst
+    return np.array(res.passes), worst
+
+
+def screen_by_weight(model, cand, self_weight_case=None):
+    """:func:`leanspan.select.screen.screen` with the beam's extremes found once per weight.
+
+    On rigid supports the forces do not depend on EI and the deflections scale with 1 / EI
+    (DEVELOPERS.md, "Selection screening"), so candidates of the same mass per length share their
+    moments, shears and EI-scaled deflections. Stock plates repeat areas a lot (a million girders
+    of whole-millimetre plates have some 16,000 distinct areas), so the extremes are found once
+    for every group of weights equal within :data:`SAME_WEIGHT` (at the group's first weight,
+    EI = 1) and spread to its candidates, deflections divided by each one's EI; then the
+    registered checks run on all of them as usual. Utilisations differ from the plain screen's by
+    about 1e-12 at most. With springs (forces depending on EI) or few repeats this is the plain
+    screen.
+    """
+    import dataclasses
+
+    from ..beam import G
+    from .screen import FieldSampler, evaluate, screen, screen_effects
+
+    mass = np.asarray(cand.mass_per_length, float)
+    order = np.argsort(mass, kind="stable")
+    sorted_mass = mass[order]
+    start = np.ones(mass.size, bool)
+    start[1:] = sorted_mass[1:] > sorted_mass[:-1] * (1.0 + SAME_WEIGHT)
+    # a run of weights each within SAME_WEIGHT of the one before starts a new group at most every
+    # SAME_WEIGHT of the group's first weight: close enough for the first pass
+    group_first = np.maximum.accumulate(np.where(start, np.arange(mass.size), 0))
+    start |= sorted_mass > sorted_mass[group_first] * (1.0 + SAME_WEIGHT)
+    group = np.cumsum(start) - 1
+    if group[-1] + 1 > 0.5 * mass.size:
+        return screen(model, cand, self_weight_case)
+    weights = sorted_mass[start]
+    inverse = np.empty(mass.size, np.int64)
+    inverse[order] = group
+    unit = type(cand)(np.ones(weights.size), weights, {}, cand.limits)
+    eff = screen_effects(model, unit, self_weight_case)
+    resp = eff.sampler.resp
+    if resp.M.shape[0] != 1:  # springs: every candidate's forces depend on its EI
+        return screen(model, cand, self_weight_case)
+    EI = np.asarray(cand.EI, float)
+    spread = {k: getattr(eff, k)[inverse] for k in ("M_max", "M_min", "V_abs", "v_allowed")}
+    effects = dataclasses.replace(
+        eff, **spread, v_abs=eff.v_abs[inverse] / EI[:, None],
+        sampler=FieldSampler(resp, eff.sampler.parents, mass * G, 1.0 / EI), EI=EI, mass_per_length=mass)
+    return evaluate(effects, cand)
 
 
 def _objective(df, objective):
