@@ -245,3 +245,72 @@ depth = ["200 mm"]
     assert main(["select", str(job)]) == 2
     err = capsys.readouterr().err.strip().splitlines()
     assert len(err) == 1 and "built_up.laminated.depth: not used with layout" in err[0]
+
+
+def test_flitch_beams_equal_the_composite_section_loop():
+    """Flitch candidates against Section.composite: bending stress per material from
+    Composite.stresses, shear per piece as V E Q / (EIz b) with Q of the piece above the
+    modulus-weighted neutral axis (shapely clipping), deflections from beam.solve per candidate."""
+    from shapely.geometry import box
+
+    spec = {"timber": "C24", "plate": "S275", "timbers": [2, 3], "timber_width": ["45 mm", "63 mm"],
+            "timber_depth": ["195 mm", "220 mm", "245 mm"], "plate_thickness": ["8 mm", "12 mm"],
+            "plate_depth": {"from": "160 mm", "to": "240 mm", "step": "20 mm"}}
+    job = parse_job({**TIMBER_BEAM, "beam": {"spans": ["5.4 m"]}, "built_up": {"flitch": spec}}, Path("."))
+    sel = run_selection(job)
+    lookup = material_lookup()
+    names, sections = [], []
+    for n, bt, dt, tp, dp in itertools.product([2, 3], [45, 63], [195, 220, 245], [8, 12], [160, 180, 200, 220, 240]):
+        if dp > dt:
+            continue
+        width = n * bt + (n - 1) * tp
+        parts = []
+        for k in range(n):
+            z = -width / 2 + bt / 2 + k * (bt + tp)
+            parts.append({"shape": "rectangle", "b": bt, "d": dt, "at": [z, 0], "material": "C24"})
+            if k < n - 1:
+                parts.append({"shape": "rectangle", "b": tp, "d": dp, "at": [z + bt / 2 + tp / 2, (dt - dp) / 2],
+                              "material": "S275"})
+        names.append((f"flitch {n}x{mm(bt)}x{mm(dt)} + {n - 1}x{mm(tp)}x{mm(dp)}", "C24 + S275"))
+        sections.append(section_from_spec({"units": "mm", "part": parts}))
+    comps = [s.composite(lookup) for s in sections]
+    K = len(comps)
+    ones = {k: np.ones(K) for k in ("Sz_top", "Sz_bot", "shear_factor", "strength_bending", "strength_shear")}
+    cand = Candidates(np.array([c.EIz for c in comps]), np.array([c.mass_per_length for c in comps]), ones,
+                      job.limits)
+    eff = screen_loop(job.model, cand, job.search.self_weight).effects
+    strength = [i for i, c in enumerate(job.model.combinations) if c.check == "strength"]
+    bending, shear = np.zeros(K), np.zeros(K)
+    for k, (sec, comp) in enumerate(zip(sections, comps)):
+        for c in strength:
+            for M in (eff.M_max[k, c], eff.M_min[k, c]):
+                for name, (top, bot) in comp.stresses(M).items():
+                    bending[k] = max(bending[k], max(abs(top), abs(bot)) / (0.6 * lookup(name).strength_bending))
+            for part in sec.parts:  # shear flow of each piece at the neutral axis
+                zmin, ymin, zmax, ymax = part.polygon.bounds
+                above = part.polygon.intersection(box(zmin, comp.y_neutral, zmax, ymax + 1))
+                Q = above.area * (above.centroid.y - comp.y_neutral)
+                m = lookup(part.material)
+                tau = eff.V_abs[k, c] * m.E * Q / (comp.EIz * (zmax - zmin))
+                shear[k] = max(shear[k], tau / (0.6 * m.strength_shear))
+    with np.errstate(invalid="ignore"):
+        deflection = np.nanmax(eff.v_abs / eff.v_allowed, axis=1)
+    passes = (bending <= 1) & (shear <= 1) & (deflection <= 1)
+    mass = np.array([c.mass_per_length for c in comps])
+    depth = np.array([s.properties()["depth"] for s in sections])
+    w = min(np.flatnonzero(passes), key=lambda i: (mass[i], depth[i], names[i][0]))
+    assert (sel.chosen["name"], sel.chosen["material"]) == names[w]
+    assert sel.screened == K
+    got = {(r["name"], r["material"]): r for r in sel.ranked}
+    checked = 0
+    for k, key in enumerate(names):
+        if key in got:
+            u = got[key]["utilisation"]
+            assert u["bending"] == pytest.approx(bending[k], rel=1e-9), key
+            assert u["shear"] == pytest.approx(shear[k], rel=1e-9), key
+            assert u["deflection"] == pytest.approx(deflection[k], rel=1e-9), key
+            assert got[key]["mass_per_length"] == pytest.approx(mass[k], rel=1e-12)
+            checked += 1
+    assert checked >= 5
+    # the chosen member's section is built from its parts (drawing, sheet)
+    assert sel.chosen_member.member.EI == pytest.approx(comps[w].EIz, rel=1e-12)

@@ -52,6 +52,8 @@ __all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "family_rows", "dims
            "cache_file", "cache_enabled", "builtin_frame"]
 
 DIM_KEYS = ("d", "b", "tw", "tf", "t", "r", "b_top", "tf_top", "b_bot", "tf_bot")
+# the sizes of built-up rows that are no shape family (flitch beams: leanspan.select.built_up_flitch)
+BUILT_UP_DIM_KEYS = ("timbers", "timber_width", "timber_depth", "plate_thickness", "plate_depth")
 MATERIAL_COLUMNS = ("kind", "E", "G", "density", "strength_bending", "strength_shear",
                     "mass_per_length")
 _TEXT_COLUMNS = ("name", "family", "series", "material")
@@ -393,6 +395,8 @@ def row_dims(row) -> dict[str, float]:
     >>> row_dims(df[df.name == "I 300x150x7.1x10.7"].iloc[0])
     {'d': 0.3, 'b': 0.15, 'tw': 0.0071, 'tf': 0.0107, 'r': 0.015}
     """
+    if row["family"] not in FAMILIES:  # a built-up flitch row: its own sizes
+        return {k: float(row[k]) for k in BUILT_UP_DIM_KEYS if k in row and not np.isnan(float(row[k]))}
     fam = FAMILIES[row["family"]]
     out = {k: float(row[k]) for k in fam.keys}
     for k, default in fam.optional.items():

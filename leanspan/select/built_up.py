@@ -324,7 +324,7 @@ def space_rows(space: Space, flat, job, named: bool = True):
 
         names = space.names_of(dims) if named else [""] * flat.size
         return flitch_rows(dims, names, space.materials["timber"], space.materials["plate"],
-                           job.search.materials_file)
+                           job.search.materials_file, job.limits)
     family = "ibeam" if space.kind == "plate_girder" else "rectangle"
     keys = FAMILIES[family].all_keys
     for m, material in enumerate(space.materials["material"]):  # a small set

@@ -147,7 +147,8 @@ def _mixed_bases(df, job) -> list:
         return []
     table = materials_table(job.search.materials_file)
     by_basis = {}
-    for name in dict.fromkeys(df["material"]):  # the distinct materials, in table order
+    # the distinct materials, in table order (a flitch row names two: "C24 + S275")
+    for name in dict.fromkeys(n for m in dict.fromkeys(df["material"]) for n in str(m).split(" + ")):
         m = table.get(name)
         if m is not None and m.basis:
             by_basis.setdefault(m.basis, name)
