@@ -314,3 +314,19 @@ def test_flitch_beams_equal_the_composite_section_loop():
     assert checked >= 5
     # the chosen member's section is built from its parts (drawing, sheet)
     assert sel.chosen_member.member.EI == pytest.approx(comps[w].EIz, rel=1e-12)
+
+
+def test_built_up_keys_are_documented():
+    from leanspan.select.built_up import _MATERIAL_KEYS, KINDS
+    from tests.test_docs_formats import _missing
+
+    for kind, (axes, _required, rules) in KINDS.items():
+        assert not _missing({kind, *axes, *rules, *_MATERIAL_KEYS[kind]}), kind
+
+
+def test_example_job_runs(capsys):
+    job = Path(__file__).resolve().parents[1] / "data" / "examples" / "select-built-up.toml"
+    assert job.read_text().startswith("# INVENTED")
+    assert main(["select", str(job), "--json"]) == 0
+    out = json.loads(capsys.readouterr().out)
+    assert out["chosen"]["series"] == "built_up" and out["screened"] > 1000
