@@ -153,9 +153,9 @@ def _to_wcs(entity, ring):
     return ring if ex[2] > 0 else ring * np.array([-1.0, 1.0])
 
 
-def _units(doc, path, units):
+def _units(doc, path, units, field="--drawing-units"):
     if units is not None:
-        return unit_factor(units, "length", "--drawing-units")
+        return unit_factor(units, "length", field)
     code = int(doc.header.get("$INSUNITS", 0) or 0)
     if code not in INSUNITS:
         raise InputError(f"{path}: the drawing's units are not set ($INSUNITS = {code}); give the "
@@ -230,7 +230,7 @@ def _nest(shapes, path):
     return out
 
 
-def read_drawing(path, layer_materials=None, units=None, lookup=None) -> Drawing:
+def read_drawing(path, layer_materials=None, units=None, lookup=None, units_field="--drawing-units") -> Drawing:
     """Read the section drawn in the DXF file at ``path``.
 
     Parameters
@@ -267,7 +267,7 @@ def read_drawing(path, layer_materials=None, units=None, lookup=None) -> Drawing
     except Exception as exc:  # a damaged file can fail anywhere in the reader
         raise InputError(f"{path}: not a readable DXF drawing ({type(exc).__name__})") from None
     protect_inputs(path)  # an output may not overwrite the drawing
-    unit = _units(doc, path, units)
+    unit = _units(doc, path, units, units_field)
     msp = doc.modelspace()
     entities = list(msp)
     ignored: dict[str, int] = {}
@@ -304,7 +304,8 @@ def read_drawing(path, layer_materials=None, units=None, lookup=None) -> Drawing
         ring = ring * unit
         label = _name(e)
         if not np.all(np.isfinite(ring)) or np.abs(ring).max() > RANGES["section position"][1]:
-            raise GeometryError(f"{path}: {label}: coordinates beyond {RANGES['section position'][1]:g} m "
+            raise GeometryError(f"{path}: {label}: coordinates not finite or beyond "
+                                f"{RANGES['section position'][1]:g} m; expected a section drawn to scale "
                                 "(check the drawing units)")
         poly = check_polygon(Polygon(ring), f"{path}: {label}")
         by_layer.setdefault(e.dxf.layer, []).append((label, poly))
@@ -420,4 +421,5 @@ def load_drawing(path, layer_materials=None, units=None, lookup=None) -> Drawing
     """:func:`read_drawing` with the layers file beside the drawing; ``layer_materials`` and
     ``units`` (the command's options) override its entries."""
     side, side_units = read_layers_file(path)
-    return read_drawing(path, {**side, **(layer_materials or {})}, units or side_units, lookup)
+    field = "--drawing-units" if units else f"{layers_file(path)}: drawing_units"
+    return read_drawing(path, {**side, **(layer_materials or {})}, units or side_units, lookup, field)

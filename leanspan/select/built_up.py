@@ -49,6 +49,7 @@ __all__ = ["Space", "parse_built_up", "built_up_table", "KINDS", "CHUNK", "KEEP"
 CHUNK = 2**18  # candidates screened at a time (large: more repeated weights per chunk)
 KEEP = 1000  # passing built-up candidates kept for the ranked table
 MAX_CANDIDATES = 50_000_000  # combinations one space may hold
+MAX_TIMBERS = 10  # timbers of one flitch beam
 SERIES = "built_up"
 _METAL = ("steel", "stainless", "aluminium")
 _TIMBER = ("timber", "glulam")
@@ -299,8 +300,8 @@ def parse_built_up(data, units, where: str = "", materials_file=None) -> tuple:
                 if not v > 0:
                     raise SelectionError(f"{f}.{key}: expected a positive number, got {brief(spec[key])}")
                 rules[key] = float(v)
-        if kind == "flitch" and np.any(axes["timbers"] < 2):
-            raise SelectionError(f"{f}.timbers: expected at least 2 timbers (a plate between each pair)")
+        if kind == "flitch" and (np.any(axes["timbers"] < 2) or np.any(axes["timbers"] > MAX_TIMBERS)):
+            raise SelectionError(f"{f}.timbers: expected 2 to {MAX_TIMBERS} timbers (a plate between each pair)")
         space = Space(kind, axes, mats, rules, f)
         if space.size > MAX_CANDIDATES:
             raise SelectionError(f"{f}: {space.size:,} combinations; at most {MAX_CANDIDATES:,} are "
