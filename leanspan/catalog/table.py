@@ -61,8 +61,9 @@ _TEXT_COLUMNS = ("name", "family", "series", "material")
 _COLUMNS = _TEXT_COLUMNS + DIM_KEYS + tuple(KEYS) + STABILITY_KEYS
 
 
-def _block(series: str, family: str, dims: dict, names: list, materials) -> dict:
-    """Columns (numpy arrays) for N rows of one family: text, dims, section properties."""
+def _block(series: str, family: str, dims: dict, names: list, materials, stability: bool = True) -> dict:
+    """Columns (numpy arrays) for N rows of one family: text, dims, section properties (the
+    buckling columns NaN unless ``stability``)."""
     fam = FAMILIES[family]
     dims = fam.complete(dims)
     props = family_properties(family, dims)
@@ -75,6 +76,8 @@ def _block(series: str, family: str, dims: dict, names: list, materials) -> dict
     for k in KEYS:
         cols[k] = np.asarray(props[k], float)
     try:
+        if not stability:
+            raise LeanspanError("not asked for")
         stab = family_stability(family, dims, cols["yc"], cols["zc"])
     except LeanspanError:  # a closed form that does not fit these walls: buckling checks refuse the row
         stab = {k: np.full(n, np.nan) for k in STABILITY_KEYS}
@@ -331,9 +334,10 @@ def catalog_table(series=None, families=None, materials=None, user_csv=None, max
 
 
 def family_rows(family: str, dims: dict, names, material: str, series: str = "built_up",
-                material_table=None):
+                material_table=None, stability: bool = True):
     """Rows with every catalogue column for N sections of one family in one material, built as
-    the catalogue builds its own (what a built-up search screens).
+    the catalogue builds its own (what a built-up search screens); ``stability=False`` leaves the
+    buckling columns (:data:`~leanspan.sections.properties.STABILITY_KEYS`) NaN.
 
     >>> import numpy as np
     >>> df = family_rows("rectangle", {"b": np.array([0.1]), "d": np.array([0.3])}, ["r"], "C24")
@@ -343,7 +347,7 @@ def family_rows(family: str, dims: dict, names, material: str, series: str = "bu
     import pandas as pd
 
     mats = materials_table(material_table)
-    df = pd.DataFrame(_block(series, family, dims, list(names), material))
+    df = pd.DataFrame(_block(series, family, dims, list(names), material, stability))
     return _with_materials(df, get_material(material, mats).name, mats)
 
 

@@ -313,7 +313,8 @@ def parse_built_up(data, units, where: str = "", materials_file=None) -> tuple:
 # -- rows ---------------------------------------------------------------------------------------
 def space_rows(space: Space, flat, job, named: bool = True):
     """Catalogue-like rows (a DataFrame, every column the checks read) of the candidates at flat
-    indices ``flat`` of ``space``; placeholder names unless ``named``."""
+    indices ``flat`` of ``space``; unless ``named`` (the first pass), placeholder names and no
+    buckling columns when no check of the job reads them."""
     import pandas as pd
 
     flat = np.asarray(flat, np.int64)
@@ -340,11 +341,20 @@ def space_rows(space: Space, flat, job, named: bool = True):
             names = space.names_of(label)
         else:
             names = [""] * sel.size
-        df = family_rows(family, sub, names, material, SERIES, job.search.materials_file)
+        df = family_rows(family, sub, names, material, SERIES, job.search.materials_file,
+                         stability=named or _reads_stability(job))
         df["_order"] = sel
         frames.append(df)
     df = pd.concat(frames, ignore_index=True) if len(frames) > 1 else frames[0]
     return df.sort_values("_order", kind="stable").drop(columns="_order").reset_index(drop=True)
+
+
+def _reads_stability(job) -> bool:
+    """Whether a check of this job reads the buckling columns (else the first pass skips them)."""
+    from ..sections.properties import STABILITY_KEYS
+    from .checks import active_checks
+
+    return any(set(c.columns) & set(STABILITY_KEYS) for c in active_checks(job.limits))
 
 
 # -- screening ----------------------------------------------------------------------------------
