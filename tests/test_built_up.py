@@ -330,3 +330,36 @@ def test_example_job_runs(capsys):
     assert main(["select", str(job), "--json"]) == 0
     out = json.loads(capsys.readouterr().out)
     assert out["chosen"]["series"] == "built_up" and out["screened"] > 1000
+
+
+def test_first_pass_by_weight_equals_the_screen_with_every_check(monkeypatch):
+    """screen_by_weight (extremes once per weight, spread and scaled by 1/EI) against the plain
+    screen, with buckling and vibration on: the same verdicts, utilisations to 1e-12."""
+    from leanspan.select import built_up as bu
+    from leanspan.select.screen import screen
+    from leanspan.select.search import candidates_from_table
+
+    import leanspan.select.screen as screen_module
+
+    spec = {"material": ["S355"], "web_depth": {"from": "200 mm", "to": "500 mm", "step": "5 mm"},
+            "web_thickness": ["6 mm", "8 mm", "10 mm"], "flange_width": {"from": "120 mm", "to": "240 mm",
+                                                                         "step": "10 mm"},
+            "flange_thickness": ["8 mm", "10 mm", "12 mm", "15 mm"]}
+    limits = {"stress_factor": 0.6, "lateral_restraint": "supports", "min_frequency": "6 Hz"}
+    job = parse_job({**BEAM, "limits": limits, "built_up": {"plate_girder": spec}}, Path("."))
+    space = job.built_up[0]
+    flat = np.arange(space.size)
+    df = bu.space_rows(space, flat[space.keep(space.dims(flat), job.search)], job)
+    cand = candidates_from_table(df, job.limits)
+    sizes = []
+    original = screen_module.screen_effects
+    monkeypatch.setattr(screen_module, "screen_effects", lambda m, c, sw=None: sizes.append(c.size) or original(m, c, sw))
+    by_weight = bu.screen_by_weight(job.model, cand, "dead")
+    monkeypatch.setattr(screen_module, "screen_effects", original)
+    plain = screen(job.model, cand, "dead")
+    assert set(plain.utilisation) == {"bending", "shear", "deflection", "lateral_torsional", "vibration"}
+    # plate girders of whole-millimetre plates repeat their areas: the shortcut is taken
+    assert sizes and sizes[0] < 0.5 * len(df)
+    for k, u in plain.utilisation.items():
+        np.testing.assert_allclose(by_weight.utilisation[k], u, rtol=1e-12, err_msg=k)
+    assert (plain.passes == by_weight.passes).all()
