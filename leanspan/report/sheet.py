@@ -207,7 +207,11 @@ def _beam_tables(model, units: str, show_ei: bool) -> str:
 
 def _search_table(sel, units: str) -> str:
     s, lim = sel.job.search, sel.job.limits
-    n_pass = int(sel.result.passes.sum())
+    n_pass = sel.passing if getattr(sel, "passing", None) is not None else int(sel.result.passes.sum())
+    families = ", ".join(s.families) if s.families else "all built-in"
+    if getattr(sel.job, "built_up", ()):  # [built_up] spaces, instead of or beside the catalogue
+        built = "built up: " + ", ".join(space.kind.replace("_", " ") for space in sel.job.built_up)
+        families = f"{families}; {built}" if sel.job.catalogue else built
 
     def size(lo, hi):
         if lo is None and hi is None:
@@ -218,7 +222,7 @@ def _search_table(sel, units: str) -> str:
             return f"at least {_qu(lo, 'length', units)}"
         return f"{_q(lo, 'length', units)} to {_qu(hi, 'length', units)}"
 
-    rows = [["families / series", ", ".join(s.families) if s.families else "all built-in"],
+    rows = [["families / series", families],
             ["materials", ", ".join(s.materials) if s.materials else "each family's own"],
             ["user catalogue", Path(s.catalog).name if s.catalog else "-"],
             ["depth", size(s.min_depth, s.max_depth)],

@@ -41,11 +41,14 @@ class Selection:
         Row indices of ``table``: passing candidates in objective order, then failing
         ones by their largest utilisation (rank = position + 1).
     screened : int
+        Candidates screened (built-up ones that the table does not keep included).
     table : pandas.DataFrame
         The catalogue rows screened (same order as the ``result`` arrays).
     result : Screen
     job : Job
     warnings : list of str
+    passing : int
+        Candidates that pass (built-up ones that the table does not keep included).
     """
 
     success: bool
@@ -57,6 +60,7 @@ class Selection:
     result: Screen
     job: object
     warnings: list = field(default_factory=list)
+    passing: int | None = None  # candidates that pass, also those a built-up search did not keep
 
     def rows(self, positions) -> list:
         """CANDIDATE dicts for the given rank positions (0-based)."""
@@ -250,4 +254,4 @@ def run_selection(job, table=None) -> Selection:
         g = best["governing"]
         msg = (f"no candidate passes ({screened} screened); closest is {best['name']} "
                f"({best['material']}) with {g} at {utilisation_text(best['utilisation'][g])} × its limit")
-    return Selection(bool(n_pass), msg, chosen, order, screened, df, res, job, warnings)
+    return Selection(bool(n_pass), msg, chosen, order, screened, df, res, job, warnings, n_pass + dropped_pass)
