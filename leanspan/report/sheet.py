@@ -31,6 +31,7 @@ from ..units import display_factor, fmt
 from ..units import utilisation_text as _util
 from . import labels as prop_labels
 from .markup import Cell, esc, inline_svg, num, page, section, table, util_bar
+from .tables import ranks_note
 
 __all__ = ["write_selection_sheet", "write_beam_sheet", "write_section_sheet",
            "selection_sheet_html", "beam_sheet_html", "section_sheet_html"]
@@ -352,8 +353,8 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
     rtable = table(labels, cells, cls="ranked", row_classes=rcls)
     rnote = ("<p class=\"small\">Passing candidates in order of the objective (least "
              f"{esc(job.search.objective)}), then the nearest failures: the heaviest lighter "
-             "sections that fail, marked NO, closest to passing first (ranks count every candidate "
-             "screened). Utilisations are demand / limit, rounded up to 3 decimals.</p>")
+             f"sections that fail, marked NO, closest to passing first ({esc(ranks_note(sel))}). "
+             "Utilisations are demand / limit, rounded up to 3 decimals.</p>")
     parts.append(section("Ranked candidates", rtable + rnote, anchor="candidates"))
 
     assumptions = [
