@@ -268,3 +268,26 @@ def test_drawing_text_is_one_polyline_per_ring():
     kinds = [e.dxftype() for e in doc.modelspace()]
     assert kinds == ["LWPOLYLINE"] * 3  # the I, the box and its hole
     assert np.isclose(sum(1 for e in doc.modelspace() if e.dxf.layer == "C24"), 2)
+
+
+def test_old_polyline_and_mirrored_entities(tmp_path):
+    """A 2D POLYLINE reads like the LWPOLYLINE of the same vertices and bulges, and an entity
+    drawn with extrusion (0, 0, -1) (mirrored: world x = -object x, DXF reference) is mirrored."""
+    pts = [(0, 0, 0), (100, 0, 0), (100, 60, 1), (0, 60, 0)]  # a half circle on top, diameter 100
+    doc, msp = new_doc()
+    msp.add_lwpolyline(pts, format="xyb", close=True)
+    lw = read_drawing(save(doc, tmp_path, "lw.dxf")).section.properties()
+    doc, msp = new_doc()
+    poly = msp.add_polyline2d([(x, y) for x, y, _ in pts], close=True)
+    for v, (_, _, b) in zip(poly.vertices, pts):
+        v.dxf.bulge = b
+    old = read_drawing(save(doc, tmp_path, "old.dxf")).section.properties()
+    for k in ("A", "Iz", "Iy", "yc", "zc"):
+        assert old[k] == pytest.approx(lw[k], rel=1e-12, abs=1e-15), k
+    # bulge 1 from (100, 60) to (0, 60) turns counter-clockwise: a half disc above y = 60 mm
+    assert lw["A"] == pytest.approx(0.1 * 0.06 + math.pi * 0.05**2 / 2, rel=1e-12)
+    doc, msp = new_doc()
+    msp.add_lwpolyline(pts, format="xyb", close=True, dxfattribs={"extrusion": (0, 0, -1)})
+    mirrored = read_drawing(save(doc, tmp_path, "mirror.dxf")).section.properties()
+    assert mirrored["zc"] == pytest.approx(-lw["zc"], rel=1e-12)
+    assert mirrored["Iz"] == pytest.approx(lw["Iz"], rel=1e-12)
