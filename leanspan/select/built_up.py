@@ -48,7 +48,7 @@ __all__ = ["Space", "parse_built_up", "built_up_table", "KINDS", "CHUNK", "KEEP"
 
 CHUNK = 2**18  # candidates screened at a time (large: more repeated weights per chunk)
 KEEP = 1000  # passing built-up candidates kept for the ranked table
-MAX_CANDIDATES = 50_000_000  # combinations one space may hold
+MAX_CANDIDATES = 10_000_000  # combinations one space may hold (the first pass keeps 33 bytes each)
 MAX_TIMBERS = 10  # timbers of one flitch beam
 SERIES = "built_up"
 _METAL = ("steel", "stainless", "aluminium")
