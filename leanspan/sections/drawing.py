@@ -11,8 +11,8 @@ section's z, drawing y its y.
 
 Arcs become polygon vertices the way the shape families build them (``families._arc``:
 inner vertices on a radius that keeps the area exact), 64 segments per quarter circle as
-the ``circle`` family (so a drawn round bar is as close as the family's: I within about
-1e-6); circles as the ``circle`` family (256 segments, exact area and diameter); splines
+the ``circle`` family (a round bar drawn as two half-circle arcs has I within about
+2e-6); circles as the ``circle`` family (256 segments, exact area and diameter); splines
 are followed to 1e-6 of the drawing's size (A and I within about 1e-5).
 
 Writing (:func:`write_drawing`): every ring of every part as a closed LWPOLYLINE, in
