@@ -53,10 +53,12 @@ from .series import RENAMED, SERIES
 from .thickness import beyond_table, governing_thickness, strength_factors, thickness_steps
 from .user import TABULATED, read_user_catalog
 
-__all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "dims_of", "row_dims", "cache_dir",
+__all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "family_rows", "dims_of", "row_dims", "cache_dir",
            "cache_file", "cache_enabled", "builtin_frame"]
 
 DIM_KEYS = ("d", "b", "tw", "tf", "t", "r", "b_top", "tf_top", "b_bot", "tf_bot")
+# the sizes of built-up rows that are no shape family (flitch beams: leanspan.select.built_up_flitch)
+BUILT_UP_DIM_KEYS = ("timbers", "timber_width", "timber_depth", "plate_thickness", "plate_depth")
 MATERIAL_COLUMNS = ("kind", "E", "G", "density", "strength_bending", "strength_shear",
                     "mass_per_length", "strength_thickness") + MATERIAL_OPTIONAL  # optional: NaN where not given
 _TEXT_COLUMNS = ("name", "family", "series", "material")
@@ -64,8 +66,9 @@ _TEXT_COLUMNS = ("name", "family", "series", "material")
 _COLUMNS = _TEXT_COLUMNS + DIM_KEYS + tuple(KEYS) + STABILITY_KEYS
 
 
-def _block(series: str, family: str, dims: dict, names: list, materials) -> dict:
-    """Columns (numpy arrays) for N rows of one family: text, dims, section properties."""
+def _block(series: str, family: str, dims: dict, names: list, materials, stability: bool = True) -> dict:
+    """Columns (numpy arrays) for N rows of one family: text, dims, section properties (the
+    buckling columns NaN unless ``stability``)."""
     fam = FAMILIES[family]
     dims = fam.complete(dims)
     props = family_properties(family, dims)
@@ -78,6 +81,8 @@ def _block(series: str, family: str, dims: dict, names: list, materials) -> dict
     for k in KEYS:
         cols[k] = np.asarray(props[k], float)
     try:
+        if not stability:
+            raise LeanspanError("not asked for")
         stab = family_stability(family, dims, cols["yc"], cols["zc"])
     except LeanspanError:  # a closed form that does not fit these walls: buckling checks refuse the row
         stab = {k: np.full(n, np.nan) for k in STABILITY_KEYS}
@@ -333,6 +338,24 @@ def catalog_table(series=None, families=None, materials=None, user_csv=None, max
     return df
 
 
+def family_rows(family: str, dims: dict, names, material: str, series: str = "built_up",
+                material_table=None, stability: bool = True):
+    """Rows with every catalogue column for N sections of one family in one material, built as
+    the catalogue builds its own (what a built-up search screens); ``stability=False`` leaves the
+    buckling columns (:data:`~leanspan.sections.properties.STABILITY_KEYS`) NaN.
+
+    >>> import numpy as np
+    >>> df = family_rows("rectangle", {"b": np.array([0.1]), "d": np.array([0.3])}, ["r"], "C24")
+    >>> round(float(df.Iz[0] / (0.1 * 0.3**3 / 12)), 12), df.series[0], df.material[0]   # b d^3 / 12
+    (1.0, 'built_up', 'C24')
+    """
+    import pandas as pd
+
+    mats = materials_table(material_table)
+    df = pd.DataFrame(_block(series, family, dims, list(names), material, stability))
+    return _with_materials(df, get_material(material, mats).name, mats)
+
+
 def _user_rows_default(sub, cat, mats):
     """User rows with their own materials (for comparing a tabulated mass per length)."""
     out = sub.copy()
@@ -394,6 +417,8 @@ def row_dims(row) -> dict[str, float]:
     >>> row_dims(df[df.name == "I 300x150x7.1x10.7"].iloc[0])
     {'d': 0.3, 'b': 0.15, 'tw': 0.0071, 'tf': 0.0107, 'r': 0.015}
     """
+    if row["family"] not in FAMILIES:  # a built-up flitch row: its own sizes
+        return {k: float(row[k]) for k in BUILT_UP_DIM_KEYS if k in row and not np.isnan(float(row[k]))}
     fam = FAMILIES[row["family"]]
     out = {k: float(row[k]) for k in fam.keys}
     for k, default in fam.optional.items():

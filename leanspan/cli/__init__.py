@@ -31,7 +31,7 @@ __all__ = ["main", "add_common", "emit_json", "option_paths", "warn", "stage", "
            "check_outputs", "OUTPUT_OPTIONS"]
 
 COMMANDS = ["section", "beam", "catalog", "materials", "select", "demo"]
-OUTPUT_OPTIONS = ("csv", "report", "markdown", "plot")  # argparse names of output-path options
+OUTPUT_OPTIONS = ("csv", "report", "markdown", "plot", "outline")  # argparse names of output-path options
 
 
 def _parser(available):

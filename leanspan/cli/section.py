@@ -12,7 +12,7 @@ def add_parser(sub):
                        description="Area, centroid, second moments, principal axes, elastic and "
                                    "plastic moduli, shear factor; transformed properties when parts "
                                    "carry materials; torsion by finite elements with --torsion.")
-    p.add_argument("file", help="section file with [[part]] tables")
+    p.add_argument("file", help="section file with [[part]] tables, or a drawing FILE.dxf")
     add_common(p)
     p.add_argument("--torsion", action="store_true", help="also J, Cw and the shear centre (finite elements)")
     p.add_argument("--element-size", default=None, help="element size for --torsion, e.g. '2 mm'")
@@ -20,7 +20,20 @@ def add_parser(sub):
     p.add_argument("--plot", metavar="OUT", default=None, help="draw the section to OUT (.svg or .png)")
     p.add_argument("--report", metavar="SHEET.html", default=None,
                    help="write a calculation sheet (one self-contained HTML page)")
+    add_drawing_options(p)
     p.set_defaults(run=run)
+
+
+def add_drawing_options(p, reading: bool = True):
+    """``--outline OUT.dxf`` (write the section as a drawing) and, for reading a drawing,
+    ``--layer-material LAYER=MATERIAL`` and ``--drawing-units UNIT``."""
+    p.add_argument("--outline", metavar="OUT.dxf", default=None,
+                   help="write the section's outline as a DXF drawing (mm, one layer per material)")
+    if reading:
+        p.add_argument("--layer-material", action="append", metavar="LAYER=MATERIAL", default=None,
+                       help="material of a drawing's layer (repeatable or comma-separated)")
+        p.add_argument("--drawing-units", metavar="UNIT", default=None,
+                       help="unit of the drawing's coordinates, e.g. mm (default: the drawing's header)")
 
 
 def run(args) -> int:
@@ -37,13 +50,18 @@ def run(args) -> int:
         from ..errors import InputError
 
         raise InputError(f"--element-size: expected a positive length, got {args.element_size!r}")
+    from ..sections.drawing import layer_material_options
+
+    layers = layer_material_options(args.layer_material)
     with stage("computing the section" + (" and its torsion" if args.torsion else "")):
-        a = analyse_section(args.file, args.torsion, size, moment)
+        a = analyse_section(args.file, args.torsion, size, moment, layers, args.drawing_units)
     section, out, extra = a.section, a.values, a.extra
     payload = dict(out)
     if "stresses" in extra:
         payload["stresses"] = extra["stresses"]
     check_finite(payload, "the section's properties")  # before any output is written
+    for note in a.notes:
+        warn("section", note)
     warning = pieces_warning(section, extra, args.file)
     if warning:
         warn("section", warning)
@@ -57,6 +75,11 @@ def run(args) -> int:
 
         with option_paths(("--report", args.report)):
             write_section_sheet(section, out, args.report, units=args.units, source=args.file)
+    if args.outline:
+        from ..sections.drawing import write_drawing
+
+        with option_paths(("--outline", args.outline)):
+            write_drawing(section, args.outline)
     if args.json:
         emit_json(payload, "the section's properties")
         return 0
@@ -65,4 +88,6 @@ def run(args) -> int:
         print(f"drawing written to {args.plot}")
     if getattr(args, "report", None):
         print(f"calculation sheet written to {args.report}")
+    if args.outline:
+        print(f"outline drawing written to {args.outline}")
     return 0

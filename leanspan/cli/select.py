@@ -25,6 +25,8 @@ def add_options(p):
     p.add_argument("--plot", metavar="OUT.svg", default=None,
                    help="draw the chosen member's loaded beam and V, M, v diagrams to OUT and its "
                         "section to OUT-section (.svg, .png or .pdf)")
+    p.add_argument("--outline", metavar="OUT.dxf", default=None,
+                   help="write the chosen (else the closest) section's outline as a DXF drawing")
 
 
 def load_job(path):
@@ -69,6 +71,11 @@ def finish(args, job, source) -> int:
     if getattr(args, "plot", None):
         with option_paths(("--plot", args.plot)), stage("drawing the chosen member"):
             plots = write_plots(sel, args.plot, args.units)
+    if getattr(args, "outline", None):
+        from ..sections.drawing import write_drawing
+
+        with option_paths(("--outline", args.outline)), stage("drawing the chosen section"):
+            write_drawing(sel.chosen_member.section, args.outline)
     if args.json:
         emit_json(payload, "the selection", nullable)
     else:
@@ -77,6 +84,8 @@ def finish(args, job, source) -> int:
             print(f"calculation sheet written to {args.report}")
         if getattr(args, "plot", None):
             print("drawings written to " + ", ".join(str(p) for p in plots))
+        if getattr(args, "outline", None):
+            print(f"outline drawing written to {args.outline}")
         note = principal_axis_note(sel)
         if note:
             print(note)

@@ -31,6 +31,7 @@ from ..units import display_factor, fmt
 from ..units import utilisation_text as _util
 from . import labels as prop_labels
 from .markup import Cell, esc, inline_svg, num, page, section, table, util_bar
+from .tables import ranks_note
 
 __all__ = ["write_selection_sheet", "write_beam_sheet", "write_section_sheet",
            "selection_sheet_html", "beam_sheet_html", "section_sheet_html"]
@@ -208,7 +209,11 @@ def _beam_tables(model, units: str, show_ei: bool) -> str:
 
 def _search_table(sel, units: str) -> str:
     s, lim = sel.job.search, sel.job.limits
-    n_pass = int(sel.result.passes.sum())
+    n_pass = sel.passing if getattr(sel, "passing", None) is not None else int(sel.result.passes.sum())
+    families = ", ".join(s.families) if s.families else "all built-in"
+    if getattr(sel.job, "built_up", ()):  # [built_up] spaces, instead of or beside the catalogue
+        built = "built up: " + ", ".join(space.kind.replace("_", " ") for space in sel.job.built_up)
+        families = f"{families}; {built}" if sel.job.catalogue else built
 
     def size(lo, hi):
         if lo is None and hi is None:
@@ -219,7 +224,7 @@ def _search_table(sel, units: str) -> str:
             return f"at least {_qu(lo, 'length', units)}"
         return f"{_q(lo, 'length', units)} to {_qu(hi, 'length', units)}"
 
-    rows = [["families / series", ", ".join(s.families) if s.families else "all built-in"],
+    rows = [["families / series", families],
             ["materials", ", ".join(s.materials) if s.materials else "each family's own"],
             ["user catalogue", Path(s.catalog).name if s.catalog else "-"],
             ["depth", size(s.min_depth, s.max_depth)],
@@ -417,8 +422,8 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
     rtable = table(labels, cells, cls="ranked", row_classes=rcls)
     rnote = ("<p class=\"small\">Passing candidates in order of the objective (least "
              f"{esc(job.search.objective)}), then the nearest failures: the heaviest lighter "
-             "sections that fail, marked NO, closest to passing first (ranks count every candidate "
-             "screened). Utilisations are demand / limit, rounded up to 3 decimals.</p>")
+             f"sections that fail, marked NO, closest to passing first ({esc(ranks_note(sel))}). "
+             "Utilisations are demand / limit, rounded up to 3 decimals.</p>")
     parts.append(section("Ranked candidates", rtable + rnote, anchor="candidates"))
 
     assumptions = [

@@ -51,6 +51,14 @@ def _summary(sel, units):
     return lines
 
 
+def ranks_note(sel) -> str:
+    """What the ranks count: every candidate, or (a built-up search keeps only the rows the table
+    can show) the rows kept."""
+    if sel.screened == len(sel.table):
+        return "ranks count every candidate screened"
+    return f"ranks count the {len(sel.table)} rows kept of the {sel.screened} screened"
+
+
 def ranked_table_text(sel, units: str = "si", top: int = 10) -> str:
     """Summary lines and an aligned table of the shown candidates (numeric columns to the right)."""
     labels, rows = table_rows(sel, units, top)
@@ -58,7 +66,7 @@ def ranked_table_text(sel, units: str = "si", top: int = 10) -> str:
     rows = [r[:-1] + [r[-1] + ("*" if m else "")] for r, m in zip(rows, marked)]
     out = _summary(sel, units) + ["", aligned_table(labels, rows, rule=True)]
     out.append("Utilisation = demand / limit, rounded up to 3 decimals; rows marked NO fail (the heaviest "
-               "lighter sections that fail, closest to passing first; ranks count every candidate screened).")
+               f"lighter sections that fail, closest to passing first; {ranks_note(sel)}).")
     if any(marked):
         out.append("* assumes full lateral restraint: lateral-torsional buckling is not checked; set "
                    "lateral_restraint = \"supports\" in [limits] to check it.")

@@ -127,6 +127,11 @@ def _i_rings(d):
     bt, bb, tft, tfb = d["b_top"], d["b_bot"], d["tf_top"], d["tf_bot"]
     n = FILLET_SEGMENTS
     w = tw / 2
+    if not np.any(r):  # welded plates, no fillets: 12 corners (the arcs would be repeated points)
+        return [_ring(
+            _pt(-bb / 2, 0 * h), _pt(bb / 2, 0 * h), _pt(bb / 2, tfb), _pt(w, tfb), _pt(w, h - tft),
+            _pt(bt / 2, h - tft), _pt(bt / 2, h), _pt(-bt / 2, h), _pt(-bt / 2, h - tft),
+            _pt(-w, h - tft), _pt(-w, tfb), _pt(-bb / 2, tfb))]
     return [_ring(
         _pt(-bb / 2, 0 * h), _pt(bb / 2, 0 * h), _pt(bb / 2, tfb),
         _arc(w + r, tfb + r, r, 270, 180, n),

@@ -45,6 +45,7 @@ from ..errors import LeanspanError, SelectionError, brief
 from ..fileio import is_file
 from ..project import Project, parse_project
 from ..units import UnitSystem, check_number, display_factor, fmt, parse
+from .built_up import parse_built_up
 from .checks import limit_keys
 from .design import parse_design
 
@@ -150,6 +151,8 @@ class Job:
     title: str = ""
     base_dir: Path = Path(".")
     project: Project = Project()  # the sheet's title-block fields ([project])
+    built_up: tuple = ()  # built-up spaces (leanspan.select.built_up.Space) of [built_up]
+    catalogue: bool = True  # search the catalogue too (always without [built_up])
 
 
 def _names(value, field):
@@ -172,6 +175,8 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
             raise SelectionError(f"{p}beam.{key}: a selection job takes the member from the catalogue; "
                                  "remove it (self-weight goes in search.self_weight)")
     search_t = data.get("search")
+    if search_t is None and "built_up" in data:
+        search_t = {}  # a built-up search alone needs no [search] table
     if not isinstance(search_t, dict):
         raise SelectionError(f"{p}search: missing [search] table (families, materials, catalog ...)")
     limits_t = data.get("limits", {} if "design" in data else None)
@@ -221,6 +226,7 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
     beam_data.pop("search", None)
     beam_data.pop("limits", None)
     beam_data.pop("design", None)
+    beam_data.pop("built_up", None)
     beam = dict(data["beam"])
     beam["EI"] = "1 N*m^2"  # placeholder: candidates supply EI
     if sw is not None:
@@ -266,7 +272,11 @@ def parse_job(data: dict, base_dir: Path, where: str = "") -> Job:
     search = SearchSpec(families, materials, catalog, sizes["max_depth"], sizes["min_depth"],
                         sizes["max_width"], sizes["min_width"], objective, sw, mat_file)
     title = data["beam"].get("title") or data["beam"].get("name") or ""
-    return Job(model, search, limits, str(title), Path(base_dir), parse_project(data.get("project"), p))
+    built_up = parse_built_up(data.get("built_up"), units, p, mat_file)
+    # with [built_up], the catalogue is searched only when [search] names what to take from it
+    catalogue = not built_up or any(k in search_t for k in ("families", "series", "catalog"))
+    return Job(model, search, limits, str(title), Path(base_dir), project=parse_project(data.get("project"), p),
+               built_up=built_up, catalogue=catalogue)
 
 
 def _factor(value, field):

@@ -125,6 +125,8 @@ def member_from_row(row, with_section: bool = True) -> Member:
     (True, True)
     """
     get = row.get if hasattr(row, "get") else row.__getitem__
+    if str(get("family")) == "flitch":
+        return _flitch_member(row, get, with_section)
     dims = row_dims(row)
     E, Iz, A = float(get("E")), float(get("Iz")), float(get("A"))
     props = {k: float(v) for k, v in dict(row).items()
@@ -135,6 +137,21 @@ def member_from_row(row, with_section: bool = True) -> Member:
     return Member(str(get("name")), str(get("material")), E * Iz, E * A,
                   _closed_form_GJ(str(get("family")), dims, get("G")), float(get("mass_per_length")),
                   props, y_n, section)
+
+
+def _flitch_member(row, get, with_section):
+    """A built-up flitch row: its transformed EI and mass, the section from its parts."""
+    from .built_up_flitch import flitch_spec
+
+    props = {k: float(v) for k, v in dict(row).items()
+             if isinstance(v, (int, float, np.floating)) and not isinstance(v, bool)}
+    section = section_from_spec(flitch_spec(row_dims(row), str(get("timber_material")),
+                                            str(get("plate_material")))) if with_section else None
+    E = float(get("E"))
+    EA = section.composite(material_lookup()).EA if section is not None else float("nan")
+    return Member(str(get("name")), str(get("material")), E * float(get("Iz")), EA,
+                  float(get("G")) * float(get("J")), float(get("mass_per_length")), props,
+                  float(get("yc")), section)
 
 
 def member_arrays(df, columns=()) -> dict:

@@ -41,11 +41,14 @@ class Selection:
         Row indices of ``table``: passing candidates in objective order, then failing
         ones by their largest utilisation (rank = position + 1).
     screened : int
+        Candidates screened (built-up ones that the table does not keep included).
     table : pandas.DataFrame
         The catalogue rows screened (same order as the ``result`` arrays).
     result : Screen
     job : Job
     warnings : list of str
+    passing : int
+        Candidates that pass (built-up ones that the table does not keep included).
     """
 
     success: bool
@@ -57,6 +60,7 @@ class Selection:
     result: Screen
     job: object
     warnings: list = field(default_factory=list)
+    passing: int | None = None  # candidates that pass, also those a built-up search did not keep
 
     def rows(self, positions) -> list:
         """CANDIDATE dicts for the given rank positions (0-based)."""
@@ -152,7 +156,8 @@ def _mixed_bases(df, job) -> list:
     if lim.stress_factor is None or (lim.bending_stress is not None and lim.shear_stress is not None):
         return []
     by_basis = {}
-    for name in dict.fromkeys(df["material"]):  # the distinct materials, in table order
+    # the distinct materials, in table order (a flitch row names two: "C24 + S275")
+    for name in dict.fromkeys(n for m in dict.fromkeys(df["material"]) for n in str(m).split(" + ")):
         m = table.get(name)
         if m is not None and m.basis:
             by_basis.setdefault(m.basis, name)
@@ -248,7 +253,13 @@ def run_selection(job, table=None) -> Selection:
     table : pandas.DataFrame, optional
         Catalogue rows to screen instead of the job's own search (used by tests).
     """
-    df = candidate_table(job.search) if table is None else table
+    dropped = dropped_pass = 0  # built-up candidates screened but not kept for the table
+    if table is None and getattr(job, "built_up", ()):
+        from .built_up import built_up_table
+
+        df, dropped, dropped_pass = built_up_table(job, candidate_table(job.search) if job.catalogue else None)
+    else:
+        df = candidate_table(job.search) if table is None else table
     warnings = (list(df.attrs.get("warnings", [])) if hasattr(df, "attrs") else []) + list(job.model.notes)
     warnings += _mixed_bases(df, job)
     if len(df) == 0:
@@ -259,13 +270,15 @@ def run_selection(job, table=None) -> Selection:
     order = rank_order(df, res, job.search.objective)
     first = _rows(df, res, order, [0])[0]
     n_pass = int(res.passes.sum())
+    screened = len(df) + dropped
     if n_pass:
         chosen = first
-        msg = f"{n_pass} of {len(df)} candidates pass; lightest by {job.search.objective}: {chosen['name']}"
+        msg = (f"{n_pass + dropped_pass} of {screened} candidates pass; lightest by {job.search.objective}: "
+               f"{chosen['name']}")
     else:
         chosen = None
         best = first
         g = best["governing"]
-        msg = (f"no candidate passes ({len(df)} screened); closest is {best['name']} "
+        msg = (f"no candidate passes ({screened} screened); closest is {best['name']} "
                f"({best['material']}) with {g} at {utilisation_text(best['utilisation'][g])} × its limit")
-    return Selection(bool(n_pass), msg, chosen, order, len(df), df, res, job, warnings)
+    return Selection(bool(n_pass), msg, chosen, order, screened, df, res, job, warnings, n_pass + dropped_pass)

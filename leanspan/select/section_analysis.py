@@ -32,10 +32,31 @@ class SectionAnalysis:
     values: dict
     extra: dict
     torsion: object = None
+    notes: tuple = ()  # warnings (entities a drawing holds besides its shapes)
+
+
+def load_any_section(path, layer_materials=None, drawing_units=None):
+    """A section file (TOML) or a drawing (``.dxf``, :mod:`leanspan.sections.drawing`): the
+    section, the raw table (empty for a drawing) and notes for warnings."""
+    from pathlib import Path
+
+    from ..errors import InputError
+
+    if Path(path).suffix.lower() == ".dxf":
+        from ..sections.drawing import load_drawing
+
+        drawing = load_drawing(path, layer_materials, drawing_units, material_lookup())
+        return drawing.section, {}, tuple(drawing.notes)
+    if layer_materials or drawing_units:
+        option = "--layer-material" if layer_materials else "--drawing-units"
+        raise InputError(f"{option}: only for a drawing (FILE.dxf), not for the section file {path}")
+    section, data = load_section_file(path)
+    return section, data, ()
 
 
 def analyse_section(path, torsion: bool = False, element_size: float | None = None,
-                    moment: float | None = None) -> SectionAnalysis:
+                    moment: float | None = None, layer_materials=None,
+                    drawing_units=None) -> SectionAnalysis:
     """Analyse the section file at ``path``.
 
     Parameters
@@ -46,8 +67,11 @@ def analyse_section(path, torsion: bool = False, element_size: float | None = No
         Element size (m) for the torsion mesh; default from the section's size.
     moment : float, optional
         A bending moment (N m, sagging positive): the stress at the top and bottom of each material.
+    layer_materials, drawing_units
+        For a drawing (``.dxf``): layer -> material names and the drawing unit (see
+        :func:`leanspan.sections.drawing.load_drawing`).
     """
-    section, data = load_section_file(path)
+    section, data, notes = load_any_section(path, layer_materials, drawing_units)
     props = section.properties(private=True)
     out = {k: v for k, v in props.items() if not k.startswith("_")}
     extra = {"pna_y": props["_pna_y"], "pna_z": props["_pna_z"]}
@@ -93,4 +117,4 @@ def analyse_section(path, torsion: bool = False, element_size: float | None = No
             if abs(out[s_key] - out[c_key]) < 1e-4 * size:
                 out[s_key] = out[c_key]
         extra["torsion_elements"] = int(tors.mesh.triangles.shape[0]) if hasattr(tors.mesh, "triangles") else None
-    return SectionAnalysis(section, out, extra, tors)
+    return SectionAnalysis(section, out, extra, tors, notes)
