@@ -147,7 +147,7 @@ def _mixed_bases(df, job) -> list:
         return []
     table = materials_table(job.search.materials_file)
     by_basis = {}
-    for name in dict.fromkeys(df["material"]):  # the distinct materials, in table order
+    for name in df["material"].unique():  # the distinct materials, in table order
         m = table.get(name)
         if m is not None and m.basis:
             by_basis.setdefault(m.basis, name)
