@@ -14,7 +14,7 @@ __all__ = ["member_rows", "schedule_text", "schedule_markdown", "schedule_csv", 
 
 
 def _money(v, currency):
-X
+    return "-" if v is None else f"{v:.2f}{(' ' + currency) if currency else ''}"
 
 
 def member_rows(result, units: str = "si"):
