@@ -79,7 +79,7 @@ class ScheduleMember:
     """One member: its name, where it came from, how many, and its parsed selection job."""
 
     name: str
-    where: str  # "member J1 ([[member]] 1)" or "members.csv row 4"
+    where: str  # "[[member]] 1" or "members.csv row 4"
     count: int
     job: object  # leanspan.select.job.Job
 
@@ -134,7 +134,7 @@ def parse_schedule(data: dict, base_dir: Path, source: str = "schedule", objecti
         raise InputError(f"{p}no members: add [[member]] tables or [schedule] members_file")
     good, bad, seen = [], [], {}
     for name, where, spec in raw:
-        label = where if " row " in where else f"{source}: {where}"
+        label = member_label(source, name, where)
         try:
             if name in seen:
                 raise InputError(f"name: {name!r} is already used by {seen[name]}")
@@ -145,6 +145,14 @@ def parse_schedule(data: dict, base_dir: Path, source: str = "schedule", objecti
         except LeanspanError as exc:
             bad.append(BadMember(name, where, f"{label}: {exc}"))
     return Schedule(options, good, bad, values, source)
+
+
+def member_label(source: str, name: str, where: str) -> str:
+    """How an error names a member: ``floor.toml: member J2 ([[member]] 2)`` or
+    ``joists.csv row 4 (member J4)``."""
+    if where.startswith("[[member]]"):
+        return f"{source}: member {name} ({where})"
+    return f"{where} (member {name})"
 
 
 def member_key(job) -> str:
@@ -244,7 +252,7 @@ def _toml_members(items, p) -> list:
     for i, m in enumerate(items, 1):
         name = m.get("name") if isinstance(m, dict) else None
         label = str(name) if isinstance(name, (str, int)) and str(name).strip() else f"#{i}"
-        out.append((label, f"member {label} ([[member]] {i})", m))
+        out.append((label, f"[[member]] {i}", m))
     return out
 
 
@@ -262,13 +270,13 @@ def _csv_members(path: Path, shown: str) -> list:
     out = []
     for line, cells in rows:
         if len(cells) > len(header) and any(cells[len(header):]):
-            out.append((f"row {line}", f"{shown} row {line}",
-                        {"_error": f"{len(cells)} cells but {len(header)} columns"}))
+            out.append((cells[0] or f"row {line}", f"{shown} row {line}",
+                        {"_error": f"expected {len(header)} cells ({', '.join(names)}), got {len(cells)}"}))
             continue
         cells = cells + [""] * (len(header) - len(cells))
         spec = _row_spec(header, cells)
         name = spec.get("name") or f"row {line}"
-        out.append((name, f"{shown} row {line} (member {name})", spec))
+        out.append((name, f"{shown} row {line}", spec))
     return out
 
 

@@ -22,10 +22,11 @@ Before the solve, two exact reductions keep the model small:
    ``a_i v_j > U - sum_{l != i} L_l``.
 
 The greedy method (also the fallback when the model would still have more than
-``max_pairs`` pairs, or when HiGHS stops at its time limit): start from every member's own
-best, drop the section whose removal costs least until each group holds K, then swap a
-section in the set for one outside it while that lowers the total. It is not proven optimal
-and says so (``optimal = False``).
+``max_pairs`` pairs, or when HiGHS stops at its time limit) tries two starts: from every
+member's own best, drop the section whose removal costs least until each group holds K; and
+from nothing, add the section that lowers the total most (covering members first). Each start
+is improved by swapping a section in the set for one outside it while that lowers the total,
+and the better result is kept. It is not proven optimal and says so (``optimal = False``).
 
 >>> passes = np.array([[1, 1, 1], [0, 1, 1], [0, 0, 1]], bool)   # 3 members x 3 sections
 >>> r = rationalise(passes, np.ones(3), np.array([1.0, 2.0, 3.0]), 1)
@@ -203,19 +204,38 @@ def _milp(sub, cost, groups, k, time_limit):
 
 
 def _greedy(passes, weight, value, groups, k, tiebreak=None) -> np.ndarray:
-    """Greedy removal from every member's own best, then improving swaps (column per member, -1
-    where no feasible set was found)."""
-    n, m = passes.shape
+    """The better of two greedy starts, each followed by improving swaps (column per member, -1
+    where no feasible set was found): removal from every member's own best, and addition from
+    nothing (an uncovered member costs more than any whole assignment, so coverage comes first)."""
+    n = passes.shape[0]
     cost = np.where(passes, weight[:, None] * value[None, :], np.inf)
+    big = float(np.max(cost[passes])) * (n + 1) + 1.0
+    penalised = np.where(passes, cost, big)
+    best, best_total = np.full(n, -1), np.inf
+    for start in (_drop(cost, passes, value, groups, k, tiebreak), _add(penalised, groups, k)):
+        if start is None:
+            continue
+        chosen = _swaps(penalised, groups, start)
+        choice = np.asarray(chosen)[np.argmin(cost[:, chosen], axis=1)]
+        total = cost[np.arange(n), choice].sum()
+        if total < best_total:
+            best, best_total = choice, total
+    return best
+
+
+def _drop(cost, passes, value, groups, k, tiebreak):
+    """From every member's own best, drop the section whose removal costs least until each group
+    holds at most k; None if that leaves a member without a section."""
+    n = cost.shape[0]
     chosen = sorted(set(best_each(passes, value, tiebreak).tolist()))
     while True:
         counts = {g: sum(groups[j] == g for j in chosen) for g in set(groups[chosen].tolist())}
         over = [j for j in chosen if counts[groups[j]] > k]
         if not over:
-            break
+            return chosen
         M = cost[:, chosen]
         arg = np.argmin(M, axis=1)
-        best = M[np.arange(n), arg]
+        first = M[np.arange(n), arg]
         M2 = M.copy()
         M2[np.arange(n), arg] = np.inf
         second = M2.min(axis=1)
@@ -224,13 +244,29 @@ def _greedy(passes, weight, value, groups, k, tiebreak=None) -> np.ndarray:
             if j in over:
                 mine = arg == s
                 with np.errstate(invalid="ignore"):
-                    extra[s] = np.sum(second[mine] - best[mine])
+                    extra[s] = np.sum(second[mine] - first[mine])
         if not np.isfinite(extra).any():
-            return np.full(n, -1)
+            return None
         chosen.pop(int(np.argmin(extra)))
-    chosen = _swaps(cost, groups, chosen)
-    M = cost[:, chosen]
-    return np.asarray(chosen)[np.argmin(M, axis=1)]
+
+
+def _add(penalised, groups, k):
+    """From nothing, add the section that lowers the (penalised) total most, while groups have room."""
+    n, m = penalised.shape
+    current = np.full(n, np.inf)
+    chosen = []
+    while True:
+        counts = {g: sum(groups[j] == g for j in chosen) for g in set(groups.tolist())}
+        eligible = np.flatnonzero([counts[groups[j]] < k and j not in chosen for j in range(m)])
+        if eligible.size == 0:
+            return chosen or None
+        totals = np.concatenate([np.minimum(current[:, None], penalised[:, c]).sum(axis=0)
+                                 for c in np.array_split(eligible, max(1, eligible.size // 512))])
+        i = int(np.argmin(totals))
+        if chosen and not totals[i] < current.sum():
+            return chosen
+        chosen.append(int(eligible[i]))
+        current = np.minimum(current, penalised[:, eligible[i]])
 
 
 def _swaps(cost, groups, chosen, rounds: int = 50):

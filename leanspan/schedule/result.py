@@ -90,7 +90,6 @@ def build_result(run, sizes: int | None = None, sizes_per: str = "all", pareto=N
     """Assemble the member table and totals; rationalise to ``sizes`` sections (per
     ``sizes_per`` group) with the penalty table; Pareto sets for the objective pair ``pareto``."""
     values = _candidate_values(run)
-    cols = run.candidates
     rows, no_pass = [], []
     for i, m in enumerate(run.members):
         o = run.outcomes[run.member_type[i]]

@@ -32,7 +32,7 @@ import numpy as np
 
 from ..errors import LeanspanError
 from ..select.search import candidate_table, run_selection
-from .parse import BadMember, member_key
+from .parse import BadMember, member_key, member_label
 
 __all__ = ["Outcome", "ScheduleRun", "run_schedule", "select_member", "CANDIDATE_COLUMNS"]
 
@@ -206,7 +206,7 @@ def run_schedule(schedule, jobs: int = 1, progress: bool = False) -> ScheduleRun
     for i, m in enumerate(schedule.members):
         o = outcomes[member_type[i]]
         if o.error is not None:
-            label = m.where if " row " in m.where else f"{schedule.source}: {m.where}"
+            label = member_label(schedule.source, m.name, m.where)
             bad.append(BadMember(m.name, m.where, f"{label}: {o.error}"))
     return ScheduleRun(schedule, member_type, outcomes, bad, candidates, warnings)
 
