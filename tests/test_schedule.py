@@ -396,3 +396,16 @@ def test_text_markdown_plot_and_sheet_are_written(tmp_path, capsys):
     assert plot.read_text().startswith("<?xml") and (tmp_path / "k-pareto.svg").exists()
     html = sheet.read_text(encoding="utf-8")
     assert html.count('class="part"') >= 4 and "licensed" in html  # summary + 3 member types
+
+
+def test_the_readme_figures_of_the_example(capsys):
+    """The README quotes the example's masses and penalties; they are the program's numbers."""
+    out, _ = _json(capsys, ["schedule", str(EXAMPLE), "--json"])
+    s = out["sizes"]
+    assert round(out["totals"]["mass"], 1) == 460.2 and out["totals"]["distinct_sections"] == 7
+    assert round(s["total"], 1) == 493.0 and s["method"] == "milp" and s["optimal"]
+    pen = {p["sizes"]: p for p in s["penalty"]}
+    assert round(100 * pen[3]["penalty"], 1) == 7.1 and round(100 * pen[2]["penalty"], 1) == 14.5
+    assert not pen[1]["feasible"]
+    text = (ROOT / "README.md").read_text(encoding="utf-8")
+    assert "460.2 kg in 7 distinct sections" in text and "493.0 kg, 7.1 % more" in text

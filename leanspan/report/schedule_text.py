@@ -124,10 +124,26 @@ def schedule_text(result, units: str = "si") -> str:
     note = generated_note(r["own"]["series"] for r in result.members if r["own"])
     if note:
         out.append(note)
+    if _leans_on_restraint(result):
+        out.append("Some sections assume full lateral restraint (open metal shapes, timber deeper than twice "
+                   "its width): lateral-torsional buckling is not checked; set lateral_restraint = \"supports\" "
+                   "in [limits] to check it.")
     tail = _tail(result)
     if tail:
         out += [""] + tail
     return "\n".join(out)
+
+
+def _leans_on_restraint(result) -> bool:
+    """A member's chosen section is open metal or slender timber while buckling is not checked
+    (common practice, as in the ranked table of ``select``)."""
+    for r in result.members:
+        c = r["chosen"]
+        if c and "lateral_torsional" not in c["utilisation"] and (
+                c["family"] in ("ibeam", "channel", "tee", "angle")
+                or (c["family"] == "rectangle" and c["depth"] > 2 * c["width"])):
+            return True
+    return False
 
 
 def _md_table(labels, rows):
