@@ -48,10 +48,13 @@ def member_rows(result, units: str = "si"):
 
 def _total_lines(totals, currency, units, what):
     mu, mf = display_factor("mass", units)
+
+    def mass(v, tag=""):
+        return "-" if v is None else f"{fmt(v / mf, 5)} {mu}{tag}"
+
     return (f"{what}: {totals['pieces']} pieces in {totals['members']} members, "
-            f"{totals['distinct_sections']} distinct sections; mass {fmt(totals['mass'] / mf, 5)} {mu}, "
-            f"cost {_money(totals['cost'], currency)}, carbon "
-            + ("-" if totals["carbon"] is None else f"{fmt(totals['carbon'] / mf, 5)} {mu} CO2e"))
+            f"{totals['distinct_sections']} distinct sections; mass {mass(totals['mass'])}, "
+            f"cost {_money(totals['cost'], currency)}, carbon {mass(totals['carbon'], ' CO2e')}")
 
 
 def penalty_rows(result, units: str = "si"):

@@ -80,7 +80,7 @@ def _totals(rows, key) -> dict:
     out = {"members": len(rows), "pieces": sum(r["count"] for r in rows)}
     for o in ("mass", "cost", "carbon"):
         vals = [p[o] for p in parts]
-        out[o] = None if not vals or any(v is None for v in vals) else float(sum(vals))
+        out[o] = None if any(v is None for v in vals) else float(sum(vals))
     out["distinct_sections"] = len({(p["series"], p["section"], p["material"]) for p in parts})
     return out
 
