@@ -63,7 +63,7 @@ def run(args) -> int:
     with stage("rationalising the sections"):
         result = build_result(run_, sizes, per, pareto)
         payload = {**result.to_json(), "caution": CAUTION}
-    nullable = not_applicable() | {"utilisation"}
+    nullable = not_applicable()
     check_finite(payload, "the schedule", nullable)  # before any output is written
     for w in run_.warnings:
         warn(args.command, w)

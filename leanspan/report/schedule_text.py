@@ -94,12 +94,12 @@ def _summary(result, units):
             how = "exact MILP, optimal" if s["method"] == "milp" and s["optimal"] else (
                 "each member's own best already fits" if s["method"] == "each" else
                 f"{s['method']}, not proven optimal")
-            out.append(f"Rationalised to at most {s['limit']} sections{per} ({how}): "
+            out.append(f"Rationalised to at most {s['limit']} section{'s' if s['limit'] != 1 else ''}{per} ({how}): "
                        + ", ".join(f"{x['section']} {x['material']} ({x['pieces']} pieces)" for x in s["sections"]))
             out.append(_total_lines(s["totals"], opts.currency, units, "Rationalised"))
         else:
-            out.append(f"No set of at most {s['limit']} sections{per} passes for every member; "
-                       "allow more sections (see the penalty table)")
+            out.append(f"No set of at most {s['limit']} section{'s' if s['limit'] != 1 else ''}{per} passes for "
+                       "every member; allow more sections (see the penalty table)")
     return out
 
 
