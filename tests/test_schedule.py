@@ -163,75 +163,61 @@ def test_greedy_fallback_is_feasible_and_not_claimed_optimal():
 
 
 # -- a member equals `leanspan select` on that member alone -----------------------------------------
-J1_ALONE = """
+ALONE = """
 [beam]
-title = "J1 alone"
-spans = ["3.6 m"]
-[[load]]
-case = "dead"
-type = "udl"
-w = "0.24 kN/m"      # 0.6 kN/m^2 x 0.4 m
-[[load]]
-case = "imposed"
-type = "udl"
-w = "0.8 kN/m"       # 2.0 kN/m^2 x 0.4 m
+title = "{title}"
+spans = ["{span}"]
+{loads}
 [[combination]]
 name = "strength"
-factors = { dead = 1.35, imposed = 1.5 }
+factors = {{ dead = 1.35, imposed = 1.5 }}
 [[combination]]
 name = "imposed deflection"
-factors = { imposed = 1.0 }
+factors = {{ imposed = 1.0 }}
 check = "deflection"
 limit = "span/360"
 [[combination]]
 name = "total deflection"
-factors = { dead = 1.0, imposed = 1.0 }
+factors = {{ dead = 1.0, imposed = 1.0 }}
 check = "deflection"
 limit = "span/250"
 [search]
-families = ["sawn_metric", "glulam", "gen_steel_i"]
+families = ["sawn_metric", "glulam"]
 max_depth = "300 mm"
-max_width = "75 mm"
 self_weight = "dead"
+{search}
 [limits]
 stress_factor = 0.6
 """
-B1_LOADS = """
-[[load]]
-case = "dead"
-type = "udl"
-w = "0.78 kN/m"      # 0.6 kN/m^2 x 1.3 m
-[[load]]
-case = "imposed"
-type = "udl"
-w = "2.6 kN/m"       # 2.0 kN/m^2 x 1.3 m
-[[load]]
-case = "dead"
-type = "point"
-P = "2.5 kN"
-at = "1.2 m"
-[[load]]
-case = "imposed"
-type = "point"
-P = "4 kN"
-at = "1.2 m"
-"""
+
+
+def _alone(path, title, span, loads, search=""):
+    """A select job for one member of the example, its loads written out: (case, type, values)."""
+    text = "".join(f'[[load]]\ncase = "{case}"\ntype = "{kind}"\n'
+                   + "".join(f'{k} = "{v}"\n' for k, v in values.items()) for case, kind, values in loads)
+    path.write_text(ALONE.format(title=title, span=span, loads=text, search=search), encoding="utf-8")
+    return str(path)
 
 
 def test_schedule_members_equal_select_alone(tmp_path, capsys):
-    """J1 (a CSV row: spacing x area loads) and B1 (point loads) written out by hand as select jobs."""
+    """J1 (a CSV row: spacing x area loads, a width limit) and B1 (tributary width, point loads),
+    written out by hand as select jobs: area load x width = line load."""
     sched, _ = _json(capsys, ["schedule", str(EXAMPLE), "--json"])
     by_name = {m["name"]: m for m in sched["members"]}
-    j1 = tmp_path / "j1.toml"
-    j1.write_text(J1_ALONE, encoding="utf-8")
-    alone, _ = _json(capsys, ["select", str(j1), "--json"])
+    j1 = _alone(tmp_path / "j1.toml", "J1 alone", "3.6 m",
+                [("dead", "udl", {"w": "0.24 kN/m"}),       # 0.6 kN/m^2 x 0.4 m
+                 ("imposed", "udl", {"w": "0.8 kN/m"})],     # 2.0 kN/m^2 x 0.4 m
+                'max_width = "75 mm"')
+    alone, _ = _json(capsys, ["select", j1, "--json"])
     assert by_name["J1"]["chosen"] == alone["chosen"]
-    head, tail = J1_ALONE.split("[[combination]]", 1)
-    b1_text = (head.split("[[load]]")[0].replace("J1 alone", "B1 alone") + B1_LOADS + "[[combination]]" + tail)
-    b1 = tmp_path / "b1.toml"
-    b1.write_text(b1_text.replace('max_width = "75 mm"\n', ""), encoding="utf-8")
-    alone, _ = _json(capsys, ["select", str(b1), "--json"])
+    b1 = _alone(tmp_path / "b1.toml", "B1 alone", "3.6 m",
+                [("dead", "udl", {"w": "0.78 kN/m"}),       # 0.6 kN/m^2 x 1.3 m
+                 ("imposed", "udl", {"w": "2.6 kN/m"}),      # 2.0 kN/m^2 x 1.3 m
+                 ("dead", "point", {"P": "2.5 kN", "at": "1.2 m"}),
+                 ("imposed", "point", {"P": "4 kN", "at": "1.2 m"})])
+    alone, _ = _json(capsys, ["select", b1, "--json"])
     assert by_name["B1 stair trimmer"]["chosen"] == alone["chosen"]
+    assert (alone["chosen"]["name"], alone["chosen"]["material"]) == ("rect 75x300", "C24")
 
 
 def test_every_member_equals_run_selection_on_its_own_job():
