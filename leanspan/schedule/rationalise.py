@@ -13,12 +13,14 @@ problem with forbidden pairs; it is solved exactly as a mixed-integer program (H
                sum_{j in g} y_j <= K     for each group g
                y_j in {0, 1}, 0 <= x_ij <= 1
 
-Before the solve, two exact reductions keep the model small:
+Before the solve, three exact reductions keep the model small:
 
 1. *Dominated candidates* go: j is dropped when a candidate k of the same group passes every
    member that j passes and ``v_k <= v_j`` (swapping j for k in any solution costs nothing).
-2. *Pairs that cannot be in a better solution* go: with a feasible total U (from the greedy
-   method below) and each member's least cost ``L_i``, member i never takes j with
+2. *Members with the same pass set* over the remaining candidates become one row whose weight
+   is the sum of theirs (they always take the same section of a set).
+3. *Pairs that cannot be in a better solution* go: with a feasible total U (from the greedy
+   method below) and each row's least cost ``L_i``, row i never takes j with
    ``a_i v_j > U - sum_{l != i} L_l``.
 
 The greedy method (also the fallback when the model would still have more than
@@ -42,10 +44,11 @@ from dataclasses import dataclass
 
 import numpy as np
 
-__all__ = ["Rationalised", "rationalise", "penalty_table", "best_each", "MAX_PAIRS"]
+__all__ = ["Rationalised", "rationalise", "penalty_table", "best_each", "MAX_PAIRS", "PENALTY_BUDGET"]
 
 MAX_PAIRS = 400_000  # more member-section pairs than this after the reductions: greedy
 _TIME_LIMIT = 60.0   # seconds per HiGHS solve
+PENALTY_BUDGET = 120.0  # seconds of exact solves for the penalty table; the rest greedy
 
 
 @dataclass(frozen=True)
@@ -150,15 +153,19 @@ def rationalise(passes, weight, value, k, groups=None, tiebreak=None, max_pairs:
     if _most_per_group(own, groups) <= k:
         return Rationalised(k, own, _total(weight, value, own), "each", True, True)
     cols = _undominated(passes, value, groups, tiebreak)
-    greedy = _greedy(passes[:, cols], weight, value[cols], groups[cols], k,
+    # members that pass the same remaining candidates always take the same one: one row, weights added
+    rows, inverse = np.unique(passes[:, cols], axis=0, return_inverse=True)
+    w_rows = np.bincount(np.ravel(inverse), weights=weight, minlength=rows.shape[0])
+    greedy = _greedy(rows, w_rows, value[cols], groups[cols], k,
                      None if tiebreak is None else np.asarray(tiebreak)[cols])
-    greedy_choice = np.where(greedy >= 0, cols[np.maximum(greedy, 0)], -1)
+    greedy_choice = _assign(passes, value, cols[greedy[greedy >= 0]], tiebreak) if (greedy >= 0).all() \
+        else np.full(n, -1)
     upper = _total(weight, value, greedy_choice)
-    sub = passes[:, cols]
-    cost = weight[:, None] * value[cols][None, :]
-    least = weight * value[own]
+    sub = rows.copy()
+    cost = w_rows[:, None] * value[cols][None, :]
+    least = np.where(rows, cost, np.inf).min(axis=1)
     if np.isfinite(upper):
-        slack = upper - (least.sum() - least)  # (n,): the most member i may cost
+        slack = upper - (least.sum() - least)  # the most each row may cost
         sub = sub & (cost <= slack[:, None] * (1 + 1e-12) + 1e-300)
     if int(sub.sum()) > max_pairs:
         return Rationalised(k, greedy_choice, upper, "greedy", False, bool(np.isfinite(upper)))
@@ -294,9 +301,12 @@ def _swaps(cost, groups, chosen, rounds: int = 50):
 
 
 def penalty_table(passes, weight, value, groups=None, tiebreak=None, up_to: int | None = None,
-                  **kw) -> list:
+                  budget: float = PENALTY_BUDGET, **kw) -> list:
     """Rationalisations for K = 1, 2, ... up to the number of distinct sections the members pick
-    on their own (the unrestricted optimum), or ``up_to``; each a :class:`Rationalised`."""
+    on their own (the unrestricted optimum), or ``up_to``; each a :class:`Rationalised`. Once the
+    exact solves have taken ``budget`` seconds, the remaining K are found by the greedy method."""
+    import time
+
     passes = np.asarray(passes, bool) & np.isfinite(np.asarray(value, float))[None, :]
     if passes.shape[0] == 0 or not passes.any(axis=1).all():
         return []
@@ -306,4 +316,8 @@ def penalty_table(passes, weight, value, groups=None, tiebreak=None, up_to: int 
     k_max = _most_per_group(own, groups)
     if up_to is not None:
         k_max = min(k_max, up_to)
-    return [rationalise(passes, weight, value, k, groups, tiebreak, **kw) for k in range(1, k_max + 1)]
+    start, out = time.perf_counter(), []
+    for k in range(1, k_max + 1):
+        late = time.perf_counter() - start > budget
+        out.append(rationalise(passes, weight, value, k, groups, tiebreak, **({**kw, "max_pairs": 0} if late else kw)))
+    return out
