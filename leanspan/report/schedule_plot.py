@@ -41,6 +41,12 @@ def penalty_figure(result, units: str = "si"):
     if ks:
         ax.set_xticks(ks if len(ks) <= 20 else ks[::max(1, len(ks) // 20)])
     ax.grid(True, lw=0.3, color="#ccc")
+    if pen:
+        ax.set_ylim(-0.05 * max(max(pen), 1.0), 1.15 * max(max(pen), 1.0))
+    none = [p["sizes"] for p in result.sizes["penalty"] if not p["feasible"]]
+    if none:
+        ax.text(0.99, 0.97, f"K = {none[0]}{'' if len(none) == 1 else f' to {none[-1]}'}: no set passes "
+                "for every member", transform=ax.transAxes, ha="right", va="top", fontsize=7, color="#c0392b")
     return fig
 
 
