@@ -56,6 +56,8 @@ def run(args) -> int:
     sizes = sizes if sizes is not None else opts.sizes
     pareto = pareto if pareto is not None else opts.pareto
     per = args.sizes_per or opts.sizes_per
+    if args.plot and sizes is None and pareto is None:
+        raise InputError("--plot: nothing to draw; give --sizes K (the penalty plot) or --pareto A,B")
     schedule = dataclasses.replace(schedule, options=dataclasses.replace(opts, sizes=sizes, pareto=pareto,
                                                                          sizes_per=per))
     with stage("selecting the members"):
@@ -78,8 +80,6 @@ def run(args) -> int:
     if args.plot:
         from ..report.schedule_plot import plot_schedule
 
-        if result.sizes is None and result.pareto is None:
-            raise InputError("--plot: nothing to draw; give --sizes K (the penalty plot) or --pareto A,B")
         with option_paths(("--plot", args.plot)), stage("drawing the schedule"):
             plots = plot_schedule(result, args.plot, args.units)
     if args.json:
