@@ -2,7 +2,8 @@
 
 - The arrows of DEVELOPERS.md, read from every module's imports (ast): beam and sections
   know nothing of each other, sections no catalogue, catalog no selection, no core package
-  the report or the command line.
+  the report or the command line; schedule sits on select (no other core package imports it,
+  and it reaches beams and sections only through select).
 - A check registered from this file alone shows up in the screen, the ranked table, the
   JSON and the sheet, and takes its topic off the "not checked" list.
 - A beam file's ``units`` reaches an inline section.
@@ -21,10 +22,11 @@ from leanspan.cli import main
 from leanspan.select.checks import Check, not_checked, registered_check
 
 PACKAGE = Path(__file__).resolve().parents[1] / "leanspan"
-CORE = ("sections", "catalog", "beam", "select")
+CORE = ("sections", "catalog", "beam", "select", "schedule")
 FORBIDDEN = {("beam", "sections"), ("sections", "beam"), ("sections", "catalog"), ("catalog", "select"),
              ("select", "report"), ("sections", "select"), ("beam", "select"), ("beam", "catalog"),
-             ("catalog", "report")} | {(c, "cli") for c in CORE} | {(c, "report") for c in CORE}
+             ("catalog", "report")} | {(c, "cli") for c in CORE} | {(c, "report") for c in CORE} \
+    | {(c, "schedule") for c in CORE if c != "schedule"} | {("schedule", "beam"), ("schedule", "sections")}
 
 
 def _imports(path: Path, package: Path = PACKAGE):

@@ -71,6 +71,7 @@ RUNS = (
        ["materials", "--json"]]
     + [["select", f, "--json"] for f in _examples("select-*.toml")]
     + [["demo", "--json"]]
+    + [["schedule", f, "--json", "--pareto", "mass,carbon"] for f in _examples("schedule-*.toml")]
 )
 
 
@@ -108,6 +109,15 @@ def test_selection_job_keys_are_documented():
     from leanspan.project import PROJECT_KEYS
 
     assert not _missing(set(PROJECT_KEYS) | {"project"}), "[project] keys"
+
+
+def test_schedule_file_keys_are_documented():
+    from leanspan.schedule import objectives, parse
+
+    assert not _missing(parse.SCHEDULE_KEYS | parse.MEMBER_KEYS | parse.DEFAULT_KEYS), "schedule keys"
+    assert not _missing(parse.CSV_COLUMNS | {f"{p}.CASE" for p in ("area", "line", "point")}
+                        | {"search.KEY", "limits.KEY"}), "members CSV columns"
+    assert not _missing(objectives._PRICE_KEYS | set(objectives.OBJECTIVES)), "[[price]] keys and objectives"
 
 
 def test_beam_job_keys_are_documented():

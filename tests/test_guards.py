@@ -229,3 +229,14 @@ def test_a_huge_rectangle_is_refused(tmp_path, capsys):
     assert main(["section", str(sec), "--json"]) == 2
     err = capsys.readouterr().err.strip()
     assert "part[1].b" in err and "out of range" in err
+
+
+def test_a_schedule_where_no_member_passes(tmp_path, capsys):
+    # was: TypeError in the totals line (no passing member left the total mass None)
+    sched = tmp_path / "s.toml"
+    sched.write_text('[search]\nfamilies = ["sawn_metric"]\nmax_depth = "100 mm"\n[limits]\nstress_factor = 0.6\n'
+                     '[[member]]\nname = "A"\nspans = ["6 m"]\nline_loads = { imposed = "5 kN/m" }\n',
+                     encoding="utf-8")
+    assert main(["schedule", str(sched), "--sizes", "2"]) == 1
+    out = capsys.readouterr().out
+    assert "mass 0 kg" in out and "Nothing passes for: A" in out

@@ -30,7 +30,7 @@ for _var in ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS"):
 __all__ = ["main", "add_common", "emit_json", "option_paths", "warn", "stage", "check_finite",
            "check_outputs", "OUTPUT_OPTIONS"]
 
-COMMANDS = ["section", "beam", "catalog", "materials", "select", "demo"]
+COMMANDS = ["section", "beam", "catalog", "materials", "select", "demo", "schedule"]
 OUTPUT_OPTIONS = ("csv", "report", "markdown", "plot", "outline")  # argparse names of output-path options
 
 
@@ -94,22 +94,23 @@ def _guarded(args):
     check_outputs(args)
     # underflow stays quiet: a tiny result rounding to zero is not an error
     with np.errstate(over="raise", divide="raise", invalid="raise"), warnings.catch_warnings(), \
-            stage(f"leanspan {args.command}"), heartbeat(args.command):
+            stage(f"leanspan {args.command}"), heartbeat(args.command, quiet=getattr(args, "own_progress", False)):
         warnings.simplefilter("error", RuntimeWarning)
         warnings.showwarning = show
         return args.run(args)
 
 
 @contextmanager
-def heartbeat(command: str, after: float = 1.0, every: float = 1.0, stream=None):
+def heartbeat(command: str, after: float = 1.0, every: float = 1.0, stream=None, quiet: bool = False):
     """On a terminal, a one-line progress note on stderr once work has taken ``after`` seconds
     (``leanspan select: working, 3 s``), updated every ``every`` seconds and wiped at the end;
-    nothing when stderr is not a terminal (pipes, files, tests)."""
+    nothing when stderr is not a terminal (pipes, files, tests) or when the command shows its
+    own progress (``quiet``)."""
     import threading
     import time
 
     stream = stream or sys.stderr
-    if not getattr(stream, "isatty", lambda: False)():
+    if quiet or not getattr(stream, "isatty", lambda: False)():
         yield
         return
     start, done = time.monotonic(), threading.Event()

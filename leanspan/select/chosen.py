@@ -38,15 +38,16 @@ class ChosenMember:
         return self.member.section
 
 
-def chosen_member(sel) -> ChosenMember:
-    """Solve the chosen (else the closest) candidate of selection ``sel``."""
-    k = int(sel.order[0])
+def chosen_member(sel, position: int = 0) -> ChosenMember:
+    """Solve the chosen (else the closest) candidate of selection ``sel``, or the candidate at
+    rank ``position`` (0-based) when given."""
+    k = int(sel.order[position])
     row = sel.table.iloc[k]
     member = member_from_row(row)
     props = member.section.properties()
     props["y_neutral"] = member.y_neutral
     model = beam_with_member(sel.job.model, member, self_weight=sel.job.search.self_weight)
-    cand = sel.chosen if sel.chosen is not None else sel.rows([0])[0]
+    cand = sel.chosen if (sel.chosen is not None and position == 0) else sel.rows([position])[0]
     return ChosenMember(k, cand, row, member, props, solve(model), sel)
 
 

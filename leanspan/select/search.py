@@ -157,7 +157,7 @@ def _mixed_bases(df, job) -> list:
         return []
     by_basis = {}
     # the distinct materials, in table order (a flitch row names two: "C24 + S275")
-    for name in dict.fromkeys(n for m in dict.fromkeys(df["material"]) for n in str(m).split(" + ")):
+    for name in dict.fromkeys(n for m in df["material"].unique() for n in str(m).split(" + ")):
         m = table.get(name)
         if m is not None and m.basis:
             by_basis.setdefault(m.basis, name)
@@ -234,14 +234,37 @@ def rank_order(df, res: Screen, objective: str) -> np.ndarray:
     name), then failing ones by their largest utilisation."""
     mass = df["mass_per_length"].to_numpy(float)
     depth = df["depth"].to_numpy(float)
-    names = df["name"].to_numpy().astype(str)
+    names = df["name"].to_numpy()
     worst = np.fmax.reduce(np.stack(list(res.utilisation.values()), axis=1), axis=1)
     first, second = (mass, depth) if objective == "mass" else (depth, mass)
     p = np.flatnonzero(res.passes)
     f = np.flatnonzero(~res.passes)
-    p = p[np.lexsort((names[p], second[p], first[p]))]
-    f = f[np.lexsort((names[f], first[f], worst[f]))]
+    p = _by_keys(p, (second[p], first[p]), names)
+    f = _by_keys(f, (first[f], worst[f]), names)
     return np.concatenate([p, f])
+
+
+def _by_keys(index, keys, names):
+    """``index`` sorted by the float ``keys`` (last key first, as ``np.lexsort``), ties by name.
+
+    The names are compared only within runs of equal keys (sorting text is slow, ties are rare).
+
+    >>> _by_keys(np.arange(4), (np.zeros(4), np.array([2.0, 1.0, 1.0, 0.0])),
+    ...          np.array(["d", "c", "b", "a"], dtype=object)).tolist()
+    [3, 2, 1, 0]
+    """
+    order = np.lexsort(keys)
+    index = index[order]
+    k = np.stack([np.asarray(a)[order] for a in keys], axis=1)
+    same = np.all((k[1:] == k[:-1]) | (np.isnan(k[1:]) & np.isnan(k[:-1])), axis=1)
+    if not same.any():
+        return index
+    starts = np.flatnonzero(np.diff(np.r_[0, same.astype(np.int8), 0]) == 1)
+    ends = np.flatnonzero(np.diff(np.r_[0, same.astype(np.int8), 0]) == -1) + 1
+    for a, b in zip(starts, ends):  # the runs of ties: few and short
+        run = index[a:b]
+        index[a:b] = run[np.argsort(np.asarray(names[run]).astype(str), kind="stable")]
+    return index
 
 
 def run_selection(job, table=None) -> Selection:
