@@ -274,6 +274,9 @@ def fundamental_frequencies(model: BeamModel, EI, mass_per_length, permanent_cas
     return _reduced_basis(sysm, ratio, mass)
 
 
+_SEEDS = 6  # full solves spread over the masses to start a one-parameter basis
+
+
 def _reduced_basis(sysm, ratio, mass, rtol=1e-9, modes=3, max_rounds=40):
     """f1 of every candidate by Rayleigh-Ritz on a basis grown greedily from full solves.
 
@@ -289,7 +292,11 @@ def _reduced_basis(sysm, ratio, mass, rtol=1e-9, modes=3, max_rounds=40):
     Sd = np.diag(sysm.S)
     full = lambda k: scipy.linalg.eigh(mass[k] * sysm.Mu + sysm.Mp, ratio[k] * sysm.K1 + Sd,  # noqa: E731
                                        subset_by_index=[max(0, n - modes), n - 1])[1]
-    seeds = np.unique([np.argmin(mass), np.argmax(mass), np.argmin(ratio), np.argmax(ratio)])
+    seeds = [np.argmin(mass), np.argmax(mass), np.argmin(ratio), np.argmax(ratio)]
+    if np.ptp(ratio) == 0:  # one parameter (the mass): seed along it, so that few rounds remain
+        order = np.argsort(mass)
+        seeds += list(order[np.linspace(0, mass.size - 1, min(mass.size, _SEEDS)).astype(int)])
+    seeds = np.unique(seeds)
     basis = np.concatenate([full(k) for k in seeds], axis=1)
     for _ in range(max_rounds):
         V = np.linalg.qr(basis)[0]
