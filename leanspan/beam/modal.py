@@ -274,6 +274,11 @@ def fundamental_frequencies(model: BeamModel, EI, mass_per_length, permanent_cas
     return _reduced_basis(sysm, ratio, mass)
 
 
+def _congruent(L, X):
+    """``L^-1 X L^-T`` of the symmetric part of ``X`` (``L`` lower triangular, a Cholesky factor)."""
+    return np.linalg.solve(L, np.linalg.solve(L, (X + X.T) / 2).T)
+
+
 _SEEDS = 6  # full solves spread over the masses to start a one-parameter basis
 
 
@@ -302,17 +307,26 @@ def _reduced_basis(sysm, ratio, mass, rtol=1e-9, modes=3, max_rounds=40):
         V = np.linalg.qr(basis)[0]
         KV, SV, MuV, MpV = sysm.K1 @ V, Sd @ V, sysm.Mu @ V, sysm.Mp @ V
         k1, sv, mu_, mp = (V.T @ X for X in (KV, SV, MuV, MpV))
+        one_stiffness = np.ptp(ratio) == 0
+        if one_stiffness:
+            A1 = ratio[0] * k1 + sv
+            Lc1 = np.linalg.cholesky((A1 + A1.T) / 2)
+            Cu, Cp = _congruent(Lc1, mu_), _congruent(Lc1, mp)
         lam = np.empty(ratio.size)
         res = np.empty(ratio.size)
         for start in range(0, ratio.size, _BLOCK):
             rows = slice(start, min(ratio.size, start + _BLOCK))
             r, m = ratio[rows, None, None], mass[rows, None, None]
-            A, B = r * k1 + sv, m * mu_ + mp
-            A, B = (A + np.swapaxes(A, 1, 2)) / 2, (B + np.swapaxes(B, 1, 2)) / 2
-            Lc = np.linalg.cholesky(A)
-            C = np.linalg.solve(Lc, np.swapaxes(np.linalg.solve(Lc, B), 1, 2))
-            w, z = np.linalg.eigh(C)
-            y = np.linalg.solve(np.swapaxes(Lc, 1, 2), z[:, :, -1:])[..., 0]  # Ritz vector coefficients
+            if one_stiffness:  # A is the same for all: one factor, C = m Cu + Cp
+                w, z = np.linalg.eigh(m * Cu + Cp)
+                y = np.linalg.solve(Lc1.T, z[:, :, -1].T).T  # Ritz vector coefficients
+            else:
+                A, B = r * k1 + sv, m * mu_ + mp
+                A, B = (A + np.swapaxes(A, 1, 2)) / 2, (B + np.swapaxes(B, 1, 2)) / 2
+                Lc = np.linalg.cholesky(A)
+                C = np.linalg.solve(Lc, np.swapaxes(np.linalg.solve(Lc, B), 1, 2))
+                w, z = np.linalg.eigh(C)
+                y = np.linalg.solve(np.swapaxes(Lc, 1, 2), z[:, :, -1:])[..., 0]  # Ritz vector coefficients
             lam[rows] = 1.0 / w[:, -1]
             Ax = r[..., 0] * (y @ KV.T) + y @ SV.T
             Bx = m[..., 0] * (y @ MuV.T) + y @ MpV.T

@@ -455,14 +455,22 @@ class FieldSampler:
         """Coefficients (K, C_concrete, len(elems), n) of the combined field on elements ``elems``:
         sum_u F_cu field_u + t_kc field_self-weight (t = the candidate's factored weight), for
         ``"M"``, ``"V"`` or ``"v"`` (deflections of the unit-EI solve scaled by 1/EI_k)."""
+        field, scale = self._field(name)
+        return self._scaled(self._combine(field[:, :, elems, :]), scale)
+
+    def _field(self, name):
+        """The unit-case coefficients (1 or K, U, E, n) of ``name`` and whether they still need
+        each candidate's 1/EI (deflections of the unit-EI solve)."""
         r = self.resp
-        field = {"M": r.M, "V": r.V, "v": r.v}[name]
         scale = name == "v" and self.v_scale is not None
         if scale:
-            field = r.v[:1] * r.EI[:1, None, :, None]
-        out = self._combine(field[:, :, elems, :])
+            return r.v[:1] * r.EI[:1, None, :, None], True
+        return {"M": r.M, "V": r.V, "v": r.v}[name], False
+
+    def _scaled(self, out, scale):
+        """Combined values (K', C, ...) times 1/EI_k where needed, broadcast to all K."""
         if scale:
-            out = out * self.v_scale[:, None, None, None]
+            out = out * self.v_scale.reshape((-1,) + (1,) * (out.ndim - 1))
         return np.broadcast_to(out, (self.mass_g.size,) + out.shape[1:])
 
     def peak(self, name: str, a: float, b: float) -> np.ndarray:
@@ -484,7 +492,9 @@ class FieldSampler:
         r = self.resp
         x = np.atleast_1d(np.asarray(x, float))
         e = np.clip(np.searchsorted(r.x_nodes, x, side="right") - 1, 0, r.lengths.size - 1)
-        return _horner(self._combined(name, e), (x - r.x_nodes[e]))  # (K, C, P)
+        field, scale = self._field(name)
+        # the unit cases at the points first (1 or K, U, P), then combined: O(K C P), not O(K C P n)
+        return self._scaled(self._combine(_horner(field[:, :, e, :], x - r.x_nodes[e])), scale)  # (K, C, P)
 
 
 def screen_loop(model, cand: Candidates, self_weight_case=None) -> Screen:
