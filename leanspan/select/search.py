@@ -254,17 +254,17 @@ def _by_keys(index, keys, names):
     [3, 2, 1, 0]
     """
     order = np.lexsort(keys)
-    index = index[order]
     k = np.stack([np.asarray(a)[order] for a in keys], axis=1)
     same = np.all((k[1:] == k[:-1]) | (np.isnan(k[1:]) & np.isnan(k[:-1])), axis=1)
     if not same.any():
-        return index
-    starts = np.flatnonzero(np.diff(np.r_[0, same.astype(np.int8), 0]) == 1)
-    ends = np.flatnonzero(np.diff(np.r_[0, same.astype(np.int8), 0]) == -1) + 1
-    for a, b in zip(starts, ends):  # the runs of ties: few and short
-        run = index[a:b]
-        index[a:b] = run[np.argsort(np.asarray(names[run]).astype(str), kind="stable")]
-    return index
+        return index[order]
+    tied = np.zeros(order.size, bool)  # sorted positions inside a run of equal keys
+    tied[1:] |= same
+    tied[:-1] |= same
+    rows = order[tied]
+    name_rank = np.zeros(order.size, np.int64)  # only the tied rows need their names ranked
+    name_rank[rows] = np.unique(np.asarray(names[index[rows]]).astype(str), return_inverse=True)[1]
+    return index[np.lexsort((name_rank,) + tuple(keys))]
 
 
 def run_selection(job, table=None) -> Selection:
