@@ -44,6 +44,36 @@ def column_factor(unit: str, kind: str, field: str, error=CatalogError) -> float
     return unit_factor(unit, kind, field, error)
 
 
+def _lines(text: str, path, error):
+    """``(line number, stripped cells)`` of every row that is neither blank nor a comment.
+
+    Text without quotes is split on commas directly (a supplier list of 100,000 rows reads in a
+    fraction of the csv module's time, and cells are stripped only on lines with blanks); text
+    with quotes goes through the csv module.
+    """
+    if '"' not in text:
+        # the csv module's line ends only (str.splitlines would also split on \f, \x1c ...)
+        for number, line in enumerate(text.replace("\r\n", "\n").replace("\r", "\n").split("\n"), 1):
+            bare = line.strip()
+            if not bare.strip(",") or bare.startswith("#"):
+                continue
+            cells = line.split(",")
+            if " " in line or not line.isprintable():  # blanks, tabs and other white space
+                cells = [c.strip() for c in cells]
+            if any(cells):
+                yield number, cells
+        return
+    reader = csv.reader(io.StringIO(text))
+    try:
+        for cells in reader:
+            cells = [c.strip() for c in cells]
+            if not any(cells) or cells[0].startswith("#"):
+                continue
+            yield reader.line_num, cells
+    except csv.Error as exc:
+        raise error(f"{path}: row {reader.line_num}: broken CSV ({exc})") from None
+
+
 def read_table(path, error=CatalogError, text: str | None = None):
     """Read a CSV file into ``(header, rows)``.
 
@@ -74,23 +104,15 @@ def read_table(path, error=CatalogError, text: str | None = None):
         text = read_text(path, "a CSV file", error, encoding="utf-8-sig")
     header = None
     rows = []
-    reader = csv.reader(io.StringIO(text))
-    try:
-        for cells in reader:
-            line = reader.line_num
-            cells = [c.strip() for c in cells]
-            if not any(cells) or cells[0].startswith("#"):
-                continue
-            if header is None:
-                header = [split_header(c) for c in cells]
-                names = [h for h, _ in header]
-                dup = {n for n in names if names.count(n) > 1}
-                if dup:
-                    raise error(f"{path}: row {line}: column {sorted(dup)[0]!r} appears twice")
-                continue
-            rows.append((line, cells))
-    except csv.Error as exc:
-        raise error(f"{path}: row {reader.line_num}: broken CSV ({exc})") from None
+    for line, cells in _lines(text, path, error):
+        if header is None:
+            header = [split_header(c) for c in cells]
+            names = [h for h, _ in header]
+            dup = {n for n in names if names.count(n) > 1}
+            if dup:
+                raise error(f"{path}: row {line}: column {sorted(dup)[0]!r} appears twice")
+            continue
+        rows.append((line, cells))
     if header is None:
         raise error(f"{path}: no header row; expected column names such as 'family,d,b'")
     return header, rows
