@@ -76,10 +76,23 @@ def _moduli(props, limits):
     return out
 
 
+def _metal_moduli(props, limits):
+    """S for sagging and hogging (K,), classifying the metal candidates only: the others keep the
+    gross modulus (they have no plates to classify), which :func:`_moduli` would give them too."""
+    gross = np.minimum(np.asarray(props["Sz_top"], float), np.asarray(props["Sz_bot"], float))
+    metal = np.isin(np.asarray(props["kind"]).astype(str), METALS)
+    out = [gross.copy(), gross.copy()]
+    if metal.any():
+        sub = {c: np.asarray(v)[metal] for c, v in props.items()}
+        for S, (S_metal, _) in zip(out, _moduli(sub, limits)):
+            S[metal] = S_metal
+    return out
+
+
 def _demand(eff, props):
     if any(c not in props for c in _NEEDED):  # candidates without geometry (direct allowables)
         return np.full(eff.M_max.shape, np.nan)
-    (S_sag, _), (S_hog, _) = _moduli(props, eff.limits)
+    S_sag, S_hog = _metal_moduli(props, eff.limits)
     with np.errstate(divide="ignore", invalid="ignore"):
         sag = np.where(eff.M_max > 0, eff.M_max / S_sag[:, None], 0.0)
         hog = np.where(eff.M_min < 0, -eff.M_min / S_hog[:, None], 0.0)
