@@ -152,7 +152,7 @@ class _Mesh:
 def _nearest(x, values):
     """Index of the nearest entry of the sorted array ``x`` for each of ``values``."""
     values = np.asarray(values, float)
-    i = np.clip(np.searchsorted(x, values), 1, max(x.size - 1, 1))
+    i = np.minimum(np.maximum(np.searchsorted(x, values), 1), max(x.size - 1, 1))  # (np.clip is slower)
     return np.where(np.abs(values - x[i - 1]) <= np.abs(x[i] - values), i - 1, i)
 
 

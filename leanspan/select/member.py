@@ -166,9 +166,9 @@ def member_arrays(df, columns=()) -> dict:
     out = {"EI": df["E"].to_numpy(float) * df["Iz"].to_numpy(float),
            "mass_per_length": df["mass_per_length"].to_numpy(float)}
     for c in columns:
-        if c not in out:  # numbers as floats; text columns (kind, series, family) as they are
+        if c not in out:  # numbers as floats; text columns (kind, series, family) as numpy text
             col = df[c].to_numpy()
-            out[c] = col.astype(float) if col.dtype.kind in "biuf" else col
+            out[c] = col.astype(float) if col.dtype.kind in "biuf" else col.astype(str)
     return out
 
 

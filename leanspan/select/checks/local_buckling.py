@@ -38,7 +38,7 @@ from ...errors import SelectionError
 from ..design import allowable_stress
 from .bending import BENDING
 from .registry import Check, TextRule, register
-from .section_class import METALS, classify, effective_moduli, epsilon
+from .section_class import METALS, classify, content_key, effective_moduli, epsilon, memoised
 
 __all__ = ["LOCAL_BUCKLING", "CHOICES", "slender_choice"]
 
@@ -63,12 +63,18 @@ def _active(limits) -> bool:
 
 
 def _moduli(props, limits):
-    """S for sagging and hogging (K,) by the job's choice, and the two classifications."""
+    """S for sagging and hogging (K,) by the job's choice, and the two classifications (worked
+    out once per distinct set of candidates: they depend on the sections alone)."""
+    choice = slender_choice(limits)
+    return memoised(content_key(props, _COLUMNS, choice), lambda: _moduli_of(props, choice))
+
+
+def _moduli_of(props, choice):
     gross = np.minimum(np.asarray(props["Sz_top"], float), np.asarray(props["Sz_bot"], float))
     out = []
     for sign in (1.0, -1.0):
         cls = classify(props, sign)
-        if slender_choice(limits) == "effective":
+        if choice == "effective":
             S = effective_moduli(props, sign)[0]
         else:
             S = np.where(cls.section_class == 4, 0.0, gross)

@@ -84,6 +84,7 @@ Examples
 
 from __future__ import annotations
 
+import hashlib
 from dataclasses import dataclass
 
 import numpy as np
@@ -351,6 +352,37 @@ def effective_moduli(props, sign: float = 1.0):
     tube4 = ((el.type == TUBE).any(axis=1)) & (cls == 4)
     S = np.where(cls == 4, np.where(tube4, 0.0, np.minimum(S, S_gross)), S_gross)
     return S, np.where(el.horizontal, r1, r2)
+
+
+_MEMO: dict = {}  # content key -> result: the last few catalogues' classifications
+_MEMO_SIZE = 8
+
+
+def content_key(props, columns, *extra) -> bytes:
+    """A digest of the ``columns`` of ``props`` (and ``extra`` values): equal for equal data, so a
+    schedule's members, which screen the same catalogue rows, classify them once."""
+    h = hashlib.blake2b(digest_size=16)
+    for c in columns:
+        a = np.asarray(props[c]) if c in props else np.array([])
+        h.update(c.encode())
+        if a.dtype.kind in "US":  # fixed-width text: its bytes and width say it all
+            h.update(f"{a.dtype.str}{a.shape}".encode())
+            h.update(np.ascontiguousarray(a).tobytes())
+        elif a.dtype == object:
+            h.update("\0".join(map(str, a)).encode())
+        else:
+            h.update(np.ascontiguousarray(a, float).tobytes())
+    h.update(repr(extra).encode())
+    return h.digest()
+
+
+def memoised(key, compute):
+    """``compute()`` once per ``key`` (a :func:`content_key`), for the last few keys."""
+    if key not in _MEMO:
+        if len(_MEMO) >= _MEMO_SIZE:
+            _MEMO.pop(next(iter(_MEMO)))
+        _MEMO[key] = compute()
+    return _MEMO[key]
 
 
 def web_shear(props):
