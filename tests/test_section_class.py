@@ -337,3 +337,26 @@ def test_rows_thicker_than_the_table_keep_its_last_step_with_a_warning(tmp_path)
     df = catalog_table(user_csv=p)
     assert df.strength_bending[0] == pytest.approx(295e6)  # EN 10025-2 Table 7, 100 < t <= 150 mm (from memory)
     assert any("S355: 1 catalogue row(s) thicker than 150 mm" in w for w in df.attrs["warnings"])
+
+
+def test_results_are_kept_only_for_read_only_arrays():
+    """memoised keeps a result for read-only (shared) arrays, keyed by their identity; writable
+    arrays, or other arrays with equal values, are worked out afresh (a counter is the reference)."""
+    from leanspan.select.checks.section_class import memoised
+
+    calls = []
+
+    def compute():
+        calls.append(1)
+        return len(calls)
+
+    a = np.arange(3.0)
+    assert memoised({"x": a}, ("x",), "t", compute) == 1
+    assert memoised({"x": a}, ("x",), "t", compute) == 2  # writable: not kept
+    a.flags.writeable = False
+    assert memoised({"x": a}, ("x",), "t", compute) == 3
+    assert memoised({"x": a}, ("x",), "t", compute) == 3  # kept
+    assert memoised({"x": a}, ("x",), "other", compute) == 4  # another question
+    b = np.arange(3.0)
+    b.flags.writeable = False
+    assert memoised({"x": b}, ("x",), "t", compute) == 5  # other arrays, even with equal values

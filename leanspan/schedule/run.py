@@ -31,6 +31,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..errors import LeanspanError
+from ..select.member import share_table_arrays
 from ..select.search import candidate_table, run_selection
 from .parse import BadMember, member_key, member_label
 
@@ -102,6 +103,7 @@ def table_for(search):
     key = _search_key(search)
     if key not in _TABLES:
         _TABLES[key] = candidate_table(search)
+        share_table_arrays(_TABLES[key])  # read-only from here: every member reuses its columns
     return _TABLES[key]
 
 

@@ -25,6 +25,8 @@ import dataclasses
 from dataclasses import dataclass, field
 from pathlib import Path
 
+import weakref
+
 import numpy as np
 
 from ..beam import Stiffness
@@ -163,13 +165,44 @@ def member_arrays(df, columns=()) -> dict:
     >>> round(float(out["EI"][0])), float(out["Sz_top"][0])
     (2000000, 0.0001)
     """
-    out = {"EI": df["E"].to_numpy(float) * df["Iz"].to_numpy(float),
-           "mass_per_length": df["mass_per_length"].to_numpy(float)}
-    for c in columns:
-        if c not in out:  # numbers as floats; text columns (kind, series, family) as numpy text
-            col = df[c].to_numpy()
-            out[c] = col.astype(float) if col.dtype.kind in "biuf" else col.astype(str)
-    return out
+    cache = _shared_columns(df)
+    for c in ("EI", "mass_per_length", *columns):
+        if c not in cache:  # numbers as floats; text columns (kind, series, family) as numpy text
+            if c == "EI":
+                col = df["E"].to_numpy(float) * df["Iz"].to_numpy(float)
+            else:
+                col = df[c].to_numpy()
+                col = col.astype(float) if col.dtype.kind in "biuf" else col.astype(str)
+            cache[c] = col
+    return {c: cache[c] for c in ("EI", "mass_per_length", *columns)}
+
+
+_SHARED: dict = {}  # id(table) -> (weak reference, {column: array}) of the tables shared read-only
+
+
+def share_table_arrays(df) -> None:
+    """Declare table ``df`` read-only from now on, so that :func:`member_arrays` takes each of its
+    columns once and every later screen of it reuses the arrays (a schedule screens one table for
+    every member; pandas column access then costs more than a small screen's arithmetic). Do not
+    change ``df`` afterwards."""
+    entry = _SHARED.get(id(df))
+    if entry is None or entry[0]() is not df:
+        _SHARED[id(df)] = (weakref.ref(df), _ReadOnlyColumns())
+
+
+def _shared_columns(df) -> dict:
+    """The column arrays kept for a shared table; a fresh dict (nothing kept) for any other."""
+    entry = _SHARED.get(id(df))
+    return entry[1] if entry is not None and entry[0]() is df else {}
+
+
+class _ReadOnlyColumns(dict):
+    """The kept arrays of a shared table, each made read-only as it is stored: the checks may
+    then keep results per array (see :func:`leanspan.select.checks.section_class.memoised`)."""
+
+    def __setitem__(self, key, value):
+        value.flags.writeable = False
+        super().__setitem__(key, value)
 
 
 def section_stiffness(spec, material, base_dir, field: str = "beam.section", units=None, catalog=None):

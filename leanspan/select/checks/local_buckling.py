@@ -38,7 +38,7 @@ from ...errors import SelectionError
 from ..design import allowable_stress
 from .bending import BENDING
 from .registry import Check, TextRule, register
-from .section_class import METALS, classify, content_key, effective_moduli, epsilon, memoised
+from .section_class import METALS, classify, effective_moduli, epsilon, memoised
 
 __all__ = ["LOCAL_BUCKLING", "CHOICES", "slender_choice"]
 
@@ -63,13 +63,8 @@ def _active(limits) -> bool:
 
 
 def _moduli(props, limits):
-    """S for sagging and hogging (K,) by the job's choice, and the two classifications (worked
-    out once per distinct set of candidates: they depend on the sections alone)."""
+    """S for sagging and hogging (K,) by the job's choice, and the two classifications."""
     choice = slender_choice(limits)
-    return memoised(content_key(props, _COLUMNS, choice), lambda: _moduli_of(props, choice))
-
-
-def _moduli_of(props, choice):
     gross = np.minimum(np.asarray(props["Sz_top"], float), np.asarray(props["Sz_bot"], float))
     out = []
     for sign in (1.0, -1.0):
@@ -84,7 +79,12 @@ def _moduli_of(props, choice):
 
 def _metal_moduli(props, limits):
     """S for sagging and hogging (K,), classifying the metal candidates only: the others keep the
-    gross modulus (they have no plates to classify), which :func:`_moduli` would give them too."""
+    gross modulus (they have no plates to classify), which :func:`_moduli` would give them too.
+    Worked out once for a shared table's arrays (:func:`.section_class.memoised`)."""
+    return memoised(props, _COLUMNS, ("metal", slender_choice(limits)), lambda: _metal_moduli_of(props, limits))
+
+
+def _metal_moduli_of(props, limits):
     gross = np.minimum(np.asarray(props["Sz_top"], float), np.asarray(props["Sz_bot"], float))
     metal = np.isin(np.asarray(props["kind"]).astype(str), METALS)
     out = [gross.copy(), gross.copy()]

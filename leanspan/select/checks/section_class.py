@@ -84,7 +84,6 @@ Examples
 
 from __future__ import annotations
 
-import hashlib
 from dataclasses import dataclass
 
 import numpy as np
@@ -354,36 +353,26 @@ def effective_moduli(props, sign: float = 1.0):
     return S, np.where(el.horizontal, r1, r2)
 
 
-_MEMO: dict = {}  # content key -> result: the last few catalogues' classifications
-_MEMO_SIZE = 8
+_MEMO: dict = {}  # key -> (the arrays it was worked out from, result), the last few
+_MEMO_SIZE = 4
 
 
-def content_key(props, columns, *extra) -> bytes:
-    """A digest of the ``columns`` of ``props`` (and ``extra`` values): equal for equal data, so a
-    schedule's members, which screen the same catalogue rows, classify them once."""
-    h = hashlib.blake2b(digest_size=16)
-    for c in columns:
-        a = np.asarray(props[c]) if c in props else np.array([])
-        h.update(c.encode())
-        if a.dtype.kind in "US":  # fixed-width text: its bytes and width say it all
-            h.update(f"{a.dtype.str}{a.shape}".encode())
-            h.update(np.ascontiguousarray(a).tobytes())
-        elif a.dtype == object:
-            h.update("\0".join(map(str, a)).encode())
-        else:
-            h.update(np.ascontiguousarray(a, float).tobytes())
-    h.update(repr(extra).encode())
-    return h.digest()
-
-
-def memoised(key, compute):
-    """``compute()`` once per ``key`` (a :func:`content_key`), for the last few keys."""
-    if key not in _MEMO:
-        if len(_MEMO) >= _MEMO_SIZE:
-            _MEMO.pop(next(iter(_MEMO)))
-        _MEMO[key] = compute()
-    return _MEMO[key]
-
+def memoised(props, columns, extra, compute):
+    """``compute()``, kept for read-only candidate arrays (a shared table's, see
+    :func:`leanspan.select.member.share_table_arrays`: a schedule's members screen the same
+    catalogue rows, which are then classified once). The key is the arrays' identity, and the
+    entry holds them, so an id is never reused while it is kept; writable arrays are not kept."""
+    arrays = tuple(props[c] for c in columns if c in props)
+    if not all(isinstance(a, np.ndarray) and not a.flags.writeable for a in arrays):
+        return compute()
+    key = (tuple(map(id, arrays)), extra)
+    hit = _MEMO.get(key)
+    if hit is not None and all(a is b for a, b in zip(hit[0], arrays)):
+        return hit[1]
+    if len(_MEMO) >= _MEMO_SIZE:
+        _MEMO.pop(next(iter(_MEMO)))
+    _MEMO[key] = (arrays, compute())
+    return _MEMO[key][1]
 
 def web_shear(props):
     """Web shear buckling of steel webs: ``(hw/t, limit 72 eps / eta, lam_w, chi_w, factor)`` (K,),

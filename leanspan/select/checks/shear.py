@@ -25,7 +25,7 @@ import numpy as np
 
 from ..design import allowable_stress
 from .registry import Check, TextRule, register
-from .section_class import content_key, memoised, web_shear
+from .section_class import memoised, web_shear
 
 __all__ = ["SHEAR"]
 
@@ -40,7 +40,7 @@ def _web(props):
     """web_shear of the candidates, or None for candidates without geometry (direct allowables)."""
     if not all(c in props for c in _WEB):
         return None
-    return memoised(content_key(props, _WEB, "web"), lambda: web_shear(props))  # the sections alone
+    return memoised(props, _WEB, "web", lambda: web_shear(props))  # depends on the sections alone
 
 
 def _allowable(props, limits, eff):
