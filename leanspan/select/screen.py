@@ -410,20 +410,32 @@ class FieldSampler:
     def __init__(self, resp, parents, mass_g, v_scale=None, rows=None):
         self.resp, self.parents, self.mass_g, self.v_scale = resp, parents, mass_g, v_scale
         self.rows = rows  # candidates of a batched (spring) response this sampler covers
+        self.combos = None  # the concrete combinations covered (None: all), see only()
         self.F = np.array([np.asarray(c.factors, float) for c in resp.combos]).reshape(len(resp.combos), -1)
 
     def take(self, index) -> "FieldSampler":
         """The sampler of candidates ``index`` only (for one candidate's details)."""
         index = np.atleast_1d(index)
         rows = index if self.rows is None else np.asarray(self.rows)[index]
-        return FieldSampler(self.resp, self.parents, self.mass_g[index],
-                            None if self.v_scale is None else self.v_scale[index], rows)
+        out = FieldSampler(self.resp, self.parents, self.mass_g[index],
+                           None if self.v_scale is None else self.v_scale[index], rows)
+        out.combos = self.combos
+        return out
+
+    def only(self, combos) -> "FieldSampler":
+        """The sampler of the concrete combinations ``combos`` (indices) only: ``at`` and ``peak``
+        then return (K, len(combos), ...) (a check that reads strength combinations alone skips
+        the others' arithmetic)."""
+        out = FieldSampler(self.resp, self.parents, self.mass_g, self.v_scale, self.rows)
+        out.combos = np.asarray(combos, int)
+        return out
 
     def _weights(self):
         """The factors (C_concrete, U) with the self-weight unit case zeroed, and each candidate's
-        factored weight per length on it, t (K, C_concrete)."""
+        factored weight per length on it, t (K, C_concrete); only the combinations ``self.combos``
+        when the sampler is restricted to them (:meth:`only`)."""
         sw = self.resp.self_weight_index
-        F = self.F.copy()
+        F = self.F[self.combos] if self.combos is not None else self.F.copy()
         t = self.mass_g[:, None] * (F[:, sw][None, :] if sw is not None else 0.0)
         if sw is not None:
             F[:, sw] = 0.0
@@ -535,6 +547,9 @@ class _StackedSampler:
         self.samplers = samplers
         self.parents = samplers[0].parents if samplers else np.zeros(0, int)
         self.resp = samplers[0].resp if samplers else None  # the combinations are the same for all
+
+    def only(self, combos) -> "_StackedSampler":
+        return _StackedSampler([s.only(combos) for s in self.samplers])
 
     def at(self, name, x):
         return np.concatenate([s.at(name, x) for s in self.samplers], axis=0)

@@ -199,7 +199,7 @@ def _resistance_factor(Mcr, S, f, curves, limits, allow=None):
 
 def _segment_results(eff, props):
     """Per segment between restraints: ``(a, b, cantilever, M, C1, Mcr, chi, demand)``, the
-    arrays (K, C_concrete) (C1 a float on a cantilever)."""
+    arrays (K, Cs) over the strength combinations :func:`_strength` (C1 a float on a cantilever)."""
     limits, model, sampler = eff.limits, eff.model, eff.sampler
     E, G = _fractile_moduli(props)
     curves = tuple(c[:, None] for c in _curves(props))
@@ -214,13 +214,16 @@ def _segment_results(eff, props):
         allow = np.asarray(allowable_stress(props, limits, eff, "bending"), float)
         allow = allow[:, sampler.parents] if allow.shape[1] > 1 else allow
     k_over = limits.get("overhang_length_factor", 2.0)
+    strength = _strength(sampler)
+    on = sampler.only(strength)  # the strength combinations alone
+    combos = [sampler.resp.combos[i] for i in strength]
     for a, b, cantilever in _segments(model, limits):  # a small set
         x = np.linspace(a, b, _SAMPLES)
-        M = sampler.at("M", x)  # (K, Cc, P): the quarter points for C1
-        Mpk = sampler.peak("M", a, b)  # the exact extreme on the segment
+        M = on.at("M", x)  # (K, Cs, P): the quarter points for C1
+        Mpk = on.peak("M", a, b)  # the exact extreme on the segment
         up = np.where(Mpk >= 0, 1.0, -1.0)  # sagging: the top flange is compressed
         C1 = 1.0 if cantilever else moment_factor(np.abs(Mpk), *(np.abs(M[..., j]) for j in (1, 2, 3)))
-        C2, C3 = _loading(model, sampler.resp.combos, sampler.resp.unit_cases, a, b, cantilever)
+        C2, C3 = _loading(model, combos, sampler.resp.unit_cases, a, b, cantilever)
         # zg: the load's height above the shear centre, destabilising above it whichever flange is
         # compressed (gravity loads); zj follows the compressed flange
         Mcr = critical_moment(E[:, None], G[:, None], Iy[:, None], J[:, None], Cw[:, None], b - a, C1, C2, C3,
@@ -237,31 +240,38 @@ def _untestable(props):
     return ~np.isclose(np.abs(np.sin(np.radians(2 * props["theta"]))), 0.0, atol=1e-9)
 
 
+def _strength(sampler) -> np.ndarray:
+    """Indices of the strength combinations among the concrete ones (the only ones checked)."""
+    return np.flatnonzero([c.check == "strength" for c in sampler.resp.combos])
+
+
 def _demand(eff, props):
     K, C = eff.M_max.shape
-    strength = np.array([c.check == "strength" for c in eff.sampler.resp.combos])
-    worst = np.full((K, len(strength)), -np.inf)
+    strength = _strength(eff.sampler)
+    worst = np.full((K, strength.size), -np.inf)
     for *_, d in _segment_results(eff, props):
         worst = np.fmax(worst, d)
     worst = np.where(_untestable(props)[:, None], np.inf, worst)
-    worst = np.where(strength[None, :], worst, np.nan)
-    return to_parents(worst, eff.sampler.parents, C, np.fmax)
+    full = np.full((K, len(eff.sampler.resp.combos)), np.nan)  # NaN: not a strength combination
+    full[:, strength] = worst
+    return to_parents(full, eff.sampler.parents, C, np.fmax)
 
 
 def _details(eff, props) -> dict:
     """The governing segment of one candidate: where it is, its moment, C1, Mcr and chi."""
-    strength = np.array([c.check == "strength" for c in eff.sampler.resp.combos])
+    strength = _strength(eff.sampler)
     best = None
     for a, b, cantilever, M, C1, Mcr, chi, d in _segment_results(eff, props):
-        d = np.where(strength, d[0], -np.inf)
-        j = int(np.argmax(d))
-        if best is None or d[j] > best[0]:
+        if d.shape[1] == 0:
+            break
+        j = int(np.argmax(d[0]))
+        if best is None or d[0, j] > best[0]:
             c1 = float(np.broadcast_to(C1, M.shape)[0, j])
-            best = (d[j], a, b, cantilever, float(M[0, j]), c1, float(Mcr[0, j]), float(chi[0, j]), j)
+            best = (d[0, j], a, b, cantilever, float(M[0, j]), c1, float(Mcr[0, j]), float(chi[0, j]), j)
     if best is None or not np.isfinite(best[0]) or bool(_untestable(props)[0]):
         return {"checked": False}
     _, a, b, cantilever, M, c1, mcr, chi, j = best
-    parent = int(eff.sampler.parents[j])
+    parent = int(eff.sampler.parents[strength[j]])
     return {"checked": True, "segment_start": a, "segment_end": b, "cantilever": bool(cantilever),
             "combination": eff.combinations[parent].name, "M": M, "C1": c1, "Mcr": mcr, "chi": chi,
             "method": eff.limits.get("lateral_torsional_method", "curve")}
