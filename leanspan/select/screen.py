@@ -26,6 +26,9 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..beam import G, respond, solve
+from ..beam.poly import (
+    evaluate as _horner,  # coefficients (..., n) at points s, Horner's rule
+)
 from ..beam.results import snap_round_off
 from .checks import Effects, active_checks
 from .job import Limits
@@ -195,14 +198,6 @@ def _grid(lengths):
     return lengths[:, None] * np.linspace(0.0, 1.0, _SAMPLES)[None, :]
 
 
-def _horner(coeffs, s):
-    """coeffs (..., n) at points s (broadcasting with coeffs[..., 0]) by Horner's rule."""
-    out = np.broadcast_to(coeffs[..., -1], np.broadcast_shapes(coeffs.shape[:-1], s.shape)).copy()
-    for k in range(coeffs.shape[-1] - 2, -1, -1):
-        out *= s
-        out += coeffs[..., k]
-    return out
-
 
 def _cubic_stations(coef, lo, hi):
     """Where a cubic (coefficients ``coef`` (..., n <= 4), local s) can peak on [lo, hi]: both ends
@@ -252,11 +247,15 @@ def _polished_extremes(coef, L, x0):
         s_start = s_grid[np.arange(E)[None, :], i]
         s = s_start
         best = np.take_along_axis(vals, i[..., None], axis=2)[..., 0]
-        for _ in range(4):
+        for _ in range(4):  # Newton converges in two or three steps from the grid: stop when it has
             g, h = _horner(d1, s), _horner(d2, s)
             ok = sign * h < 0  # curving the right way for a peak of sign * f
             with np.errstate(divide="ignore", invalid="ignore"):
-                s = np.clip(s - np.where(ok, g / np.where(ok, h, 1.0), 0.0), 0.0, L)
+                s_new = np.clip(s - np.where(ok, g / np.where(ok, h, 1.0), 0.0), 0.0, L)
+            done = np.all(np.abs(s_new - s) <= 1e-15 * L)
+            s = s_new
+            if done:
+                break
         f = _horner(coef, s)
         better = sign * f > sign * best
         value = np.where(better, f, best)
@@ -338,6 +337,9 @@ def screen(model, cand: Candidates, self_weight_case=None) -> Screen:
     return evaluate(screen_effects(model, cand, self_weight_case), cand)
 
 
+_SHARE = 0.7  # share the evaluation of equal weights when they cut the candidates to this fraction
+
+
 def screen_effects(model, cand: Candidates, self_weight_case=None) -> Effects:
     """The action effects (K, C) of every candidate under every combination, vectorised."""
     sw_case = self_weight_case if self_weight_case is not None else model.self_weight
@@ -355,19 +357,28 @@ def screen_effects(model, cand: Candidates, self_weight_case=None) -> Effects:
     else:
         v_field, v_scale = resp.v, None
 
+    # Without springs the forces depend on a candidate's weight alone and v scales with 1/EI, so
+    # candidates of equal weight (one section in several steel grades ...) share one evaluation
+    weights, back = np.unique(mass_g, return_inverse=True) if fixed else (mass_g, None)
+    shared = fixed and weights.size <= _SHARE * K
+    if not shared:
+        weights = mass_g
     C = len(resp.combos)
-    out = {k: np.full((K, C), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
+    out = {k: np.full((weights.size, C), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
     for ci, combo in enumerate(resp.combos):  # a small set
         F = np.asarray(combo.factors, float)
-        t = mass_g * (F[sw] if sw is not None else 0.0)
+        t = weights * (F[sw] if sw is not None else 0.0)
         if combo.check == "strength":
             m = _field_extremes(resp.M, F, sw, t, None, lengths, x0, all_elems)
             v = _field_extremes(resp.V, F, sw, t, None, lengths, x0, all_elems)
             out["M_max"][:, ci], out["M_min"][:, ci] = snap_round_off(m[1][0], m[-1][0])
             out["V_abs"][:, ci] = np.maximum(np.abs(v[1][0]), np.abs(v[-1][0]))
-        elif combo.limit is not None:
+        elif combo.limit is not None:  # the worst span does not depend on the (common) 1/EI factor
             out["v_abs"][:, ci], out["v_allowed"][:, ci], _ = worst_span(
-                v_field, F, sw, t, v_scale, resp.spans, lengths, x0, combo.limit)
+                v_field, F, sw, t, None if shared else v_scale, resp.spans, lengths, x0, combo.limit)
+    if shared:
+        out = {k: a[back] for k, a in out.items()}
+        out["v_abs"] *= v_scale[:, None]
     names = [c.name for c in model.combinations]
     parents = np.array([names.index(c.parent or c.name) for c in resp.combos], int)
     sampler = FieldSampler(resp, parents, mass_g, None if not fixed else v_scale)

@@ -142,7 +142,11 @@ def _all_checks_candidates(job):
     from leanspan.select.search import candidates_from_table
 
     df = catalog_table()
-    df = pd.concat([df] * (N_CAND // len(df) + 1), ignore_index=True).iloc[:N_CAND]
+    copies = N_CAND // len(df) + 1
+    # each copy of the catalogue 1 % heavier than the last: 10,000 distinct candidates, as a real
+    # list of that size would be (identical rows would share their beam results)
+    df = pd.concat([df.assign(mass_per_length=df["mass_per_length"] * (1 + 0.01 * i)) for i in range(copies)],
+                   ignore_index=True).iloc[:N_CAND]
     limits = Limits(stress_factor=0.6, extra=(("lateral_restraint", "supports"), ("lateral_restraint_at", (7.0,)),
                                               ("min_frequency", 8.0), ("point_deflection", 1.5e-6)))
     return candidates_from_table(df, limits)
@@ -159,7 +163,11 @@ def _design_candidates(job):
     from leanspan.select.search import candidates_from_table
 
     df = catalog_table()
-    df = pd.concat([df] * (N_CAND // len(df) + 1), ignore_index=True).iloc[:N_CAND]
+    copies = N_CAND // len(df) + 1
+    # each copy of the catalogue 1 % heavier than the last: 10,000 distinct candidates, as a real
+    # list of that size would be (identical rows would share their beam results)
+    df = pd.concat([df.assign(mass_per_length=df["mass_per_length"] * (1 + 0.01 * i)) for i in range(copies)],
+                   ignore_index=True).iloc[:N_CAND]
     cases = job.model.cases
     basis = DesignBasis(2, tuple((c, "permanent" if c == "dead" else "medium") for c in cases),
                         tuple((c, 0.3) for c in cases if c != "dead"))
