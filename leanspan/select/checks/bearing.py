@@ -116,7 +116,7 @@ def bearing_lengths(eff, props):
     strength = np.flatnonzero([c.check == "strength" for c in resp.combos])
     if not (timber | web).any() or strength.size == 0:  # nothing this check covers
         return nan, nan, nan, np.zeros((K, S), int)
-    R = sampler.reactions()[:, strength, :]  # (K, Cs, S)
+    R = sampler.only(strength).reactions()  # (K, Cs, S): the strength combinations alone
     f = _strength(eff, props, resp.combos)[:, strength]  # (K, Cs)
     with np.errstate(divide="ignore", invalid="ignore"):
         ratio = np.maximum(R, 0.0) / f[:, :, None]
