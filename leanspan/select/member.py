@@ -196,6 +196,16 @@ def _shared_columns(df) -> dict:
     return entry[1] if entry is not None and entry[0]() is df else {}
 
 
+def shared_name_ranks(df):
+    """The rank of each row's name in text order, kept for a shared table (None for any other)."""
+    cache = _shared_columns(df)
+    if not isinstance(cache, _ReadOnlyColumns):
+        return None
+    if "_name_rank" not in cache:
+        cache["_name_rank"] = np.unique(df["name"].to_numpy().astype(str), return_inverse=True)[1].ravel()
+    return cache["_name_rank"]
+
+
 class _ReadOnlyColumns(dict):
     """The kept arrays of a shared table, each made read-only as it is stored: the checks may
     then keep results per array (see :func:`leanspan.select.checks.section_class.memoised`)."""

@@ -18,7 +18,7 @@ from ..errors import SelectionError
 from ..units import utilisation_text
 from .checks import active_checks
 from .chosen import chosen_member
-from .member import member_arrays
+from .member import member_arrays, shared_name_ranks
 from .screen import Candidates, Screen, screen
 
 __all__ = ["Selection", "run_selection", "candidate_table", "candidates_from_table"]
@@ -239,8 +239,13 @@ def rank_order(df, res: Screen, objective: str) -> np.ndarray:
     first, second = (mass, depth) if objective == "mass" else (depth, mass)
     p = np.flatnonzero(res.passes)
     f = np.flatnonzero(~res.passes)
-    p = _by_keys(p, (second[p], first[p]), names)
-    f = _by_keys(f, (first[f], worst[f]), names)
+    ranks = shared_name_ranks(df)
+    if ranks is not None:  # a shared table: its names ranked once, for every screen of it
+        p = p[np.lexsort((ranks[p], second[p], first[p]))]
+        f = f[np.lexsort((ranks[f], first[f], worst[f]))]
+    else:
+        p = _by_keys(p, (second[p], first[p]), names)
+        f = _by_keys(f, (first[f], worst[f]), names)
     return np.concatenate([p, f])
 
 
