@@ -387,10 +387,13 @@ def _screen_rows(df, job):
     from .search import candidates_from_table
 
     cand = candidates_from_table(df, job.limits)
-    passes, worst = _verdict(screen_by_weight(job.model, cand, job.search.self_weight))
+    # pass and fail only here (the rows kept are screened again in full): checks that only report
+    # for this beam (bearing without a bearing_length) are left out
+    passes, worst = _verdict(screen_by_weight(job.model, cand, job.search.self_weight, first_pass=True))
     close = np.flatnonzero(np.abs(worst - 1.0) <= CLOSE_CALL)
     if close.size:
-        passes[close], worst[close] = _verdict(screen(job.model, cand.take(close), job.search.self_weight))
+        passes[close], worst[close] = _verdict(screen(job.model, cand.take(close), job.search.self_weight,
+                                                      first_pass=True))
     return passes, worst
 
 
@@ -399,7 +402,7 @@ def _verdict(res):
     return np.array(res.passes), worst
 
 
-def screen_by_weight(model, cand, self_weight_case=None):
+def screen_by_weight(model, cand, self_weight_case=None, first_pass: bool = False):
     """:func:`leanspan.select.screen.screen` with the beam's extremes found once per weight.
 
     On rigid supports the forces do not depend on EI and the deflections scale with 1 / EI
@@ -428,7 +431,7 @@ def screen_by_weight(model, cand, self_weight_case=None):
     start |= sorted_mass > sorted_mass[group_first] * (1.0 + SAME_WEIGHT)
     group = np.cumsum(start) - 1
     if group[-1] + 1 > 0.5 * mass.size:
-        return screen(model, cand, self_weight_case)
+        return screen(model, cand, self_weight_case, first_pass)
     weights = sorted_mass[start]
     inverse = np.empty(mass.size, np.int64)
     inverse[order] = group
@@ -436,13 +439,13 @@ def screen_by_weight(model, cand, self_weight_case=None):
     eff = screen_effects(model, unit, self_weight_case)
     resp = eff.sampler.resp
     if resp.M.shape[0] != 1:  # springs: every candidate's forces depend on its EI
-        return screen(model, cand, self_weight_case)
+        return screen(model, cand, self_weight_case, first_pass)
     EI = np.asarray(cand.EI, float)
     spread = {k: getattr(eff, k)[inverse] for k in ("M_max", "M_min", "V_abs", "v_allowed")}
     effects = dataclasses.replace(
         eff, **spread, v_abs=eff.v_abs[inverse] / EI[:, None],
         sampler=FieldSampler(resp, eff.sampler.parents, mass * G, 1.0 / EI), EI=EI, mass_per_length=mass)
-    return evaluate(effects, cand)
+    return evaluate(effects, cand, first_pass)
 
 
 def _objective(df, objective):

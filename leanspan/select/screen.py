@@ -160,12 +160,15 @@ class Screen:
         return out
 
 
-def evaluate(effects: Effects, cand: Candidates) -> Screen:
-    """Apply every check active for ``cand.limits`` to ``effects`` (K, C) of candidates ``cand``."""
+def evaluate(effects: Effects, cand: Candidates, first_pass: bool = False) -> Screen:
+    """Apply every check active for ``cand.limits`` to ``effects`` (K, C) of candidates ``cand``;
+    with ``first_pass``, not those that only report for this beam (:attr:`Check.reports_only`)."""
     K = cand.size
     demand, allow, combo, util, columns = {}, {}, {}, {}, {}
     rows = np.arange(K)
     checks = active_checks(cand.limits)
+    if first_pass:
+        checks = tuple(c for c in checks if c.reports_only is None or not c.reports_only(effects.model))
     effects = dataclasses.replace(effects, limits=cand.limits)
     for check in checks:  # a small fixed set
         d = np.asarray(check.demand(effects, cand.props), float)
@@ -323,7 +326,7 @@ def worst_span(field, F, sw, t, scale, spans, lengths, x0, limit):
     return mag_out, allowed_out, ratio
 
 
-def screen(model, cand: Candidates, self_weight_case=None) -> Screen:
+def screen(model, cand: Candidates, self_weight_case=None, first_pass: bool = False) -> Screen:
     """Check every candidate against every combination of ``model`` (a BeamModel).
 
     Parameters
@@ -333,8 +336,10 @@ def screen(model, cand: Candidates, self_weight_case=None) -> Screen:
     cand : Candidates
     self_weight_case : str, optional
         The case carrying each candidate's weight (default: the model's ``self_weight``).
+    first_pass : bool
+        Pass and fail only: skip the checks that only report for this beam (see :func:`evaluate`).
     """
-    return evaluate(screen_effects(model, cand, self_weight_case), cand)
+    return evaluate(screen_effects(model, cand, self_weight_case), cand, first_pass)
 
 
 _SHARE = 0.7  # share the evaluation of equal weights when they cut the candidates to this fraction

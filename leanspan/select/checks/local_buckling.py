@@ -62,6 +62,9 @@ def _active(limits) -> bool:
     return True
 
 
+_BLOCK = 8192  # candidates classified at a time
+
+
 def _moduli(props, limits):
     """S for sagging and hogging (K,) by the job's choice, and the two classifications."""
     choice = slender_choice(limits)
@@ -88,10 +91,12 @@ def _metal_moduli_of(props, limits):
     gross = np.minimum(np.asarray(props["Sz_top"], float), np.asarray(props["Sz_bot"], float))
     metal = np.isin(np.asarray(props["kind"]).astype(str), METALS)
     out = [gross.copy(), gross.copy()]
-    if metal.any():
-        sub = {c: np.asarray(v)[metal] for c, v in props.items()}
+    rows = np.flatnonzero(metal)
+    for start in range(0, rows.size, _BLOCK):  # blocks that keep the (K, 4) plate arrays in cache
+        take = rows[start:start + _BLOCK]
+        sub = {c: np.asarray(v)[take] for c, v in props.items()}
         for S, (S_metal, _) in zip(out, _moduli(sub, limits)):
-            S[metal] = S_metal
+            S[take] = S_metal
     return out
 
 

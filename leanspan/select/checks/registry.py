@@ -172,6 +172,11 @@ class Check:
         :meth:`Effects.take`, ``props`` arrays of length 1): the values behind its result (Mcr,
         segment, C1, reduction factor ...; SI floats, strings), shown as ``checks.<name>`` in
         the selection's JSON for the chosen (else closest) candidate.
+    reports_only : callable, optional
+        ``reports_only(model) -> bool``: true when, for this beam, the check cannot fail a
+        candidate and only reports a value (bearing with no ``bearing_length`` given). A first
+        pass that only sorts a large space into pass and fail may skip it (the built-up search
+        does, and screens the rows it keeps again in full).
     formula : callable, optional
         ``formula(effects, props, c) -> tuple`` for ONE candidate at combination ``c``: the
         :attr:`CheckRow.formula` of its default sheet row (the sheet prints it with the numbers
@@ -194,6 +199,7 @@ class Check:
     demand_json: Callable | None = None
     details: Callable | None = None
     formula: Callable | None = None
+    reports_only: Callable | None = None
 
     def __post_init__(self):
         if not self.name.isidentifier():
