@@ -40,3 +40,40 @@ def test_cubic_with_one_real_root():
     coef = np.polynomial.polynomial.polymul([-0.3, 1.0], [1.0, 0.0, 1.0])
     got = roots_in(coef[None], np.array([1.0]))[0]
     assert np.sort(got[~np.isnan(got)]).tolist() == pytest.approx([0.3], abs=1e-14)
+
+
+@pytest.mark.parametrize("degree", [3, 4])
+def test_one_huge_root_leaves_the_small_ones(degree):
+    """A nearly lower-degree polynomial (tiny leading coefficient, so one root far outside) keeps
+    its roots inside the interval: numpy.roots is the reference."""
+    rng = np.random.default_rng(40 + degree)
+    for _ in range(200):
+        inside = rng.uniform(0.05, 0.95, degree - 1)
+        far = rng.choice([-1, 1]) * 10 ** rng.uniform(4, 9)
+        coef = _from_roots(np.r_[inside, far], 1.0 / far)  # leading coefficient ~ 1/far
+        got = roots_in(coef[None], np.array([1.0]))[0]
+        got = np.sort(got[~np.isnan(got)])
+        for r in inside:
+            assert np.min(np.abs(got - r)) <= 1e-7, (inside, far, got)
+
+
+def test_a_beam_whose_slope_is_nearly_cubic_finds_its_sag():
+    """Regression (found by the superposition property test): a tiny UDL beside a point load makes
+    the slope's quartic term negligible; the largest sag must still be found. Every station of
+    the exact solution is a value of v, so the reported minimum cannot lie above any of them."""
+    from leanspan.beam import solve
+    from leanspan.beam.model import BeamModel, Combination, DistributedLoad, PointLoad, Stiffness, Support
+
+    w = 2.720647403985336e-09
+    model = BeamModel(2.0, (Support(0.0, "pin"), Support(0.6, "pin")), (Stiffness(0.0, 2.0, 1e5),),
+                      (DistributedLoad("A", w, w, 0.0, 0.35), PointLoad("A", 1.0, 0.05)), (),
+                      (Combination("C", (("A", 0.75),)),))
+    r = solve(model).results["C"]
+    assert r.extremes["v_min"].value <= np.min(r.stations["v"]) + 1e-22
+    # the point load alone (the UDL adds 1e-8 of it): a simply supported span L with P at a from
+    # the left sags by P a (L - x)(2 L x - x^2 - a^2) / (6 EI L) for x > a (any beam-deflection
+    # table); its largest value by a fine grid
+    P, a, L, EI = 0.75, 0.05, 0.6, 1e5
+    x = np.linspace(a, L, 200_001)
+    sag = np.max(P * a * (L - x) * (2 * L * x - x**2 - a**2) / (6 * EI * L))
+    assert -r.extremes["v_min"].value == pytest.approx(sag, rel=1e-6)

@@ -103,12 +103,7 @@ def roots_in(coeffs, lengths, imag_tol: float = 1e-6):
         elif d == 4:
             t = _monotone_piece_roots(p, _cubic_roots(p[:, 1:] * np.arange(1, 5), imag_tol))
         else:
-            comp = np.zeros((idx.size, d, d))
-            comp[:, 0, :] = -p[:, d - 1 :: -1] / p[:, d : d + 1]
-            comp[:, np.arange(1, d), np.arange(d - 1)] = 1.0
-            r = np.linalg.eigvals(comp)
-            real = np.abs(r.imag) <= imag_tol * np.maximum(1.0, np.abs(r.real))
-            t = np.where(real, r.real, np.nan)
+            t = _companion_roots(p, imag_tol)
         # two Newton steps polish the round-off of the trigonometric cubic and the eigenvalues,
         # each kept only where it lowers |p| (near a double root the step is unreliable); the
         # quadratic formula and the bracketed quartic roots are converged already
@@ -127,6 +122,21 @@ def roots_in(coeffs, lengths, imag_tol: float = 1e-6):
     return out.reshape(lead + (deg,)) * L[..., None]
 
 
+_CUBIC_WELL = 1e3  # the closed-form cubic for monic coefficients up to this (roots of that size)
+
+
+def _companion_roots(p, imag_tol):
+    """Real roots (N, d) of polynomials ``p`` (N, d + 1) of exact degree d: the eigenvalues of
+    the companion matrix, nearly real ones (relative imaginary part below ``imag_tol``) kept."""
+    d = p.shape[1] - 1
+    comp = np.zeros((p.shape[0], d, d))
+    comp[:, 0, :] = -p[:, d - 1 :: -1] / p[:, d : d + 1]
+    comp[:, np.arange(1, d), np.arange(d - 1)] = 1.0
+    r = np.linalg.eigvals(comp)
+    real = np.abs(r.imag) <= imag_tol * np.maximum(1.0, np.abs(r.real))
+    return np.where(real, r.real, np.nan)
+
+
 def _cubic_roots(p, imag_tol):
     """Real roots (N, 3) of cubics with ascending coefficients ``p`` (N, 4), ``p[:, 3] != 0``, in
     closed form (NaN where none): three by the trigonometric formula, else Cardano's one with
@@ -137,6 +147,15 @@ def _cubic_roots(p, imag_tol):
     [1.0, 2.0, 3.0]
     """
     a, b, c = (p[:, 2] / p[:, 3]), (p[:, 1] / p[:, 3]), (p[:, 0] / p[:, 3])
+    # a nearly quadratic cubic (small leading coefficient: one huge root) loses its small roots to
+    # cancellation in the closed form; those rows take the companion matrix's eigenvalues
+    ill = np.fmax(np.fmax(np.abs(a), np.abs(b)), np.abs(c)) > _CUBIC_WELL
+    if ill.any():
+        out = np.full((p.shape[0], 3), np.nan)
+        out[ill] = _companion_roots(p[ill], imag_tol)
+        if (~ill).any():
+            out[~ill] = _cubic_roots(p[~ill], imag_tol)
+        return out
     shift = a / 3.0
     P = b - a * shift
     Q = (2.0 * a * a * a / 27.0) - a * b / 3.0 + c
