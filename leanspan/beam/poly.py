@@ -5,9 +5,8 @@ coordinate ``s = x - x_start[e]``: ``coeffs[..., e, k]`` multiplies ``s**k``, va
 ``0 <= s <= lengths[e]``. Extremes are exact to round-off: the candidates are the
 element ends and the real roots of the derivative inside the element, grouped by
 effective degree: closed forms up to the cubic (stable quadratic formula, trigonometric
-or Cardano cubic, polished by Newton steps), the quartic by bracketed Newton steps on
-its monotone pieces between the cubic's roots, higher degrees by companion-matrix
-eigenvalues.
+or Cardano cubic), higher degrees (and nearly quadratic cubics) by companion-matrix
+eigenvalues, polished by Newton steps.
 
 Examples
 --------
@@ -100,16 +99,14 @@ def roots_in(coeffs, lengths, imag_tol: float = 1e-6):
             t = np.where(keep[:, None], np.stack([r1, r2], axis=1), np.nan)
         elif d == 3:
             t = _cubic_roots(p, imag_tol)
-        elif d == 4:
-            t = _monotone_piece_roots(p, _cubic_roots(p[:, 1:] * np.arange(1, 5), imag_tol))
         else:
             t = _companion_roots(p, imag_tol)
         # two Newton steps polish the round-off of the trigonometric cubic and the eigenvalues,
         # each kept only where it lowers |p| (near a double root the step is unreliable); the
-        # quadratic formula and the bracketed quartic roots are converged already
+        # quadratic formula is converged already
         dp = p[:, 1:] * np.arange(1, d + 1)
         f = evaluate(p[:, None, :], t)
-        for _ in range(2 if d == 3 or d > 4 else 0):
+        for _ in range(2 if d >= 3 else 0):
             g = evaluate(dp[:, None, :], t)
             with np.errstate(divide="ignore", invalid="ignore"):
                 step = np.where(np.abs(g) > 0, f / g, 0.0)
@@ -181,55 +178,6 @@ def _cubic_roots(p, imag_tol):
         out[one, 0] = y - shift[one]
         out[one, 1] = np.where(near, re - shift[one], np.nan)
     return out
-
-
-def _monotone_piece_roots(p, crit, iterations: int = 50):
-    """Real roots in [0, 1] (N, degree) of polynomials ``p`` (N, n) whose derivative's real roots
-    are ``crit`` (N, m; NaN where none). Between consecutive critical points a polynomial is
-    monotone, so each piece whose ends differ in sign holds exactly one root: found by Newton
-    steps kept inside the shrinking bracket (bisection where a step leaves it), on the pieces
-    with a sign change only. A critical point where the polynomial vanishes to round-off is a
-    double root and is returned as it is.
-
-    >>> r = _monotone_piece_roots(np.array([[0.06, -0.5, 1.0]]), np.array([[0.25]]))  # (t-0.2)(t-0.3)
-    >>> sorted(np.round(r[0][~np.isnan(r[0])], 12).tolist())
-    [0.2, 0.3]
-    """
-    N, n = p.shape
-    c = np.where((crit > 0) & (crit < 1), crit, np.nan)
-    ends = np.sort(np.concatenate([np.zeros((N, 1)), np.where(np.isnan(c), 1.0, c), np.ones((N, 1))], axis=1),
-                   axis=1)
-    f_ends = evaluate(p[:, None, :], ends)
-    scale = np.abs(p).sum(axis=1)
-    f_ends = np.where(np.abs(f_ends) <= 1e-14 * scale[:, None], 0.0, f_ends)  # round-off zeros
-    row, piece = np.nonzero(f_ends[:, :-1] * f_ends[:, 1:] < 0)  # pieces with one root inside
-    a, b = ends[row, piece], ends[row, piece + 1]
-    fa = f_ends[row, piece]
-    q, dq = p[row], p[row, 1:] * np.arange(1, n)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        x = a - fa * (b - a) / (f_ends[row, piece + 1] - fa)  # regula falsi start
-    live = np.arange(row.size)
-    for _ in range(iterations):  # stops once every root has converged
-        if live.size == 0:
-            break
-        xl, al, bl = x[live], a[live], b[live]
-        f = evaluate(q[live], xl)
-        g = evaluate(dq[live], xl)
-        same = np.sign(f) == np.sign(fa[live])  # the root lies above x
-        al, bl = np.where(same, xl, al), np.where(same, bl, xl)
-        fa[live] = np.where(same, f, fa[live])
-        with np.errstate(divide="ignore", invalid="ignore"):
-            xn = xl - f / g
-        xn = np.where((xn > al) & (xn < bl), xn, 0.5 * (al + bl))
-        a[live], b[live], x[live] = al, bl, xn
-        done = (np.abs(xn - xl) <= 4e-16 * np.maximum(np.abs(xn), 1e-300)) | (f == 0) | (bl - al <= 4e-16)
-        x[live] = np.where(f == 0, xl, xn)
-        live = live[~done]
-    out = np.full((N, 2 * n), np.nan)
-    out[row, piece] = x
-    double = ~np.isnan(c) & (np.abs(evaluate(p[:, None, :], np.nan_to_num(c))) <= 1e-14 * scale[:, None])
-    out[:, n:n + c.shape[1]] = np.where(double, c, np.nan)
-    return np.sort(out, axis=1)[:, :n - 1]  # at most the degree; NaN sorts last
 
 
 def extremes(coeffs, lengths, inner=None):
