@@ -331,12 +331,13 @@ def _names(members):
     return [m if isinstance(m, str) else m.name for m in members]
 
 
-def _result(name, kind, check, resp, members, stations, extremes, flds, pre):
+def _result(name, kind, check, resp, members, stations, extremes, R, pre_v):
+    """One result set from its rows' reactions ``R`` and v extremes ``pre_v`` (4, rows, E)."""
     names = _names(members)
-    rs = ResultSet(name, kind, check, names, _reactions(resp, flds["R"], names), extremes, stations)
+    rs = ResultSet(name, kind, check, names, _reactions(resp, R, names), extremes, stations)
     combos = [m for m in members if not isinstance(m, str)]
     if combos:
-        rs.deflection_checks = _deflection_checks(resp, pre["v"], combos)
+        rs.deflection_checks = _deflection_checks(resp, pre_v, combos)
     return rs
 
 
@@ -376,13 +377,12 @@ def solve(model: BeamModel, stations: int = 48) -> BeamSolution:
             f[resp.self_weight_index] *= model.mass_per_length * G
         return f
 
-    all_members, all_rows = [], []
+    all_members = []
     for c in model.combinations:
         members = [k for k in resp.combos if (k.parent or k.name) == c.name]
         Fm = np.array([scaled(k) for k in members])
         specs.append((c.name, "combination", c.check, Fm, members))
         all_members += members
-        all_rows.append(Fm)
     # every result row is a case or a concrete combination: the envelopes reuse those rows
     base = np.vstack([sp[3] for sp in specs])
     rows_of, start = [], 0
@@ -415,6 +415,6 @@ def solve(model: BeamModel, stations: int = 48) -> BeamSolution:
     extremes = _extremes(resp, _take(pre, np.concatenate(rows_of), _FIELDS), [_names(sp[4]) for sp in specs])
     results = {}
     for i, ((name, kind, check, _, members), rows) in enumerate(zip(specs, rows_of)):
-        results[name] = _result(name, kind, check, resp, members, at[i], extremes[i], _take(flds, rows),
-                                _take(pre, rows, _FIELDS))
+        results[name] = _result(name, kind, check, resp, members, at[i], extremes[i], flds["R"][rows],
+                                pre["v"][:, rows])
     return BeamSolution(model, resp, results)
