@@ -188,6 +188,7 @@ def share_table_arrays(df) -> None:
     entry = _SHARED.get(id(df))
     if entry is None or entry[0]() is not df:
         _SHARED[id(df)] = (weakref.ref(df), _ReadOnlyColumns())
+        weakref.finalize(df, _SHARED.pop, id(df), None)  # the arrays go with their table
 
 
 def _shared_columns(df) -> dict:

@@ -374,6 +374,7 @@ def memoised(props, columns, extra, compute):
     _MEMO[key] = (arrays, compute())
     return _MEMO[key][1]
 
+
 def web_shear(props):
     """Web shear buckling of steel webs: ``(hw/t, limit 72 eps / eta, lam_w, chi_w, factor)`` (K,),
     factor = min(1, chi_w) where hw/t exceeds the limit, else 1 (NaN columns where there is no web).
