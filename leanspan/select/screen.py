@@ -438,6 +438,11 @@ class FieldSampler:
         out.combos = self.combos
         return out
 
+    @property
+    def strength(self) -> np.ndarray:
+        """Indices of the strength combinations among the concrete ones."""
+        return np.flatnonzero([c.check == "strength" for c in self.resp.combos])
+
     def only(self, combos) -> "FieldSampler":
         """The sampler of the concrete combinations ``combos`` (indices) only: ``at`` and ``peak``
         then return (K, len(combos), ...) (a check that reads strength combinations alone skips
@@ -563,6 +568,10 @@ class _StackedSampler:
         self.samplers = samplers
         self.parents = samplers[0].parents if samplers else np.zeros(0, int)
         self.resp = samplers[0].resp if samplers else None  # the combinations are the same for all
+
+    @property
+    def strength(self) -> np.ndarray:
+        return self.samplers[0].strength if self.samplers else np.zeros(0, int)
 
     def only(self, combos) -> "_StackedSampler":
         return _StackedSampler([s.only(combos) for s in self.samplers])

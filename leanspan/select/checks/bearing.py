@@ -113,7 +113,7 @@ def bearing_lengths(eff, props):
     timber = np.isin(kind, TIMBER)
     web = np.isin(family, _WEB + ("box",)) & np.isin(kind, _STEEL)
     nan = np.full((K, S), np.nan)
-    strength = np.flatnonzero([c.check == "strength" for c in resp.combos])
+    strength = sampler.strength
     if not (timber | web).any() or strength.size == 0:  # nothing this check covers
         return nan, nan, nan, np.zeros((K, S), int)
     R = sampler.only(strength).reactions()  # (K, Cs, S): the strength combinations alone

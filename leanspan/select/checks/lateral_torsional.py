@@ -199,7 +199,7 @@ def _resistance_factor(Mcr, S, f, curves, limits, allow=None):
 
 def _segment_results(eff, props):
     """Per segment between restraints: ``(a, b, cantilever, M, C1, Mcr, chi, demand)``, the
-    arrays (K, Cs) over the strength combinations :func:`_strength` (C1 a float on a cantilever)."""
+    arrays (K, Cs) over the strength combinations (``sampler.strength``) (C1 a float on a cantilever)."""
     limits, model, sampler = eff.limits, eff.model, eff.sampler
     E, G = _fractile_moduli(props)
     curves = tuple(c[:, None] for c in _curves(props))
@@ -214,7 +214,7 @@ def _segment_results(eff, props):
         allow = np.asarray(allowable_stress(props, limits, eff, "bending"), float)
         allow = allow[:, sampler.parents] if allow.shape[1] > 1 else allow
     k_over = limits.get("overhang_length_factor", 2.0)
-    strength = _strength(sampler)
+    strength = sampler.strength
     on = sampler.only(strength)  # the strength combinations alone
     combos = [sampler.resp.combos[i] for i in strength]
     for a, b, cantilever in _segments(model, limits):  # a small set
@@ -240,14 +240,9 @@ def _untestable(props):
     return ~np.isclose(np.abs(np.sin(np.radians(2 * props["theta"]))), 0.0, atol=1e-9)
 
 
-def _strength(sampler) -> np.ndarray:
-    """Indices of the strength combinations among the concrete ones (the only ones checked)."""
-    return np.flatnonzero([c.check == "strength" for c in sampler.resp.combos])
-
-
 def _demand(eff, props):
     K, C = eff.M_max.shape
-    strength = _strength(eff.sampler)
+    strength = eff.sampler.strength
     worst = np.full((K, strength.size), -np.inf)
     for *_, d in _segment_results(eff, props):
         worst = np.fmax(worst, d)
@@ -259,7 +254,7 @@ def _demand(eff, props):
 
 def _details(eff, props) -> dict:
     """The governing segment of one candidate: where it is, its moment, C1, Mcr and chi."""
-    strength = _strength(eff.sampler)
+    strength = eff.sampler.strength
     best = None
     for a, b, cantilever, M, C1, Mcr, chi, d in _segment_results(eff, props):
         if d.shape[1] == 0:
