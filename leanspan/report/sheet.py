@@ -283,6 +283,19 @@ def _dims_text(cand, units):
     return ", ".join(f"{k} = {_qu(v, 'length', units)}" for k, v in cand["dims"].items())
 
 
+def _reaction_rows(solution, units, kind_test=lambda kind: True) -> list:
+    """Table rows (result, support, force, moment) of the results whose kind passes ``kind_test``."""
+    out = []
+    for n, r in solution.results.items():
+        if not kind_test(r.kind):
+            continue
+        for i, (s, rx) in enumerate(zip(solution.model.supports, r.reactions)):
+            out.append([n, f"{s.type} at {_qu(s.at, 'span', units)}",
+                        num(_q(rx["force"], "force", units), f"{n}.R{i}.force"),
+                        num(_q(rx["moment"], "moment", units), f"{n}.R{i}.moment") if s.rotational else "-"])
+    return out
+
+
 def _formula_text(tokens, units) -> str:
     """A substituted formula (:attr:`CheckRow.formula`) as text, values in display units."""
     out = []
@@ -369,23 +382,13 @@ def selection_sheet_html(sel, units: str = "si", source: str = "", top: int = 10
                    f"combination as a line with its extremes marked.")
     fl, ml = _u("force", units)[0], _u("moment", units)[0]
 
-    def reaction_rows(kind_test):
-        out = []
-        for n, r in sol.results.items():
-            if not kind_test(r.kind):
-                continue
-            for i, (s, rx) in enumerate(zip(sol.model.supports, r.reactions)):
-                out.append([n, f"{s.type} at {_qu(s.at, 'span', units)}",
-                            num(_q(rx["force"], "force", units), f"{n}.R{i}.force")]
-                           + ([num(_q(rx["moment"], "moment", units))] if s.rotational else ["-"]))
-        return out
     heads = ["support", f"force [{fl}] (up +)", f"moment [{ml}] (ccw +)"]
     sw = job.search.self_weight
-    reactions = (table(["load case"] + heads, reaction_rows(lambda k: k == "case"),
+    reactions = (table(["load case"] + heads, _reaction_rows(sol, units, lambda k: k == "case"),
                        caption="Characteristic support reactions per load case (unfactored"
                                + (f"; case {sw} includes the chosen member's self-weight" if sw else "")
                                + "), for the supporting structure and the bearings")
-                 + table(["combination"] + heads, reaction_rows(lambda k: k != "case"),
+                 + table(["combination"] + heads, _reaction_rows(sol, units, lambda k: k != "case"),
                          caption="Design support reactions of the chosen member per combination "
                                  "(envelope: the larger-magnitude bound)"))
     parts.append(section("Loaded beam and internal forces", beam_fig + diag + reactions, anchor="beam"))
@@ -497,12 +500,7 @@ def beam_sheet_html(solution, units: str = "si", source: str = "", project=None)
         erows.append(cells)
     ext = table(["result", f"M [{ml}]", f"V [{fl}]", f"v [{dl}]"], erows,
                 caption=f"Extremes (value @ x in {sl}); sagging M positive, V = -dM/dx, v upward positive")
-    rrows = []
-    for n, r in solution.results.items():
-        for i, (s, rx) in enumerate(zip(model.supports, r.reactions)):
-            rrows.append([n, f"{s.type} at {_qu(s.at, 'span', units)}",
-                          num(_q(rx["force"], "force", units), f"{n}.R{i}.force"),
-                          num(_q(rx["moment"], "moment", units), f"{n}.R{i}.moment") if s.rotational else "-"])
+    rrows = _reaction_rows(solution, units)
     rea = table(["result", "support", f"force [{fl}] (up +)", f"moment [{ml}] (ccw +)"], rrows,
                 caption="Support reactions (envelope: the larger-magnitude bound)")
     drows, dcls = [], []
