@@ -55,16 +55,24 @@ def derivative(coeffs):
     return c[..., 1:] * np.arange(1, n)
 
 
-def roots_in(coeffs, lengths, imag_tol: float = 1e-6):
+def roots_in(coeffs, lengths, imag_tol: float = 1e-6, critical=None):
     """Real roots of each polynomial strictly inside ``(0, length)``.
 
     Returns an array of shape ``coeffs.shape[:-1] + (degree,)`` with NaN where there is
     no root. Nearly real roots (relative imaginary part below ``imag_tol``) are kept, so
     a pair of close roots is never lost; a spurious candidate only costs an evaluation.
 
+    ``critical`` (``coeffs.shape[:-1] + (m,)``, NaN-padded), when given, holds the real roots
+    of each polynomial's derivative inside ``(0, length)`` (what this function returns for
+    the derivative). Between them a polynomial is monotone, so one that keeps its sign at
+    both ends and at every critical point has no root inside; only the others are solved.
+
     >>> r = roots_in(np.array([2.0, -3.0, 1.0]), 5.0)    # (s-1)(s-2)
     >>> sorted(r.tolist())
     [1.0, 2.0]
+    >>> c = np.array([[2.0, -3.0, 1.0], [2.5, -3.0, 1.0]])   # the second, (s-1.5)^2 + 0.25, has none
+    >>> np.sort(roots_in(c, 5.0, critical=np.array([[1.5], [1.5]]))).round(12).tolist()
+    [[1.0, 2.0], [nan, nan]]
     """
     c = np.asarray(coeffs, float)
     n = c.shape[-1]
@@ -79,6 +87,9 @@ def roots_in(coeffs, lengths, imag_tol: float = 1e-6):
     big = np.abs(b) > 1e-12 * scale[:, None]
     has = big.any(axis=1)
     eff = np.where(has, deg - np.argmax(big[:, ::-1], axis=1), 0)
+    if critical is not None:
+        crit = (np.asarray(critical, float) / L[..., None]).reshape(b.shape[0], -1)
+        eff = np.where(_may_vanish(b, crit, scale), eff, 0)
     for d in range(1, deg + 1):  # small fixed set of degrees
         idx = np.nonzero(eff == d)[0]
         if idx.size == 0:
@@ -117,6 +128,23 @@ def roots_in(coeffs, lengths, imag_tol: float = 1e-6):
         t = np.where((t > 0.0) & (t < 1.0), t, np.nan)
         out[idx, :d] = t
     return out.reshape(lead + (deg,)) * L[..., None]
+
+
+_VANISH_TOL = 1e-6
+"""A polynomial within this fraction of its largest coefficient of zero at an end or critical
+point may touch zero there (a double root, or round-off near a root at the end): it is solved."""
+
+
+def _may_vanish(b, crit, scale):
+    """Rows of ``b`` (N, n), polynomials on ``t`` in [0, 1] whose derivatives' real roots inside are
+    ``crit`` (N, m; NaN where none), that may have a root inside: a sign change between the ends
+    and critical points (monotone pieces), or a value near zero at one of them."""
+    pts = np.concatenate([np.zeros((b.shape[0], 1)), np.nan_to_num(crit, nan=0.0), np.ones((b.shape[0], 1))],
+                         axis=1)
+    pts.sort(axis=1)
+    f = evaluate(b[:, None, :], pts)
+    neg = f < 0
+    return (neg[:, 1:] != neg[:, :-1]).any(axis=1) | (np.abs(f) <= _VANISH_TOL * scale[:, None]).any(axis=1)
 
 
 _CUBIC_WELL = 1e3  # the closed-form cubic for monic coefficients up to this (roots of that size)

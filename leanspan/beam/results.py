@@ -107,11 +107,24 @@ def _bigger(a, b):
     return np.where(np.abs(b) > np.abs(a), b, a)
 
 
+def _padded(rows_of):
+    """Rows of every result as one (G, n) index array: each result's own rows, then its first row
+    repeated (repeats change no maximum or minimum, nor which row holds it first)."""
+    n = max(rows.size for rows in rows_of)
+    return np.array([np.concatenate([rows, np.full(n - rows.size, rows[0])]) for rows in rows_of], int)
+
+
 def _member_fields(resp: Response, Fm):
-    """Coefficient arrays (C, E, n) of each field and reactions (C, nsup, 2) for factor rows Fm."""
-    out = {}
-    for key in _FIELDS:
-        out[key] = np.einsum("cu,uek->cek", Fm, getattr(resp, key)[0])
+    """Coefficients (C, 4, E, 6) of V, M, theta, v (ascending powers, zero-padded to the quintic),
+    with views ``out[key]`` (C, E, n) of each field, and reactions ``out["R"]`` (C, nsup, 2), for
+    factor rows ``Fm``."""
+    unit = np.zeros((Fm.shape[1], len(_FIELDS)) + resp.v.shape[2:])
+    for f, key in enumerate(_FIELDS):
+        c = getattr(resp, key)[0]
+        unit[:, f, :, :c.shape[-1]] = c
+    every = np.einsum("cu,uz->cz", Fm, unit.reshape(unit.shape[0], -1)).reshape((-1,) + unit.shape[1:])
+    out = {key: every[:, f, :, :getattr(resp, key).shape[-1]] for f, key in enumerate(_FIELDS)}
+    out["all"] = every
     out["R"] = np.einsum("cu,usj->csj", Fm, resp.reactions[0])
     return out
 
@@ -125,88 +138,101 @@ def _regular_grid(resp, n_regular):
 
 
 def _sorted_unique(s, total):
-    """``s`` (..., m) sorted along the last axis with near-duplicates (1e-12 of ``total``) set to
-    NaN, which sorts last."""
+    """``s`` (..., m) sorted along the last axis, with NaN in place of each near-duplicate (within
+    1e-12 of ``total`` of the value before it): NaN, as a gap, is no station."""
     s = np.sort(s, axis=-1)
-    dup = np.zeros_like(s, bool)
-    dup[..., 1:] = np.abs(np.diff(s, axis=-1)) <= 1e-12 * total
-    s[dup] = np.nan
-    return np.sort(s, axis=-1)
+    s[..., 1:][np.abs(np.diff(s, axis=-1)) <= 1e-12 * total] = np.nan
+    return s
 
 
-def _station_values(resp, flds, s):
-    """Field values (R, E, m) at local stations ``s`` (R, E, m) and the mask of stations kept:
-    valid ones, less the end of element e where V, M and theta run on continuously into e+1."""
-    z = np.nan_to_num(s)
-    vals = {k: poly.evaluate(flds[k][:, :, None, :], z) for k in _FIELDS}
+def _station_values(every, rows, s):
+    """Values (4, N) of V, M, theta, v of the coefficient rows ``every[rows]`` (``every``: R, 4, E, 6)
+    at the stations ``s`` (len(rows), E, m; NaN: none), for the N stations in order (row,
+    element, station); the mask (N,) of the ones kept: all but the end of element e where V, M
+    and theta run on continuously into e + 1, in that row; and each station's element.
+
+    The stations of an element are increasing, and the first is its start.
+    """
+    R, E, m = s.shape
     valid = ~np.isnan(s)
-    R, E = s.shape[:2]
+    at = np.flatnonzero(valid)
+    e = at // m % E
+    coef = every.transpose(3, 1, 0, 2).reshape(24, -1)  # (6 powers x 4 fields, rows x elements)
+    c = np.take(coef, rows[at // (m * E)] * E + e, axis=1).reshape(6, 4, -1)
+    z = s.reshape(-1)[at]
+    vals = c[5] * z + c[4]  # Horner's rule (as poly.evaluate), every field at once
+    for k in range(3, -1, -1):
+        vals *= z
+        vals += c[k]
+    keep = np.ones(at.size, bool)
+    count = valid.sum(axis=2)  # (R, E)
+    ends = np.cumsum(count).reshape(count.shape)
+    first, last = ends - count, ends - 1
     if E > 1:
-        last = valid.sum(axis=2) - 1  # (R, E)
-        same = np.ones((R, E - 1), bool)
-        for k in ("V", "M", "theta"):
-            a = np.take_along_axis(vals[k][:, :-1], last[:, :-1, None], axis=2)[..., 0]
-            b = vals[k][:, 1:, 0]
-            scale = np.maximum(np.abs(vals[k]).max(axis=(1, 2)), 1e-300)[:, None]
-            same &= np.abs(a - b) <= 1e-9 * scale
-        r, e = np.nonzero(same)
-        valid[r, e, last[r, e]] = False
-    return vals, valid
+        scale = np.maximum(np.maximum.reduceat(np.abs(vals[:3]), first[:, 0], axis=1), 1e-300)  # (3, R)
+        jump = np.abs(vals[:3, last[:, :-1]] - vals[:3, first[:, 1:]]) > 1e-9 * scale[:, :, None]
+        keep[last[:, :-1][~jump.any(axis=0)]] = False
+    return vals, keep, e
 
 
-def _single_stations(resp, flds, n_regular, pre):
-    """Stations of R single results at once (list of R dicts ``x, V, M, theta, v``): the regular
-    grid plus each row's roots of V and theta."""
-    R = flds["M"].shape[0]
-    grid = _regular_grid(resp, n_regular)
-    reg = np.broadcast_to(grid, (R,) + grid.shape)
-    s = _sorted_unique(np.concatenate([reg, pre["roots_V"], pre["roots_theta"]], axis=2),
-                       float(resp.lengths.sum()))
-    vals, valid = _station_values(resp, flds, s)
-    x_all = resp.x_nodes[:-1, None] + np.nan_to_num(s)
-    out = []
-    for r in range(R):  # the small set of results
-        keep = valid[r]
-        row = {"x": x_all[r][keep]}
-        row.update({k: vals[k][r][keep] for k in _FIELDS})
-        out.append(row)
-    return out
+def _stations(resp, flds, pre, rows_of, n_regular):
+    """Stations of every result (list of dicts), evaluated in one pass.
 
-
-def _envelope_stations(resp, flds, n_regular, pre, groups):
-    """Stations of the results with several members (list of dicts): the regular grid plus, in
-    each element, where the envelope's largest and smallest M and v lie; ``K_max``, ``K_min``
-    per field. ``groups[g]`` are the rows of result g in ``flds`` and ``pre``; all are evaluated
-    in one pass."""
+    A single result (one row) gets ``x, V, M, theta, v`` at the regular grid plus its roots of V
+    and theta; a result with several members gets the regular grid plus, in each element, where
+    its largest and smallest M and v lie, and ``K_max``, ``K_min`` per field over its members (an
+    element end stays where any member jumps there).
+    """
     total = float(resp.lengths.sum())
     grid = _regular_grid(resp, n_regular)
-    grids = []
-    for rows in groups:  # the small set of envelopes
-        extra = []
-        for key in ("M", "v"):
-            vmax, smax, vmin, smin = pre[key][:, rows]
-            ia = np.argmax(vmax, axis=0)[None]
-            ib = np.argmin(vmin, axis=0)[None]
-            extra += [np.take_along_axis(smax, ia, 0)[0][:, None], np.take_along_axis(smin, ib, 0)[0][:, None]]
-        grids.append(_sorted_unique(np.concatenate([grid] + extra, axis=1), total))
-    sizes = [len(rows) for rows in groups]
-    which = np.repeat(np.arange(len(groups)), sizes)
-    starts = np.concatenate([[0], np.cumsum(sizes)[:-1]]).astype(int)
-    every = np.concatenate(groups)
-    vals, valid = _station_values(resp, {k: flds[k][every] for k in _FIELDS}, np.stack(grids)[which])
-    # an element end stays where any member jumps there
-    keep = np.logical_or.reduceat(valid, starts, axis=0)
-    hi = {k: np.maximum.reduceat(vals[k], starts, axis=0) for k in _FIELDS}
-    lo = {k: np.minimum.reduceat(vals[k], starts, axis=0) for k in _FIELDS}
-    x0 = resp.x_nodes[:-1, None]
-    out = []
-    for g, s in enumerate(grids):
-        row = {"x": (x0 + np.nan_to_num(s))[keep[g]]}
-        for k in _FIELDS:
-            h, low = hi[k][g][keep[g]], lo[k][g][keep[g]]
-            row[k] = _bigger(h, low)
-            row[f"{k}_max"], row[f"{k}_min"] = h, low
-        out.append(row)
+    singles = [g for g, rows in enumerate(rows_of) if rows.size == 1]
+    multis = [g for g, rows in enumerate(rows_of) if rows.size > 1]
+    one = np.array([rows_of[g][0] for g in singles], int)
+    reg = np.broadcast_to(grid, (one.size,) + grid.shape)
+    s_one = _sorted_unique(np.concatenate([reg, pre["roots_V"][one], pre["roots_theta"][one]], axis=2), total)
+    groups = [rows_of[g] for g in multis]
+    sizes = [rows.size for rows in groups]
+    if groups:
+        idx = _padded(groups)
+        ext = pre["ext"][:, idx][:, :, :, [1, 3]]  # (4, G, n, 2 fields: M, v, E)
+        ia = np.argmax(ext[0], axis=1)[:, None]  # the first member holding the maximum
+        ib = np.argmin(ext[2], axis=1)[:, None]
+        sa = np.take_along_axis(ext[1], ia, axis=1)[:, 0]  # (G, 2, E)
+        sb = np.take_along_axis(ext[3], ib, axis=1)[:, 0]
+        extra = np.stack([sa[:, 0], sb[:, 0], sa[:, 1], sb[:, 1]], axis=-1)  # M max, M min, v max, v min
+        s_env = _sorted_unique(np.concatenate([np.broadcast_to(grid, (len(groups),) + grid.shape), extra],
+                                              axis=2), total)
+        width = max(s_one.shape[2], s_env.shape[2])
+        pad = lambda a: np.concatenate([a, np.full(a.shape[:2] + (width - a.shape[2],), np.nan)], axis=2)  # noqa: E731
+        s_all = np.concatenate([pad(s_one), pad(s_env)[np.repeat(np.arange(len(groups)), sizes)]])
+        rows_all = np.concatenate([one] + groups)
+    else:
+        s_all, rows_all = s_one, one
+    vals, keep, elem = _station_values(flds["all"], rows_all, s_all)
+    x = resp.x_nodes[elem] + s_all[~np.isnan(s_all)]
+    per_row = (~np.isnan(s_all)).sum(axis=(1, 2)).tolist()  # stations of each evaluated row
+    out = [None] * len(rows_of)
+    n1 = sum(per_row[:one.size])
+    k1 = keep[:n1]
+    kept = np.bincount(np.repeat(np.arange(one.size), per_row[:one.size])[k1], minlength=one.size)
+    bounds = np.cumsum(kept)[:-1]
+    cols = [np.split(x[:n1][k1], bounds)] + [np.split(vals[f, :n1][k1], bounds) for f in range(len(_FIELDS))]
+    for r, g in enumerate(singles):
+        out[g] = dict(zip(("x",) + _FIELDS, (c[r] for c in cols)))
+    at, r = n1, one.size
+    for g, size in zip(multis, sizes):
+        n = per_row[r]
+        r += size
+        blk = slice(at, at + size * n)
+        at += size * n
+        kg = keep[blk].reshape(size, n).any(axis=0)
+        hi = vals[:, blk].reshape(-1, size, n).max(axis=1)[:, kg]
+        lo = vals[:, blk].reshape(-1, size, n).min(axis=1)[:, kg]
+        big = _bigger(hi, lo)
+        row = {"x": x[blk][:n][kg]}
+        for f, k in enumerate(_FIELDS):
+            row[k], row[f"{k}_max"], row[f"{k}_min"] = big[f], hi[f], lo[f]
+        out[g] = row
     return out
 
 
@@ -226,119 +252,125 @@ def snap_round_off(hi, lo):
     return np.where(np.abs(hi) < scale, 0.0, hi)[()], np.where(np.abs(lo) < scale, 0.0, lo)[()]
 
 
-_EXTREME_KEYS = ("M_max", "M_min", "V_max", "V_min", "theta_max", "theta_min", "v_max", "v_min")
-
-
-def _group_arg(values, starts, group, reduce):
-    """Index of the first row holding each group's ``reduce`` (np.maximum / np.minimum) value."""
-    best = reduce.reduceat(values, starts)
-    hit = np.flatnonzero(values == best[group])
-    return hit[np.unique(group[hit], return_index=True)[1]]
-
-
-def _extremes(resp, pre, members):
-    """``[{key: Extreme}]``, one dict per result: ``members[g]`` names the members of result g,
-    whose rows follow one another in ``pre`` (the rows of every result, in order)."""
+def _extremes(resp, ext, idx, members):
+    """``[{key: Extreme}]``, one dict per result: result g has the rows ``idx[g]`` (padded, see
+    :func:`_padded`) of ``ext`` (4, R, fields, E: vmax, smax, vmin, smin) and the member names
+    ``members[g]``."""
     x0 = resp.x_nodes[:-1]
-    sizes = np.array([len(m) for m in members])
-    starts = np.concatenate([[0], np.cumsum(sizes)[:-1]])
-    group = np.repeat(np.arange(len(members)), sizes)
-    member_of = [name for names in members for name in names]
-    out = [{} for _ in members]
-    for key in ("M", "V", "theta", "v"):
-        vmax, smax, vmin, smin = pre[key]  # (R, E)
-        r = np.arange(vmax.shape[0])
-        ia, ib = np.argmax(vmax, axis=1), np.argmin(vmin, axis=1)  # each row's element
-        hi, lo = vmax[r, ia], vmin[r, ib]
-        i, j = _group_arg(hi, starts, group, np.maximum), _group_arg(lo, starts, group, np.minimum)
-        h, low = snap_round_off(hi[i], lo[j])
-        xa, xb = (x0[ia] + smax[r, ia])[i], (x0[ib] + smin[r, ib])[j]
-        for g, (hg, lg, ag, bg, ig, jg) in enumerate(zip(h.tolist(), low.tolist(), xa.tolist(), xb.tolist(),
-                                                        i.tolist(), j.tolist())):
-            many = sizes[g] > 1
-            out[g][f"{key}_max"] = Extreme(hg, ag, member_of[ig] if many else None)
-            out[g][f"{key}_min"] = Extreme(lg, bg, member_of[jg] if many else None)
-    return [{k: o[k] for k in _EXTREME_KEYS} for o in out]
-
-
-def _reactions(resp, R, names):
+    vmax, smax, vmin, smin = ext
+    ia, ib = np.argmax(vmax, axis=2)[..., None], np.argmin(vmin, axis=2)[..., None]  # each row's element
+    hi, lo = np.take_along_axis(vmax, ia, 2)[..., 0], np.take_along_axis(vmin, ib, 2)[..., 0]  # (R, F)
+    xa = (x0[ia] + np.take_along_axis(smax, ia, 2))[..., 0]
+    xb = (x0[ib] + np.take_along_axis(smin, ib, 2))[..., 0]
+    i = np.argmax(hi[idx], axis=1)[:, None]  # (G, 1, F): each result's first member holding it
+    j = np.argmin(lo[idx], axis=1)[:, None]
+    pick = lambda a, k: np.take_along_axis(a[idx], k, axis=1)[:, 0]  # noqa: E731
+    h, low = snap_round_off(pick(hi, i), pick(lo, j))
+    cols = [a.tolist() for a in (h, low, pick(xa, i), pick(xb, j), i[:, 0], j[:, 0])]
     out = []
-    for i, s in enumerate(resp.supports):
-        f, m = R[:, i, 0], R[:, i, 1]
-        row = {"at": s.at, "type": s.type}
-        if len(names) == 1:
-            row["force"], row["moment"] = float(f[0]), float(m[0])
-        else:
-            row["force"] = float(_bigger(f.max(), f.min()))
-            row["moment"] = float(_bigger(m.max(), m.min()))
-            row.update(force_max=float(f.max()), force_min=float(f.min()),
-                       moment_max=float(m.max()), moment_min=float(m.min()))
-        out.append(row)
+    for g, names in enumerate(members):
+        many = len(names) > 1
+        d = {}
+        for f, key in enumerate(_FIELDS):
+            hg, lg, ag, bg, ig, jg = (c[g][f] for c in cols)
+            d[f"{key}_max"] = Extreme(hg, ag, names[ig] if many else None)
+            d[f"{key}_min"] = Extreme(lg, bg, names[jg] if many else None)
+        out.append({k: d[k] for k in _EXTREME_KEYS})
     return out
 
 
-def _deflection_checks(resp, pre_v, members):
-    """Worst per span over the deflection members that carry a limit."""
-    rows = [(c, i) for i, c in enumerate(members) if c.check == "deflection" and c.limit is not None]
+_EXTREME_KEYS = ("M_max", "M_min", "V_max", "V_min", "theta_max", "theta_min", "v_max", "v_min")
+
+
+def _reactions(resp, R, idx, sizes):
+    """Reaction rows of every result (list of lists of dicts) from the member rows ``idx``."""
+    Rg = R[idx]  # (G, n, nsup, 2)
+    hi, lo = Rg.max(axis=1), Rg.min(axis=1)
+    first, big, hi, lo = Rg[:, 0].tolist(), _bigger(hi, lo).tolist(), hi.tolist(), lo.tolist()
+    out = []
+    for g, size in enumerate(sizes):
+        rows = []
+        for i, s in enumerate(resp.supports):
+            row = {"at": s.at, "type": s.type}
+            if size == 1:
+                row["force"], row["moment"] = first[g][i]
+            else:
+                row["force"], row["moment"] = big[g][i]
+                row.update(force_max=hi[g][i][0], force_min=lo[g][i][0], moment_max=hi[g][i][1],
+                           moment_min=lo[g][i][1])
+            rows.append(row)
+        out.append(rows)
+    return out
+
+
+def _span_deflections(resp, ext_v, rows):
+    """Per base row in ``rows`` and span: the larger-magnitude extreme of v and where it lies,
+    ``{row: [(value, at) or None per span]}`` (None for a span without elements)."""
     if not rows:
-        return []
-    L = resp.lengths
+        return {}
     x0 = resp.x_nodes[:-1]
-    mid = x0 + L / 2
-    idx = [i for _, i in rows]
-    vmax, smax, vmin, smin = (a[idx] for a in pre_v)
+    mid = x0 + resp.lengths / 2
+    inside = np.array([(mid > a) & (mid < b) for a, b, _ in resp.spans])  # (S, E)
+    vmax, smax, vmin, smin = (a[rows][:, None, :] for a in ext_v)  # (D, 1, E)
+    ia = np.argmax(np.where(inside, vmax, -np.inf), axis=2)[..., None]  # the first in the span
+    ib = np.argmin(np.where(inside, vmin, np.inf), axis=2)[..., None]
+    take = lambda a, k: np.take_along_axis(np.broadcast_to(a, k.shape[:2] + a.shape[2:]), k, 2)[..., 0]  # noqa: E731
+    hi, lo = take(vmax, ia), take(vmin, ib)
+    up = np.abs(hi) > np.abs(lo)
+    value = np.where(up, hi, lo).tolist()
+    at = np.where(up, x0[ia[..., 0]] + take(smax, ia), x0[ib[..., 0]] + take(smin, ib)).tolist()
+    some = inside.any(axis=1).tolist()
+    return {r: [(value[d][n], at[d][n]) if some[n] else None for n in range(len(some))]
+            for d, r in enumerate(rows)}
+
+
+def _deflection_checks(resp, table, members, rows):
+    """Worst per span over the deflection members (base rows ``rows``) that carry a limit."""
+    defl = [(c, r) for c, r in zip(members, rows) if c.check == "deflection" and c.limit is not None]
+    if not defl:
+        return []
     out = []
     for n, (a, b, kind) in enumerate(resp.spans):
-        sel = np.nonzero((mid > a) & (mid < b))[0]
-        if sel.size == 0:
-            continue
         best = None
-        for r, (combo, _) in enumerate(rows):
-            ia = sel[np.argmax(vmax[r, sel])]
-            ib = sel[np.argmin(vmin[r, sel])]
-            hi, lo = vmax[r, ia], vmin[r, ib]
-            value, at = (hi, x0[ia] + smax[r, ia]) if abs(hi) > abs(lo) else (lo, x0[ib] + smin[r, ib])
+        for combo, r in defl:
+            if table[r][n] is None:
+                break
+            value, at = table[r][n]
             allowed = float(combo.limit.allowed(b - a))
             util = abs(value) / allowed
             if best is None or util > best["utilisation"]:
                 best = {"span": n + 1, "kind": kind, "from": a, "to": b, "limit": combo.limit.describe(),
-                        "allowed": allowed, "v_extreme": float(value), "at": float(at),
-                        "utilisation": float(util), "from_member": combo.name}
-        out.append(best)
+                        "allowed": allowed, "v_extreme": value, "at": at, "utilisation": util,
+                        "from_member": combo.name}
+        if best is not None:
+            out.append(best)
     return out
 
 
 def _precompute(resp, Fm):
-    """Fields, per-element extremes and derivative roots for all member rows at once."""
+    """Fields, per-element extremes and derivative roots for all member rows at once.
+
+    ``pre["ext"]`` (4, R, 4 fields, E): vmax, smax, vmin, smin of V, M, theta, v per element.
+    """
     flds = _member_fields(resp, Fm)
     L = resp.lengths
     # the stations at the extremes of M and v: the roots of dM/dx (= V) and dv/dx (= theta),
-    # found once from the derivatives themselves and shared with the extremes
-    pre = {"roots_V": poly.roots_in(poly.derivative(flds["M"]), L),
-           "roots_theta": poly.roots_in(poly.derivative(flds["v"]), L)}
-    inner = {"M": pre["roots_V"], "v": pre["roots_theta"]}
-    pre.update({key: np.stack(poly.extremes(flds[key], L, inner.get(key))) for key in _FIELDS})
-    return flds, pre
-
-
-def _take(d, rows, stacked=()):
-    """Rows ``rows`` of every array of ``d``; keys in ``stacked`` hold (4, R, E) arrays (the
-    extremes vmax, smax, vmin, smin), whose rows are axis 1."""
-    return {k: v[:, rows] if k in stacked else v[rows] for k, v in d.items()}
+    # found once from the derivatives themselves and shared with the extremes; each derivative's
+    # own critical points (the roots one level down) leave only the rows that can vanish to solve
+    low = poly.roots_in(poly.derivative(np.stack([flds["V"], flds["M"]])), L)  # linear, quadratic
+    roots_q, roots_V = low[0], low[1]
+    roots_M = poly.roots_in(poly.derivative(flds["theta"]), L, critical=roots_V)  # M / EI
+    roots_theta = poly.roots_in(poly.derivative(flds["v"]), L, critical=roots_M)
+    inner = [roots_q, roots_V, roots_M, roots_theta]  # in the order of _FIELDS
+    width = roots_theta.shape[-1]
+    inner = np.stack([np.concatenate([r, np.full(r.shape[:-1] + (width - r.shape[-1],), np.nan)], axis=-1)
+                      for r in inner], axis=1)
+    ext = np.stack(poly.extremes(flds["all"], L, inner))
+    return flds, {"roots_V": roots_V, "roots_theta": roots_theta, "ext": ext}
 
 
 def _names(members):
     return [m if isinstance(m, str) else m.name for m in members]
-
-
-def _result(name, kind, check, resp, members, stations, extremes, R, pre_v):
-    """One result set from its rows' reactions ``R`` and v extremes ``pre_v`` (4, rows, E)."""
-    names = _names(members)
-    rs = ResultSet(name, kind, check, names, _reactions(resp, R, names), extremes, stations)
-    combos = [m for m in members if not isinstance(m, str)]
-    if combos:
-        rs.deflection_checks = _deflection_checks(resp, pre_v, combos)
-    return rs
 
 
 def solve(model: BeamModel, stations: int = 48) -> BeamSolution:
@@ -406,15 +438,18 @@ def solve(model: BeamModel, stations: int = 48) -> BeamSolution:
         rows_of.append(np.arange(n_cases))
     # one pass over every distinct row: fields, extremes and roots at once
     flds, pre = _precompute(resp, base)
-    singles = [i for i, rows in enumerate(rows_of) if rows.size == 1]
-    multis = [i for i, rows in enumerate(rows_of) if rows.size > 1]
-    one = np.array([rows_of[i][0] for i in singles], int)
-    at = dict(zip(singles, _single_stations(resp, _take(flds, one), stations, _take(pre, one, _FIELDS))))
-    if multis:
-        at.update(zip(multis, _envelope_stations(resp, flds, stations, pre, [rows_of[i] for i in multis])))
-    extremes = _extremes(resp, _take(pre, np.concatenate(rows_of), _FIELDS), [_names(sp[4]) for sp in specs])
+    idx = _padded(rows_of)
+    names = [_names(sp[4]) for sp in specs]
+    at = _stations(resp, flds, pre, rows_of, stations)
+    extremes = _extremes(resp, pre["ext"], idx, names)
+    reactions = _reactions(resp, flds["R"], idx, [rows.size for rows in rows_of])
+    defl_rows = sorted({n_cases + i for i, k in enumerate(all_members)
+                        if k.check == "deflection" and k.limit is not None})
+    table = _span_deflections(resp, pre["ext"][:, :, 3], defl_rows)
     results = {}
-    for i, ((name, kind, check, _, members), rows) in enumerate(zip(specs, rows_of)):
-        results[name] = _result(name, kind, check, resp, members, at[i], extremes[i], flds["R"][rows],
-                                pre["v"][:, rows])
+    for g, (name, kind, check, _, members) in enumerate(specs):
+        rs = ResultSet(name, kind, check, names[g], reactions[g], extremes[g], at[g])
+        if kind != "case" and all_members:
+            rs.deflection_checks = _deflection_checks(resp, table, members, rows_of[g].tolist())
+        results[name] = rs
     return BeamSolution(model, resp, results)
