@@ -22,6 +22,9 @@ Examples
 
 from __future__ import annotations
 
+import functools
+import math
+
 import numpy as np
 
 __all__ = ["evaluate", "derivative", "roots_in", "extremes", "global_extremes"]
@@ -55,23 +58,19 @@ def derivative(coeffs):
     return c[..., 1:] * np.arange(1, n)
 
 
-def roots_in(coeffs, lengths, imag_tol: float = 1e-6, critical=None):
+def roots_in(coeffs, lengths, imag_tol: float = 1e-6):
     """Real roots of each polynomial strictly inside ``(0, length)``.
 
     Returns an array of shape ``coeffs.shape[:-1] + (degree,)`` with NaN where there is
     no root. Nearly real roots (relative imaginary part below ``imag_tol``) are kept, so
     a pair of close roots is never lost; a spurious candidate only costs an evaluation.
-
-    ``critical`` (``coeffs.shape[:-1] + (m,)``, NaN-padded), when given, holds the real roots
-    of each polynomial's derivative inside ``(0, length)`` (what this function returns for
-    the derivative). Between them a polynomial is monotone, so one that keeps its sign at
-    both ends and at every critical point has no root inside; only the others are solved.
+    Only the polynomials that can vanish on the interval are solved (:func:`_may_vanish`).
 
     >>> r = roots_in(np.array([2.0, -3.0, 1.0]), 5.0)    # (s-1)(s-2)
     >>> sorted(r.tolist())
     [1.0, 2.0]
     >>> c = np.array([[2.0, -3.0, 1.0], [2.5, -3.0, 1.0]])   # the second, (s-1.5)^2 + 0.25, has none
-    >>> np.sort(roots_in(c, 5.0, critical=np.array([[1.5], [1.5]]))).round(12).tolist()
+    >>> np.sort(roots_in(c, 5.0)).round(12).tolist()
     [[1.0, 2.0], [nan, nan]]
     """
     c = np.asarray(coeffs, float)
@@ -87,9 +86,7 @@ def roots_in(coeffs, lengths, imag_tol: float = 1e-6, critical=None):
     big = np.abs(b) > 1e-12 * scale[:, None]
     has = big.any(axis=1)
     eff = np.where(has, deg - np.argmax(big[:, ::-1], axis=1), 0)
-    if critical is not None:
-        crit = (np.asarray(critical, float) / L[..., None]).reshape(b.shape[0], -1)
-        eff = np.where(_may_vanish(b, crit, scale), eff, 0)
+    eff = np.where(_may_vanish(b, scale), eff, 0)
     for d in range(1, deg + 1):  # small fixed set of degrees
         idx = np.nonzero(eff == d)[0]
         if idx.size == 0:
@@ -122,7 +119,7 @@ def roots_in(coeffs, lengths, imag_tol: float = 1e-6, critical=None):
             with np.errstate(divide="ignore", invalid="ignore"):
                 step = np.where(np.abs(g) > 0, f / g, 0.0)
             t_new = t - step
-            f_new = evaluate(p[:, None, :], np.nan_to_num(t_new))
+            f_new = evaluate(p[:, None, :], np.where(np.isfinite(t_new), t_new, 0.0))  # (not a root: ok below)
             ok = np.isfinite(t_new) & (np.abs(step) < 0.1) & (np.abs(f_new) <= np.abs(f))
             t, f = np.where(ok, t_new, t), np.where(ok, f_new, f)
         t = np.where((t > 0.0) & (t < 1.0), t, np.nan)
@@ -131,20 +128,31 @@ def roots_in(coeffs, lengths, imag_tol: float = 1e-6, critical=None):
 
 
 _VANISH_TOL = 1e-6
-"""A polynomial within this fraction of its largest coefficient of zero at an end or critical
-point may touch zero there (a double root, or round-off near a root at the end): it is solved."""
+"""A polynomial whose Bernstein coefficients on [0, 1] all exceed this fraction of its largest
+coefficient, with one sign, keeps that sign with a margin: it has no root there (nor a nearly
+real pair, whose value at its real part is far smaller). The others are solved."""
 
 
-def _may_vanish(b, crit, scale):
-    """Rows of ``b`` (N, n), polynomials on ``t`` in [0, 1] whose derivatives' real roots inside are
-    ``crit`` (N, m; NaN where none), that may have a root inside: a sign change between the ends
-    and critical points (monotone pieces), or a value near zero at one of them."""
-    pts = np.concatenate([np.zeros((b.shape[0], 1)), np.nan_to_num(crit, nan=0.0), np.ones((b.shape[0], 1))],
-                         axis=1)
-    pts.sort(axis=1)
-    f = evaluate(b[:, None, :], pts)
-    neg = f < 0
-    return (neg[:, 1:] != neg[:, :-1]).any(axis=1) | (np.abs(f) <= _VANISH_TOL * scale[:, None]).any(axis=1)
+@functools.lru_cache(maxsize=None)
+def _to_bernstein(deg):
+    """(deg + 1, deg + 1) matrix from ascending power coefficients on [0, 1] to Bernstein ones:
+    ``b_i = sum_k C(i, k) / C(deg, k) a_k`` (any text on Bezier curves, e.g. Farin, Curves and
+    Surfaces for CAGD, on degree conversion)."""
+    return np.array([[math.comb(i, k) / math.comb(deg, k) if k <= i else 0.0 for k in range(deg + 1)]
+                     for i in range(deg + 1)])
+
+
+def _may_vanish(b, scale):
+    """Rows of ``b`` (N, n), polynomials in ``t``, that may have a root in [0, 1]: a polynomial lies
+    between the smallest and largest of its Bernstein coefficients (their convex hull), so one
+    whose coefficients all keep one sign by a margin has none.
+
+    >>> _may_vanish(np.array([[0.06, -0.5, 1.0], [1.0, -1.0, 1.0]]), np.array([1.0, 1.0])).tolist()
+    [True, False]
+    """
+    bern = b @ _to_bernstein(b.shape[1] - 1).T
+    tol = _VANISH_TOL * scale[:, None]
+    return ~((bern > tol).all(axis=1) | (bern < -tol).all(axis=1))
 
 
 _CUBIC_WELL = 1e3  # the closed-form cubic for monic coefficients up to this (roots of that size)
@@ -231,8 +239,8 @@ def extremes(coeffs, lengths, inner=None):
     if inner is None:
         inner = roots_in(derivative(c), L) if c.shape[-1] > 2 else np.full(lead + (0,), np.nan)
     cand = np.concatenate([np.zeros(lead + (1,)), L[..., None], inner], axis=-1)
-    vals = evaluate(c[..., None, :], np.nan_to_num(cand, nan=0.0))
     bad = np.isnan(cand)
+    vals = evaluate(c[..., None, :], np.where(bad, 0.0, cand))
     vhi = np.where(bad, -np.inf, vals)
     vlo = np.where(bad, np.inf, vals)
     imax = np.argmax(vhi, axis=-1)[..., None]

@@ -354,17 +354,10 @@ def _precompute(resp, Fm):
     """
     flds = _member_fields(resp, Fm)
     L = resp.lengths
-    # the stations at the extremes of M and v: the roots of dM/dx (= V) and dv/dx (= theta),
-    # found once from the derivatives themselves and shared with the extremes; each derivative's
-    # own critical points (the roots one level down) leave only the rows that can vanish to solve
-    low = poly.roots_in(poly.derivative(np.stack([flds["V"], flds["M"]])), L)  # linear, quadratic
-    roots_q, roots_V = low[0], low[1]
-    roots_M = poly.roots_in(poly.derivative(flds["theta"]), L, critical=roots_V)  # M / EI
-    roots_theta = poly.roots_in(poly.derivative(flds["v"]), L, critical=roots_M)
-    inner = [roots_q, roots_V, roots_M, roots_theta]  # in the order of _FIELDS
-    width = roots_theta.shape[-1]
-    inner = np.stack([np.concatenate([r, np.full(r.shape[:-1] + (width - r.shape[-1],), np.nan)], axis=-1)
-                      for r in inner], axis=1)
+    # the roots of every field's derivative (those of V and theta are also the stations at the
+    # extremes of M and v), in one call for all four fields
+    inner = poly.roots_in(poly.derivative(flds["all"]), L)  # (R, 4, E, 4)
+    roots_V, roots_theta = inner[:, 1, :, :2], inner[:, 3]  # (dM/dx is quadratic)
     ext = np.stack(poly.extremes(flds["all"], L, inner))
     return flds, {"roots_V": roots_V, "roots_theta": roots_theta, "ext": ext}
 
