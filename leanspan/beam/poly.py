@@ -83,17 +83,18 @@ def roots_in(coeffs, lengths, imag_tol: float = 1e-6):
     b = (c * L[..., None] ** np.arange(n)).reshape(-1, n)  # in t = s / L, t in (0, 1)
     out = np.full((b.shape[0], deg), np.nan)
     scale = np.abs(b).max(axis=1)
-    big = np.abs(b) > 1e-12 * scale[:, None]
-    has = big.any(axis=1)
-    eff = np.where(has, deg - np.argmax(big[:, ::-1], axis=1), 0)
-    eff = np.where(_may_vanish(b, scale), eff, 0)
+    live = np.flatnonzero(_may_vanish(b, scale))
+    b = b[live]
+    big = np.abs(b) > 1e-12 * scale[live, None]
+    eff = np.where(big.any(axis=1), deg - np.argmax(big[:, ::-1], axis=1), 0)
+    t = np.full((live.size, deg), np.nan)
     for d in range(1, deg + 1):  # small fixed set of degrees
-        idx = np.nonzero(eff == d)[0]
+        idx = np.flatnonzero(eff == d)
         if idx.size == 0:
             continue
         p = b[idx, : d + 1]
         if d == 1:
-            t = (-p[:, 0] / p[:, 1])[:, None]
+            t[idx, :1] = (-p[:, 0] / p[:, 1])[:, None]
         elif d == 2:
             a2, a1, a0 = p[:, 2], p[:, 1], p[:, 0]
             disc = a1 * a1 - 4 * a2 * a0
@@ -104,26 +105,30 @@ def roots_in(coeffs, lengths, imag_tol: float = 1e-6):
             with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
                 r1 = np.where(qq != 0, qq / a2, -a1 / (2 * a2))
                 r2 = np.where(qq != 0, a0 / qq, -a1 / (2 * a2))
-            t = np.where(keep[:, None], np.stack([r1, r2], axis=1), np.nan)
+            t[idx, :2] = np.where(keep[:, None], np.stack([r1, r2], axis=1), np.nan)
         elif d == 3:
-            t = _cubic_roots(p, imag_tol)
+            t[idx, :3] = _cubic_roots(p, imag_tol)
         else:
-            t = _companion_roots(p, imag_tol)
-        # two Newton steps polish the round-off of the trigonometric cubic and the eigenvalues,
-        # each kept only where it lowers |p| (near a double root the step is unreliable); the
-        # quadratic formula is converged already
-        dp = p[:, 1:] * np.arange(1, d + 1)
-        f = evaluate(p[:, None, :], t)
-        for _ in range(2 if d >= 3 else 0):
-            g = evaluate(dp[:, None, :], t)
+            t[idx, :d] = _companion_roots(p, imag_tol)
+    # two Newton steps polish the round-off of the trigonometric cubic and the eigenvalues,
+    # each kept only where it lowers |p| (near a double root the step is unreliable); the
+    # quadratic formula is converged already. Higher coefficients of a lower degree are zero,
+    # so all degrees from the cubic up are polished together.
+    idx = np.flatnonzero(eff >= 3)
+    if idx.size:
+        p, r = b[idx], t[idx]
+        dp = p[:, 1:] * np.arange(1, n)
+        f = evaluate(p[:, None, :], r)
+        for _ in range(2):
+            g = evaluate(dp[:, None, :], r)
             with np.errstate(divide="ignore", invalid="ignore"):
                 step = np.where(np.abs(g) > 0, f / g, 0.0)
-            t_new = t - step
-            f_new = evaluate(p[:, None, :], np.where(np.isfinite(t_new), t_new, 0.0))  # (not a root: ok below)
-            ok = np.isfinite(t_new) & (np.abs(step) < 0.1) & (np.abs(f_new) <= np.abs(f))
-            t, f = np.where(ok, t_new, t), np.where(ok, f_new, f)
-        t = np.where((t > 0.0) & (t < 1.0), t, np.nan)
-        out[idx, :d] = t
+            r_new = r - step
+            f_new = evaluate(p[:, None, :], np.where(np.isfinite(r_new), r_new, 0.0))  # (not a root: ok below)
+            ok = np.isfinite(r_new) & (np.abs(step) < 0.1) & (np.abs(f_new) <= np.abs(f))
+            r, f = np.where(ok, r_new, r), np.where(ok, f_new, f)
+        t[idx] = r
+    out[live] = np.where((t > 0.0) & (t < 1.0), t, np.nan)
     return out.reshape(lead + (deg,)) * L[..., None]
 
 
