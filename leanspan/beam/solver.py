@@ -142,6 +142,7 @@ class _Mesh:
     Le: np.ndarray        # (m,) element lengths
     EIe: np.ndarray       # (m,) element stiffness
     node_piece: np.ndarray  # (m+1,) piece boundary index of each node
+    support_node: np.ndarray  # node of each model support
     v_dof: np.ndarray     # per node
     th_left: np.ndarray
     th_right: np.ndarray
@@ -208,7 +209,8 @@ def _mesh(model: BeamModel) -> _Mesh:
     th_left = v_dof + 1
     th_right = np.where(hinge, v_dof + 2, th_left)
     edofs = np.stack([v_dof[:-1], th_right[:-1], v_dof[1:], th_left[1:]], axis=1)
-    return _Mesh(x, np.diff(x), EIe[elem], elem, xe, np.diff(xe), EIe, node_piece, v_dof, th_left,
+    support_node = _nearest(xe, [sp.at for sp in model.supports])
+    return _Mesh(x, np.diff(x), EIe[elem], elem, xe, np.diff(xe), EIe, node_piece, support_node, v_dof, th_left,
                  th_right, edofs, int(step.sum()))
 
 
@@ -374,15 +376,18 @@ def check_mechanism(model: BeamModel) -> None:
 # ---------------------------------------------------------------------------------------
 # assembly and solution
 
+_K0 = np.array([[12, 0, -12, 0], [0, 0, 0, 0], [-12, 0, 12, 0], [0, 0, 0, 0]], float)
+_K1 = np.array([[0, 6, 0, 6], [6, 0, -6, 0], [0, -6, 0, -6], [6, 0, -6, 0]], float)
+_K2 = np.array([[0, 0, 0, 0], [0, 4, 0, 2], [0, 0, 0, 0], [0, 2, 0, 4]], float)
+
+
 def _element_stiffness(L, EI):
-    c = EI / L**3
-    k = np.empty(L.shape + (4, 4))
-    L2 = L * L
-    k[..., 0, :] = np.stack([12 * c, 6 * L * c, -12 * c, 6 * L * c], -1)
-    k[..., 1, :] = np.stack([6 * L * c, 4 * L2 * c, -6 * L * c, 2 * L2 * c], -1)
-    k[..., 2, :] = np.stack([-12 * c, -6 * L * c, 12 * c, -6 * L * c], -1)
-    k[..., 3, :] = np.stack([6 * L * c, 2 * L2 * c, -6 * L * c, 4 * L2 * c], -1)
-    return k
+    """Hermite beam element stiffness (..., 4, 4) in double (worked out in the precision of ``L``):
+    ``EI / L^3`` times the constant, ``L`` and ``L^2`` terms [[12, 6L, -12, 6L], [6L, 4L^2, -6L,
+    2L^2], ...] (any stiffness-method text)."""
+    c = (EI / L**3)[..., None, None]
+    Lk = L[..., None, None]
+    return ((_K0.astype(L.dtype) + _K1.astype(L.dtype) * Lk + _K2.astype(L.dtype) * (Lk * Lk)) * c).astype(float)
 
 
 _GAUSS = (np.array([-np.sqrt(0.6), 0.0, np.sqrt(0.6)]), np.array([5.0, 8.0, 5.0]) / 9.0)
@@ -428,9 +433,9 @@ def _band(mesh, dtype=np.longdouble):
     Ke = _element_stiffness(mesh.Le.astype(dtype), mesh.EIe.astype(dtype))
     u = int((mesh.edofs[:, 3] - mesh.edofs[:, 0]).max())
     ab = np.zeros((u + 1, mesh.ndof), dtype)
-    for a, b in itertools.combinations_with_replacement(range(4), 2):
-        i, j = mesh.edofs[:, a], mesh.edofs[:, b]
-        ab[u + i - j, j] += Ke[:, a, b]
+    a, b = np.triu_indices(4)  # the upper triangle of each element, pair by pair
+    i, j = mesh.edofs[:, a].T, mesh.edofs[:, b].T  # (10, m)
+    np.add.at(ab, (u + i - j, j), Ke[:, a, b].T)
     return ab
 
 
@@ -465,8 +470,7 @@ def _singular():
 
 def _supports_dofs(model, mesh):
     fixed, springs = [], []  # (dof, support index, component) / (dof, stiffness, support index, component)
-    for i, s in enumerate(model.supports):
-        n = _node_index(mesh.xe, s.at)
+    for i, (s, n) in enumerate(zip(model.supports, mesh.support_node.tolist())):
         if s.fixes_v:
             fixed.append((mesh.v_dof[n], i, 0))
         if s.fixes_theta:
@@ -666,10 +670,9 @@ def _respond(model, EI, unit_self_weight, self_weight_case):
     # statics from the left: concentrated forces and couples at piece boundaries, with reactions
     Fn = np.broadcast_to(P, (nk,) + P.shape).copy()
     Cn = np.broadcast_to(C, (nk,) + C.shape).copy()
-    for i, s in enumerate(model.supports):
-        n = mesh.node_piece[_node_index(mesh.xe, s.at)]
-        Fn[:, :, n] += R[:, :, i, 0]
-        Cn[:, :, n] += R[:, :, i, 1]
+    at = mesh.node_piece[mesh.support_node]
+    np.add.at(Fn, (slice(None), slice(None), at), R[..., 0])  # support by support, as a loop would
+    np.add.at(Cn, (slice(None), slice(None), at), R[..., 1])
     Le = mesh.L
     Q = q0 * Le + q1 * Le**2 / 2  # load resultant on each piece (upward)
     excl = lambda a: np.concatenate([np.zeros(a.shape[:-1] + (1,)), np.cumsum(a, -1)[..., :-1]], -1)  # noqa: E731
