@@ -156,9 +156,9 @@ def _station_values(every, rows, s):
     R, E, m = s.shape
     valid = ~np.isnan(s)
     at = np.flatnonzero(valid)
-    e = at // m % E
+    row, e = np.divmod(at // m, E)
     coef = every.transpose(3, 1, 0, 2).reshape(24, -1)  # (6 powers x 4 fields, rows x elements)
-    c = np.take(coef, rows[at // (m * E)] * E + e, axis=1).reshape(6, 4, -1)
+    c = np.take(coef, rows[row] * E + e, axis=1).reshape(6, 4, -1)
     z = s.reshape(-1)[at]
     vals = c[5] * z + c[4]  # Horner's rule (as poly.evaluate), every field at once
     for k in range(3, -1, -1):
@@ -214,11 +214,11 @@ def _stations(resp, flds, pre, rows_of, n_regular):
     out = [None] * len(rows_of)
     n1 = sum(per_row[:one.size])
     k1 = keep[:n1]
-    kept = np.bincount(np.repeat(np.arange(one.size), per_row[:one.size])[k1], minlength=one.size)
-    bounds = np.cumsum(kept)[:-1]
-    cols = [np.split(x[:n1][k1], bounds)] + [np.split(vals[f, :n1][k1], bounds) for f in range(len(_FIELDS))]
+    table = np.concatenate([x[None, :n1], vals[:, :n1]])[:, k1]  # x, V, M, theta, v of the kept stations
+    bounds = [0] + np.cumsum(k1)[np.cumsum(per_row[:one.size]) - 1].tolist()  # kept ones before each row's end
     for r, g in enumerate(singles):
-        out[g] = dict(zip(("x",) + _FIELDS, (c[r] for c in cols)))
+        part = table[:, bounds[r]:bounds[r + 1]]
+        out[g] = dict(zip(("x",) + _FIELDS, part))
     at, r = n1, one.size
     for g, size in zip(multis, sizes):
         n = per_row[r]
@@ -252,6 +252,9 @@ def snap_round_off(hi, lo):
     return np.where(np.abs(hi) < scale, 0.0, hi)[()], np.where(np.abs(lo) < scale, 0.0, lo)[()]
 
 
+_EXTREME_KEYS = ("M_max", "M_min", "V_max", "V_min", "theta_max", "theta_min", "v_max", "v_min")
+
+
 def _extremes(resp, ext, idx, members):
     """``[{key: Extreme}]``, one dict per result: result g has the rows ``idx[g]`` (padded, see
     :func:`_padded`) of ``ext`` (4, R, fields, E: vmax, smax, vmin, smin) and the member names
@@ -266,20 +269,18 @@ def _extremes(resp, ext, idx, members):
     j = np.argmin(lo[idx], axis=1)[:, None]
     pick = lambda a, k: np.take_along_axis(a[idx], k, axis=1)[:, 0]  # noqa: E731
     h, low = snap_round_off(pick(hi, i), pick(lo, j))
-    cols = [a.tolist() for a in (h, low, pick(xa, i), pick(xb, j), i[:, 0], j[:, 0])]
+    H, LO, XA, XB, I, J = (a.tolist() for a in (h, low, pick(xa, i), pick(xb, j), i[:, 0], j[:, 0]))
+    order = [(_FIELDS.index(k[:-4]), k, k[:-4] + "_min") for k in _EXTREME_KEYS[::2]]  # M, V, theta, v
     out = []
     for g, names in enumerate(members):
         many = len(names) > 1
+        hg, lg, ag, bg, ig, jg = H[g], LO[g], XA[g], XB[g], I[g], J[g]
         d = {}
-        for f, key in enumerate(_FIELDS):
-            hg, lg, ag, bg, ig, jg = (c[g][f] for c in cols)
-            d[f"{key}_max"] = Extreme(hg, ag, names[ig] if many else None)
-            d[f"{key}_min"] = Extreme(lg, bg, names[jg] if many else None)
-        out.append({k: d[k] for k in _EXTREME_KEYS})
+        for f, kmax, kmin in order:
+            d[kmax] = Extreme(hg[f], ag[f], names[ig[f]] if many else None)
+            d[kmin] = Extreme(lg[f], bg[f], names[jg[f]] if many else None)
+        out.append(d)
     return out
-
-
-_EXTREME_KEYS = ("M_max", "M_min", "V_max", "V_min", "theta_max", "theta_min", "v_max", "v_min")
 
 
 def _reactions(resp, R, idx, sizes):
