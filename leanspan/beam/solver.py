@@ -198,11 +198,12 @@ def _mesh(model: BeamModel) -> _Mesh:
     # pieces: the nodes plus every load position (those at a node's round-off take the node)
     lp = np.clip(_load_points(model), 0.0, L)
     lp = lp[np.abs(lp - xe[_nearest(xe, lp)]) > LOAD_SNAP * L]
-    x = np.union1d(xe, _merge(lp, LOAD_SNAP * L)) if lp.size else xe.copy()
+    x = np.sort(np.concatenate([xe, _merge(lp, LOAD_SNAP * L)])) if lp.size else xe.copy()  # none equal
     node_piece = np.searchsorted(x, xe)
     elem = np.searchsorted(xe, 0.5 * (x[:-1] + x[1:])) - 1
     hinge = np.zeros(m, bool)
-    hinge[_nearest(xe, list(model.hinges))] = bool(model.hinges)
+    if model.hinges:
+        hinge[_nearest(xe, list(model.hinges))] = True
     # per node: v, theta (left), theta (right, a separate dof only at a hinge); banded order
     step = 2 + hinge
     v_dof = np.concatenate([[0], np.cumsum(step)[:-1]])
