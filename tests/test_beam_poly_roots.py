@@ -77,3 +77,44 @@ def test_a_beam_whose_slope_is_nearly_cubic_finds_its_sag():
     x = np.linspace(a, L, 200_001)
     sag = np.max(P * a * (L - x) * (2 * L * x - x**2 - a**2) / (6 * EI * L))
     assert -r.extremes["v_min"].value == pytest.approx(sag, rel=1e-6)
+
+
+@pytest.mark.parametrize("degree", [2, 3, 4])
+def test_roots_at_the_edges_and_nearly_touching_pairs(degree):
+    """The rows roots_in skips (one sign on the interval, by their Bernstein coefficients) never
+    hide a root: roots just outside either end are not returned, roots just inside are, and a
+    complex pair a +- ib with a inside is returned (as a) when b is below the nearly-real
+    tolerance and not when b is large. numpy.roots is the reference for the real roots."""
+    rng = np.random.default_rng(70 + degree)
+    for trial in range(300):
+        kind = trial % 4
+        eps = 10 ** rng.uniform(-9, -3)
+        if kind == 0:  # all roots just outside: none inside
+            roots = np.r_[-eps, 1 + eps, rng.uniform(1.5, 3.0, degree - 2)]
+            expect = []
+        elif kind == 1:  # one root just inside each end
+            roots = np.r_[eps, 1 - eps, rng.uniform(1.5, 3.0, degree - 2)]
+            expect = [eps, 1 - eps]
+        else:
+            a = rng.uniform(0.1, 0.9)
+            b = 1e-9 if kind == 2 else 1e-2  # nearly real (kept) / clearly complex (not a root)
+            pair = np.polynomial.polynomial.polyfromroots([a + 1j * b, a - 1j * b]).real
+            rest = np.polynomial.polynomial.polyfromroots(rng.uniform(1.5, 3.0, degree - 2))
+            coef = np.polynomial.polynomial.polymul(pair, rest) * rng.choice([-1, 1])
+            got = roots_in(coef[None], np.array([1.0]))[0]
+            got = got[~np.isnan(got)]
+            if kind == 2:
+                assert got.size >= 1 and np.all(np.abs(got - a) <= 1e-4), (a, got)
+            else:
+                assert got.size == 0, (a, got)
+                ref = np.roots(coef[::-1])
+                inside = ref[(ref.real > 0) & (ref.real < 1)]
+                assert np.all(np.abs(inside.imag) > 1e-3)  # numpy.roots: no real root inside either
+            continue
+        coef = _from_roots(roots, rng.uniform(0.5, 2.0) * rng.choice([-1, 1]))
+        got = np.sort(roots_in(coef[None], np.array([1.0]))[0])
+        got = got[~np.isnan(got)]
+        ref = np.roots(coef[::-1]).real
+        ref = np.sort(ref[(ref > 0) & (ref < 1)])
+        assert got.size == len(expect) == ref.size, (roots, got, ref)
+        assert np.allclose(got, ref, rtol=0, atol=1e-9), (roots, got, ref)
