@@ -6,7 +6,9 @@ coordinate ``s = x - x_start[e]``: ``coeffs[..., e, k]`` multiplies ``s**k``, va
 element ends and the real roots of the derivative inside the element, grouped by
 effective degree: closed forms up to the cubic (stable quadratic formula, trigonometric
 or Cardano cubic), higher degrees (and nearly quadratic cubics) by companion-matrix
-eigenvalues, polished by Newton steps.
+eigenvalues, polished by Newton steps. A derivative whose Bernstein coefficients keep one
+sign by a margin has no root in its element and is not solved: in a beam most elements'
+derivatives are such, so few polynomials reach the root finders.
 
 Examples
 --------

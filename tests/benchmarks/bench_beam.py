@@ -1,6 +1,7 @@
 """Beam benchmarks: one full solve with stations, and 10,000 sprung-beam stiffness variants batched.
 
-beam_solve_ms          three spans, 20 loads, 10 combinations, full stations (target < 20 ms)
+beam_solve_ms          three spans, 20 loads, 10 combinations, full stations (target < 5 ms; 5.4-6.6 ms
+                       on the shared 2-core machine before the work of issues 18/19, about 3.4 after)
 beam_batch_10k_seconds respond() for 10,000 EI candidates of a beam on a spring (target < 1 s)
 beam_10k_loads_seconds  solve() of a two-span beam with 10,000 point loads (target < 0.5 s)
 beam_10k_loads_peak_mb  peak memory allocated by that solve (tracemalloc; linear in the loads)
