@@ -33,6 +33,12 @@ KEYS = ("A yc zc Iz Iy Iyz I1 I2 theta Sz_top Sz_bot Sy_left Sy_right Zz Zy rz r
         "depth width shear_factor").split()
 
 _CHUNK = 4096  # sections per chunk: keeps the (sections x levels x edges) work in cache
+_CHUNK_VERTICES = 196608  # and at most this many vertices per chunk (many-sided tubes: fewer sections)
+
+
+def _chunk_size(vertices: int) -> int:
+    """Sections per chunk for sections of ``vertices`` vertices each."""
+    return max(16, min(_CHUNK, _CHUNK_VERTICES // max(vertices, 1)))
 
 
 def elastic_properties(e: Edges) -> dict[str, np.ndarray]:
@@ -91,15 +97,15 @@ def _largest_cubic_root(alpha, c):
     return alpha / 4.0 + t
 
 
-def _running_sum(a, reverse=False):
+def _running_sum(a, reverse=False, op=np.add):
     """Cumulative sums along the first axis of a (V, N) array (from the last row if ``reverse``).
 
-    The same sums, in the same order, as ``np.cumsum(a, axis=0)``; for many sections
-    a loop of row additions is several times faster than numpy's accumulate along
-    the slow axis.
+    The same sums, in the same order, as ``np.cumsum(a, axis=0)`` (``op=np.maximum``:
+    running maxima); for many sections a loop of row operations is several times
+    faster than numpy's accumulate along the slow axis.
     """
-    if a.shape[1] < 64:
-        return np.cumsum(a[::-1], axis=0)[::-1].copy() if reverse else np.cumsum(a, axis=0)
+    if len(a) < 2 or a[0].size < 256:
+        return op.accumulate(a[::-1], axis=0)[::-1].copy() if reverse else op.accumulate(a, axis=0)
     out = np.empty_like(a)
     rows = range(len(a) - 1, -1, -1) if reverse else range(len(a))
     previous = None
@@ -107,7 +113,7 @@ def _running_sum(a, reverse=False):
         if previous is None:
             out[i] = a[i]
         else:
-            np.add(out[previous], a[i], out=out[i])
+            op(out[previous], a[i], out=out[i])
         previous = i
     return out
 
@@ -136,9 +142,9 @@ def _sorter(order, n):
 def _snapped_levels(lev, extent):
     """Sort the vertex levels (V, N) of each section, merging levels closer than 1e-9 of the extent.
 
-    Returns ``(sort, s, lev, start)``: a function that sorts a (V, N) array the same
-    way, the sorted levels, the levels in vertex order and a (V, N) mask of the sorted
-    vertices that start a new level. Each run of levels with gaps up to the tolerance
+    Returns ``(order, s, start)``: the sort order (one for all sections (V,), or one
+    per section (V, N)), the sorted levels and a (V, N) mask of the sorted vertices
+    that start a new level. Each run of levels with gaps up to the tolerance
     takes the level of its lowest member, so an edge tilted by less than that becomes
     exactly horizontal and every band is either empty or thicker than the tolerance.
 
@@ -157,12 +163,13 @@ def _snapped_levels(lev, extent):
     # is too close to the tolerance to say that the runs of merged levels are the same
     fails = ((gap < -slack) | ((gap > tol) & (gap <= tol + 2 * v * slack))).any(axis=0)
     if fails.any():
+        # the tried order leaves them nearly sorted: a merge sort of runs finishes quickly
         full = np.repeat(order[:, None], n, axis=1)
-        full[:, fails] = np.argsort(lev[:, fails], axis=0)
+        nearly = np.ascontiguousarray((s if fails.all() else s[:, fails]).T)
+        full[:, fails] = order[np.argsort(nearly, axis=1, kind="stable")].T
         order = full
-    sort, unsort = _sorter(order, n)
     if fails.any():
-        s = sort(lev)
+        s = _sorter(order, n)[0](lev)
         gap = s[1:] - s[:-1]
     start = np.empty((v, n), bool)
     start[0] = True
@@ -171,44 +178,27 @@ def _snapped_levels(lev, extent):
         if (start == start[:, :1]).all():  # the same runs in every section
             s = s[np.maximum.accumulate(np.where(start[:, 0], np.arange(v), 0))]
         else:
-            run_start = np.maximum.accumulate(np.where(start, np.arange(v)[:, None], 0), axis=0)
+            run_start = _running_sum(np.where(start, np.arange(v)[:, None], 0), op=np.maximum)
             s = s.ravel().take(run_start * n + np.arange(n)).reshape(v, n)
-        lev = unsort(s)
-    return sort, s, lev, start
+    return order, s, start
 
 
 def _level_groups(s, start):
-    """The distinct levels of each section and a picker of each level's last sorted vertex.
+    """The distinct levels, when every section has its repeated levels at the same sorted rows.
 
-    Returns ``(pick, levels, padding)``: ``pick(a)`` takes, from a sorted (V, N) array,
-    the rows of the last vertex at each distinct level, giving (G, N) with G the most
-    distinct levels of any section; ``levels`` = ``pick(s)``. A section with fewer
-    levels repeats its top one (empty bands, marked True in the (G - 1, N) mask
-    ``padding``; None if there are none). Cumulative sums picked this way hold
-    everything up to and including that level, so repeated levels leave no empty
-    bands in the middle, and the band work shrinks (a welded I has 4 levels, not 12).
+    Returns ``(pick, levels)``: ``pick(a)`` takes, from a sorted (V, N) array, the rows
+    of the last vertex at each distinct level; ``levels`` = ``pick(s)``. Cumulative
+    sums picked this way hold everything up to and including that level, so repeated
+    levels leave no empty bands and the band work shrinks (a welded I has 4 levels,
+    not 12). Otherwise every vertex keeps its row (repeated levels give empty bands).
     """
-    v, n = s.shape
-    count = start.sum(axis=0)
-    if (count == v).all():
-        return (lambda a: a), s, None
     last = np.empty_like(start)
     last[:-1] = start[1:]
     last[-1] = True
-    if (last == last[:, :1]).all():  # the same levels in every section: whole rows
-        rows = np.flatnonzero(last[:, 0])
-        return (lambda a: a[rows]), s[rows], None
-    g = int(count.max())
-    vertex, section = np.nonzero(last)
-    rank = np.cumsum(last, axis=0)[vertex, section] - 1
-    index = np.full((g, n), v - 1)
-    index[rank, section] = vertex
-    flat = (index * n + np.arange(n)).ravel()
-
-    def pick(a):
-        return a.ravel().take(flat).reshape(g, n)
-    padding = np.arange(1, g)[:, None] >= count
-    return pick, pick(s), (padding if padding.any() else None)
+    if last.all() or not (last == last[:, :1]).all():
+        return (lambda a: a), s
+    rows = np.flatnonzero(last[:, 0])
+    return (lambda a: a[rows]), s[rows]
 
 
 def _above(start):
@@ -239,8 +229,16 @@ class _WidthProfile:
     slopes of nearly horizontal edges just above that tolerance cancel exactly.
     """
 
-    def __init__(self, lev, wid, succ, prev, extent):
-        sort, s, lev, start = _snapped_levels(lev, extent)
+    def __init__(self, lev, wid, succ, prev, extent, shear=True):
+        order, s, start = _snapped_levels(lev, extent)
+        v, n = s.shape
+        if order.ndim == 1:  # one order for all sections: renumber the vertices in it
+            rank = np.empty_like(order)
+            rank[order] = np.arange(v)
+            succ, prev, lev, wid, sort = rank[succ[order]], rank[prev[order]], s, wid[order], None
+        else:
+            sort, unsort = _sorter(order, n)
+            lev = unsort(s)
         du = lev[succ] - lev  # each edge from a vertex ends at the next vertex
         sloped = du != 0.0
         slope = (wid[succ] - wid) / np.where(sloped, du, np.inf)  # 0 for horizontal edges
@@ -248,10 +246,16 @@ class _WidthProfile:
         # the vertices, the width jumps by z of the sloped edge leaving a vertex minus z
         # of the sloped edge arriving there (the same point: no slopes involved), and the
         # width slope changes by the leaving edge's slope minus the arriving one's.
-        jump = wid * (sloped.astype(float) - sloped[prev])
-        pick, self.u, padding = _level_groups(s, start)
-        self.beta = pick(_running_sum(sort(slope - slope[prev])))[:-1]
-        jumps = pick(_running_sum(sort(jump)))[:-1]
+        changes = np.empty((v, 2, n))  # both, to sum them in one pass
+        dslope, jump = changes[:, 0], changes[:, 1]
+        np.subtract(slope, slope[prev], out=dslope)
+        np.subtract(sloped, sloped[prev], out=jump, dtype=float)
+        jump *= wid
+        if sort is not None:
+            changes[:, 0], changes[:, 1] = sort(dslope), sort(jump)
+        pick, self.u = _level_groups(s, start)
+        sums = pick(_running_sum(changes))[:-1]
+        self.beta, jumps = np.ascontiguousarray(sums[:, 0]), sums[:, 1]
         lo, hi = self.u[:-1], self.u[1:]
         h = hi - lo
         self.rise = rise = self.beta * h  # width gained across each band
@@ -259,17 +263,39 @@ class _WidthProfile:
         w[0] = 0.0
         w[1:] = _running_sum(rise[:-1])
         w += jumps
-        if padding is not None:
-            w[padding] = 0.0  # empty bands at the top of sections with fewer levels
+        empty = h == 0.0
+        if empty.any():
+            w[empty] = 0.0  # between repeated levels: the partial sums there are no width
         self.width_lo = w
         self.alpha = w - self.beta * lo  # b = alpha + beta u in the band
-        band_area = h * (w + rise / 2.0)
-        band_first = lo * band_area + h * h * (w / 2.0 + self.beta * h / 3.0)
-        # area / first moment above the start and the top of each band
-        self.area_start = _running_sum(band_area, reverse=True)
-        self.first_start = _running_sum(band_first, reverse=True)
+        # area / first moment of each band, and above the start and the top of each band
+        bands = np.empty((h.shape[0], 2, h.shape[1]))
+        band_area, band_first, t = bands[:, 0], bands[:, 1], np.empty_like(h)
+        np.multiply(rise, 0.5, out=t)  # band area h (w + rise/2)
+        t += w
+        np.multiply(h, t, out=band_area)
+        np.multiply(rise, 1.0 / 3.0, out=t)  # first moment lo area + h^2 (w/2 + rise/3)
+        np.multiply(w, 0.5, out=band_first)
+        t += band_first
+        t *= h
+        t *= h
+        np.multiply(lo, band_area, out=band_first)
+        band_first += t
+        if shear:  # every band's first moments
+            sums = _running_sum(bands, reverse=True)
+            self.area_start, self.first_start = np.ascontiguousarray(sums[:, 0]), np.ascontiguousarray(sums[:, 1])
+            self.first_top = _above(self.first_start)
+        else:  # the plastic axis needs them in one band only (see _first_top)
+            self.area_start, self.first_start = _running_sum(band_area, reverse=True), None
+            self.band_first = np.ascontiguousarray(bands[:, 1])
         self.area_top = _above(self.area_start)
-        self.first_top = _above(self.first_start)
+
+    def _first_top(self, band):
+        """First moment above the top of band ``band[i]`` of section i."""
+        if self.first_start is not None:
+            return self.first_top.ravel().take(self._at(band))
+        above = np.arange(self.band_first.shape[0])[:, None] > band
+        return np.where(above, self.band_first, 0.0).sum(axis=0)
 
     def _at(self, band):
         """Flat index of band ``band[i]`` of section i in the (B, N) arrays."""
@@ -282,7 +308,7 @@ class _WidthProfile:
         top = self.u.ravel().take(at + band.size)
         width = a + b * c
         area = self.area_top.ravel().take(at) + a * (top - c) + b * (top * top - c * c) / 2.0
-        first = (self.first_top.ravel().take(at) + a * (top * top - c * c) / 2.0
+        first = (self._first_top(band) + a * (top * top - c * c) / 2.0
                  + b * (top * top * top - c * c * c) / 3.0)
         return width, area, first
 
@@ -364,7 +390,7 @@ def _properties_chunk(e: Edges) -> dict[str, np.ndarray]:
     p["shear_factor"] = vertical.shear_peak(p["depth"]) / p["Iz"]
     # about the vertical axis: the same code with z and y exchanged; the mirror image
     # runs the other way round, so each edge leads to the vertex before it
-    Zy, c = _WidthProfile(z - p["zc"], y, prev, succ, p["width"]).plastic(A)
+    Zy, c = _WidthProfile(z - p["zc"], y, prev, succ, p["width"], shear=False).plastic(A)
     p["Zy"], p["_pna_z"] = Zy, p["zc"] + c
     return p
 
@@ -388,8 +414,9 @@ def properties(e: Edges, private: bool = False, offset: int = 0) -> dict[str, np
     """
     n = e.n
     chunks = []
-    for start in range(0, n, _CHUNK):
-        sub = e.rows(slice(start, start + _CHUNK))
+    step = _chunk_size(e.z0.shape[1])
+    for start in range(0, n, step):
+        sub = e.rows(slice(start, start + step))
         chunks.append(_properties_chunk(sub))
     out = {k: np.concatenate([c[k] for c in chunks]) for k in chunks[0]}
     bad = np.flatnonzero(~(out["A"] > 0))

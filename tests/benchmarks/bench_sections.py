@@ -69,7 +69,7 @@ def _best(fn, runs=3):
 
 def run() -> dict[str, float]:
     from leanspan.sections.families import FAMILIES
-    from leanspan.sections.properties import (_CHUNK, edges_from_family, elastic_properties,
+    from leanspan.sections.properties import (_chunk_size, edges_from_family, elastic_properties,
                                               family_properties, properties)
     from leanspan.sections.section import Section, polygon_from_family
 
@@ -82,16 +82,17 @@ def run() -> dict[str, float]:
     fam = FAMILIES["ibeam"]
     full_dims = fam.complete(dims)
     edges = edges_from_family(fam, full_dims)
-    chunks = [edges.rows(slice(s, s + _CHUNK)) for s in range(0, n, _CHUNK)]
+    step = _chunk_size(edges.z0.shape[1])
+    chunks = [edges.rows(slice(s, s + step)) for s in range(0, n, step)]
     elastic_time, _ = _best(lambda: [elastic_properties(c) for c in chunks], runs=5)
     full_time, _ = _best(lambda: properties(edges), runs=5)
 
     girders = _girder_dims(1_000_000)
-    step = 100_000
+    girder_step = 100_000
 
     def girder_run():
-        for s in range(0, 1_000_000, step):
-            family_properties("ibeam", {k: v[s:s + step] for k, v in girders.items()})
+        for s in range(0, 1_000_000, girder_step):
+            family_properties("ibeam", {k: v[s:s + girder_step] for k, v in girders.items()})
     girder_time, _ = _best(girder_run, runs=2)
 
     per_family = {}
