@@ -119,13 +119,7 @@ def _running_sum(a, reverse=False, op=np.add):
 
 
 def _sorter(order, n):
-    """``(sort, unsort)`` for a sort order: a permutation of rows (V,) or one per section (V, N)."""
-    if order.ndim == 1:
-        def unsort(a):
-            out = np.empty_like(a)
-            out[order] = a
-            return out
-        return (lambda a: a[order]), unsort
+    """``(sort, unsort)`` for one sort order per section, ``order`` of shape (V, N)."""
     v = order.shape[0]
     flat = (order * n + np.arange(n)).ravel()  # one flat index: faster than take_along_axis
 
@@ -145,7 +139,8 @@ def _snapped_levels(lev, extent):
     Returns ``(order, s, start)``: the sort order (one for all sections (V,), or one
     per section (V, N)), the sorted levels and a (V, N) mask of the sorted vertices
     that start a new level. Each run of levels with gaps up to the tolerance
-    takes the level of its lowest member, so an edge tilted by less than that becomes
+    takes the level of its lowest member (of its first, if round-off leaves it a
+    hair out of order), so an edge tilted by less than that becomes
     exactly horizontal and every band is either empty or thicker than the tolerance.
 
     The sections of one family mostly share one order, so the first section's order is
@@ -168,7 +163,6 @@ def _snapped_levels(lev, extent):
         nearly = np.ascontiguousarray((s if fails.all() else s[:, fails]).T)
         full[:, fails] = order[np.argsort(nearly, axis=1, kind="stable")].T
         order = full
-    if fails.any():
         s = _sorter(order, n)[0](lev)
         gap = s[1:] - s[:-1]
     start = np.empty((v, n), bool)
