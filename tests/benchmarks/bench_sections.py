@@ -16,6 +16,7 @@ Each time is the best of a few runs (the machine is shared).
 from __future__ import annotations
 
 import time
+import timeit
 
 import numpy as np
 
@@ -59,12 +60,8 @@ def _family_dims(name, n, rng):
 
 
 def _best(fn, runs=3):
-    best = np.inf
-    for _ in range(runs):
-        t0 = time.perf_counter()
-        out = fn()
-        best = min(best, time.perf_counter() - t0)
-    return best, out
+    """Best wall time of ``runs`` calls (timeit's repeat), and one result."""
+    return min(timeit.repeat(fn, number=1, repeat=runs)), fn()
 
 
 def run() -> dict[str, float]:
