@@ -24,7 +24,7 @@ import numpy as np
 
 from ..errors import GeometryError
 from .families import get_family
-from .geometry import Edges, bounds, edges_from_rings, moments, swap_axes, third_moments
+from .geometry import Edges, bounds, edges_from_rings, moments, third_moments
 from .thin_walled import shear_centre_height, thin_walled_torsion
 
 __all__ = ["properties", "family_properties", "family_stability", "KEYS", "STABILITY_KEYS", "elastic_properties"]
@@ -33,6 +33,12 @@ KEYS = ("A yc zc Iz Iy Iyz I1 I2 theta Sz_top Sz_bot Sy_left Sy_right Zz Zy rz r
         "depth width shear_factor").split()
 
 _CHUNK = 4096  # sections per chunk: keeps the (sections x levels x edges) work in cache
+_CHUNK_VERTICES = 196608  # and at most this many vertices per chunk (many-sided tubes: fewer sections)
+
+
+def _chunk_size(vertices: int) -> int:
+    """Sections per chunk for sections of ``vertices`` vertices each."""
+    return max(16, min(_CHUNK, _CHUNK_VERTICES // max(vertices, 1)))
 
 
 def elastic_properties(e: Edges) -> dict[str, np.ndarray]:
@@ -91,42 +97,125 @@ def _largest_cubic_root(alpha, c):
     return alpha / 4.0 + t
 
 
-def _snapped_levels(u0):
-    """Sort the vertex levels of each section, merging levels closer than 1e-9 of the depth.
+def _running_sum(a, reverse=False, op=np.add):
+    """Cumulative sums along the first axis of a (V, N) array (from the last row if ``reverse``).
 
-    Returns ``(sort, levels, u0)``: a function that sorts an (N, V) array the same
-    way (row by row, through one flat index: faster than ``take_along_axis``), the
-    sorted levels and the levels in edge order. Each run of levels with gaps up to
-    the tolerance takes the level of its lowest member, so an edge tilted by less
-    than that becomes exactly horizontal and every band is either empty or thicker
-    than the tolerance.
+    The same sums, in the same order, as ``np.cumsum(a, axis=0)`` (``op=np.maximum``:
+    running maxima); for many sections a loop of row operations is several times
+    faster than numpy's accumulate along the slow axis.
     """
-    n, v = u0.shape
-    rows = v * np.arange(n)[:, None]
-    flat = (np.argsort(u0, axis=1) + rows).ravel()
-    sort = lambda a: a.ravel().take(flat).reshape(n, v)  # noqa: E731
-    s = sort(u0)
-    gap = np.diff(s, axis=1, prepend=-np.inf)
-    close = gap <= 1e-9 * (s[:, -1] - s[:, 0])[:, None]
-    if (close & (gap > 0.0)).any():  # else the levels are already merged (or distinct)
-        run_start = np.maximum.accumulate(np.where(close, 0, np.arange(v)), axis=1)
-        s = s.ravel().take(run_start + rows)
-        u0 = np.empty(n * v)
-        u0[flat] = s.ravel()
-        u0 = u0.reshape(n, v)
-    return sort, s, u0
+    if len(a) < 2 or a[0].size < 256:
+        return op.accumulate(a[::-1], axis=0)[::-1].copy() if reverse else op.accumulate(a, axis=0)
+    out = np.empty_like(a)
+    rows = range(len(a) - 1, -1, -1) if reverse else range(len(a))
+    previous = None
+    for i in rows:
+        if previous is None:
+            out[i] = a[i]
+        else:
+            op(out[previous], a[i], out=out[i])
+        previous = i
+    return out
+
+
+def _sorter(order, n):
+    """``(sort, unsort)`` for one sort order per section, ``order`` of shape (V, N)."""
+    v = order.shape[0]
+    flat = (order * n + np.arange(n)).ravel()  # one flat index: faster than take_along_axis
+
+    def sort(a):
+        return a.ravel().take(flat).reshape(v, n)
+
+    def unsort(a):
+        out = np.empty(v * n)
+        out[flat] = a.ravel()
+        return out.reshape(v, n)
+    return sort, unsort
+
+
+def _snapped_levels(lev, extent):
+    """Sort the vertex levels (V, N) of each section, merging levels closer than 1e-9 of the extent.
+
+    Returns ``(order, s, start)``: the sort order (one for all sections (V,), or one
+    per section (V, N)), the sorted levels and a (V, N) mask of the sorted vertices
+    that start a new level. Each run of levels with gaps up to the tolerance
+    takes the level of its lowest member (of its first, if round-off leaves it a
+    hair out of order), so an edge tilted by less than that becomes
+    exactly horizontal and every band is either empty or thicker than the tolerance.
+
+    The sections of one family mostly share one order, so the first section's order is
+    tried on all; a section keeps it if it sorts its levels up to disorder far below
+    the tolerance (round-off in the vertex coordinates), and only the others are
+    sorted on their own.
+    """
+    v, n = lev.shape
+    tol = 1e-9 * extent
+    slack = 1e-6 * tol  # disorder allowed within a run of merged levels
+    order = np.argsort(lev[:, 0], kind="stable")
+    s = lev[order]
+    gap = s[1:] - s[:-1]
+    # a tried order fails where levels step down by more than round-off, or where a gap
+    # is too close to the tolerance to say that the runs of merged levels are the same
+    fails = ((gap < -slack) | ((gap > tol) & (gap <= tol + 2 * v * slack))).any(axis=0)
+    if fails.any():
+        # the tried order leaves them nearly sorted: a merge sort of runs finishes quickly
+        full = np.repeat(order[:, None], n, axis=1)
+        nearly = np.ascontiguousarray((s if fails.all() else s[:, fails]).T)
+        full[:, fails] = order[np.argsort(nearly, axis=1, kind="stable")].T
+        order = full
+        s = _sorter(order, n)[0](lev)
+        gap = s[1:] - s[:-1]
+    start = np.empty((v, n), bool)
+    start[0] = True
+    np.greater(gap, tol, out=start[1:])
+    if (~start[1:] & (gap != 0.0)).any():  # else the levels are already merged (or distinct)
+        if (start == start[:, :1]).all():  # the same runs in every section
+            s = s[np.maximum.accumulate(np.where(start[:, 0], np.arange(v), 0))]
+        else:
+            run_start = _running_sum(np.where(start, np.arange(v)[:, None], 0), op=np.maximum)
+            s = s.ravel().take(run_start * n + np.arange(n)).reshape(v, n)
+    return order, s, start
+
+
+def _level_groups(s, start):
+    """The distinct levels, when every section has its repeated levels at the same sorted rows.
+
+    Returns ``(pick, levels)``: ``pick(a)`` takes, from a sorted (V, N) array, the rows
+    of the last vertex at each distinct level; ``levels`` = ``pick(s)``. Cumulative
+    sums picked this way hold everything up to and including that level, so repeated
+    levels leave no empty bands and the band work shrinks (a welded I has 4 levels,
+    not 12). Otherwise every vertex keeps its row (repeated levels give empty bands).
+    """
+    last = np.empty_like(start)
+    last[:-1] = start[1:]
+    last[-1] = True
+    if last.all() or not (last == last[:, :1]).all():
+        return (lambda a: a), s
+    rows = np.flatnonzero(last[:, 0])
+    return (lambda a: a[rows]), s[rows]
+
+
+def _above(start):
+    """Sums over the bands strictly above each band, from the sums that include it."""
+    out = np.empty_like(start)
+    out[:-1] = start[1:]
+    out[-1] = 0.0
+    return out
 
 
 class _WidthProfile:
     """Exact width b(u), area and first moment above level u, as piecewise polynomials.
 
-    Each non-horizontal edge adds a linear term ±z(u) to the width over its own
-    range of u (u = y - yc, measured from the centroid). Sorting the edge ends per
-    section and taking cumulative sums of the width's jumps and slope changes at
-    the vertices gives, on every band between consecutive levels, the width at the
-    band's foot and its slope (also held as b = alpha + beta u); integrating band by
-    band from the top gives the area and first moment above each band start.
-    Plastic axes and the shear factor then follow without iteration over the edges.
+    Works on vertices: ``lev`` (V, N) are the vertex levels u measured from the
+    centroid (V vertices, N sections: sections along the fast axis), ``wid`` (V, N)
+    the vertex coordinates across, and ``succ`` / ``prev`` the vertex each edge leads
+    to / comes from. Each non-horizontal edge adds a linear term ±z(u) to the width
+    over its own range of u. Sorting the vertices per section and taking cumulative
+    sums of the width's jumps and slope changes at the vertices gives, on every band
+    between consecutive distinct levels, the width at the band's foot and its slope
+    (also held as b = alpha + beta u); integrating band by band from the top gives the
+    area and first moment above each band start. Plastic axes and the shear factor
+    then follow without iteration over the edges.
 
     Levels closer than 1e-9 of the depth are merged first (:func:`_snapped_levels`),
     so round-off in the vertex coordinates leaves no sliver bands. The widths are
@@ -134,54 +223,98 @@ class _WidthProfile:
     slopes of nearly horizontal edges just above that tolerance cancel exactly.
     """
 
-    def __init__(self, e: Edges, yc):
-        z0, y0, z1, _ = e
-        sort, self.u, u0 = _snapped_levels(y0 - yc[:, None])
-        succ = np.empty_like(e.prev)
-        succ[e.prev] = np.arange(e.prev.size)
-        du = u0[:, succ] - u0  # each edge ends where its successor starts
+    def __init__(self, lev, wid, succ, prev, extent, shear=True):
+        order, s, start = _snapped_levels(lev, extent)
+        v, n = s.shape
+        if order.ndim == 1:  # one order for all sections: renumber the vertices in it
+            rank = np.empty_like(order)
+            rank[order] = np.arange(v)
+            succ, prev, lev, wid, sort = rank[succ[order]], rank[prev[order]], s, wid[order], None
+        else:
+            sort, unsort = _sorter(order, n)
+            lev = unsort(s)
+        du = lev[succ] - lev  # each edge from a vertex ends at the next vertex
         sloped = du != 0.0
-        slope = np.divide(z1 - z0, du, out=np.zeros_like(du), where=sloped)
+        slope = (wid[succ] - wid) / np.where(sloped, du, np.inf)  # 0 for horizontal edges
         # edge k adds sign(du) z_k(u) to the width between its ends. Sweeping up through
         # the vertices, the width jumps by z of the sloped edge leaving a vertex minus z
         # of the sloped edge arriving there (the same point: no slopes involved), and the
         # width slope changes by the leaving edge's slope minus the arriving one's.
-        jump = z0 * (sloped.astype(float) - sloped[:, e.prev])
-        self.beta = np.cumsum(sort(slope - slope[:, e.prev])[:, :-1], axis=1)
-        lo, hi = self.u[:, :-1], self.u[:, 1:]
+        changes = np.empty((v, 2, n))  # both, to sum them in one pass
+        dslope, jump = changes[:, 0], changes[:, 1]
+        np.subtract(slope, slope[prev], out=dslope)
+        np.subtract(sloped, sloped[prev], out=jump, dtype=float)
+        jump *= wid
+        if sort is not None:
+            changes[:, 0], changes[:, 1] = sort(dslope), sort(jump)
+        pick, self.u = _level_groups(s, start)
+        sums = pick(_running_sum(changes))[:-1]
+        self.beta, jumps = np.ascontiguousarray(sums[:, 0]), sums[:, 1]
+        lo, hi = self.u[:-1], self.u[1:]
         h = hi - lo
-        rise = self.beta * h  # width gained across each band
-        self.width_lo = w = np.cumsum(sort(jump)[:, :-1] + np.concatenate([np.zeros_like(h[:, :1]),
-                                                                            rise[:, :-1]], axis=1), axis=1)
+        self.rise = rise = self.beta * h  # width gained across each band
+        w = np.empty_like(h)
+        w[0] = 0.0
+        w[1:] = _running_sum(rise[:-1])
+        w += jumps
+        empty = h == 0.0
+        if empty.any():
+            w[empty] = 0.0  # between repeated levels: the partial sums there are no width
+        self.width_lo = w
         self.alpha = w - self.beta * lo  # b = alpha + beta u in the band
-        band_area = h * (w + rise / 2.0)
-        band_first = lo * band_area + h * h * (w / 2.0 + self.beta * h / 3.0)
-        # area / first moment above the top of each band (reverse cumulative sums)
-        rev = lambda a: np.concatenate([np.cumsum(a[:, ::-1], axis=1)[:, ::-1][:, 1:],  # noqa: E731
-                                        np.zeros((a.shape[0], 1))], axis=1)
-        self.area_top = rev(band_area)
-        self.first_top = rev(band_first)
-        self.area_start = self.area_top + band_area
-        self.first_start = self.first_top + band_first
+        # area / first moment of each band, and above the start and the top of each band
+        bands = np.empty((h.shape[0], 2, h.shape[1]))
+        band_area, band_first, t = bands[:, 0], bands[:, 1], np.empty_like(h)
+        np.multiply(rise, 0.5, out=t)  # band area h (w + rise/2)
+        t += w
+        np.multiply(h, t, out=band_area)
+        np.multiply(rise, 1.0 / 3.0, out=t)  # first moment lo area + h^2 (w/2 + rise/3)
+        np.multiply(w, 0.5, out=band_first)
+        t += band_first
+        t *= h
+        t *= h
+        np.multiply(lo, band_area, out=band_first)
+        band_first += t
+        if shear:  # every band's first moments
+            sums = _running_sum(bands, reverse=True)
+            self.area_start, self.first_start = np.ascontiguousarray(sums[:, 0]), np.ascontiguousarray(sums[:, 1])
+            self.first_top = _above(self.first_start)
+        else:  # the plastic axis needs them in one band only (see _first_top)
+            self.area_start, self.first_start = _running_sum(band_area, reverse=True), None
+            self.band_first = np.ascontiguousarray(bands[:, 1])
+        self.area_top = _above(self.area_start)
+
+    def _first_top(self, band):
+        """First moment above the top of band ``band[i]`` of section i."""
+        if self.first_start is not None:
+            return self.first_top.ravel().take(self._at(band))
+        above = np.arange(self.band_first.shape[0])[:, None] > band
+        return np.where(above, self.band_first, 0.0).sum(axis=0)
+
+    def _at(self, band):
+        """Flat index of band ``band[i]`` of section i in the (B, N) arrays."""
+        return band * band.size + np.arange(band.size)
 
     def _in_band(self, band, c):
-        """Width, area and first moment above level c, for c inside band ``band`` (one per row)."""
-        take = lambda a: np.take_along_axis(a, band[:, None], axis=1)[:, 0]  # noqa: E731
-        a, b, top = take(self.alpha), take(self.beta), np.take_along_axis(self.u, band[:, None] + 1, axis=1)[:, 0]
+        """Width, area and first moment above level c, for c inside band ``band`` (one per section)."""
+        at = self._at(band)
+        a, b = self.alpha.ravel().take(at), self.beta.ravel().take(at)
+        top = self.u.ravel().take(at + band.size)
         width = a + b * c
-        area = take(self.area_top) + a * (top - c) + b * (top * top - c * c) / 2.0
-        first = take(self.first_top) + a * (top * top - c * c) / 2.0 + b * (top * top * top - c * c * c) / 3.0
+        area = self.area_top.ravel().take(at) + a * (top - c) + b * (top * top - c * c) / 2.0
+        first = (self._first_top(band) + a * (top * top - c * c) / 2.0
+                 + b * (top * top * top - c * c * c) / 3.0)
         return width, area, first
 
     def plastic(self, A):
         """Plastic modulus ∫|u - c| dA about the equal-area level c; returns (Z, c)."""
         half = A / 2.0
-        band = np.clip((self.area_start >= half[:, None]).sum(axis=1) - 1, 0, self.alpha.shape[1] - 1)
-        take = lambda a: np.take_along_axis(a, band[:, None], axis=1)[:, 0]  # noqa: E731
-        a, b = take(self.alpha), take(self.beta)
-        top = np.take_along_axis(self.u, band[:, None] + 1, axis=1)[:, 0]
-        rest = half - take(self.area_top)  # area still needed below the band top
-        width_top = a + b * top
+        band = np.clip((self.area_start >= half).sum(axis=0) - 1, 0, self.beta.shape[0] - 1)
+        at = self._at(band)
+        b = self.beta.ravel().take(at)
+        top = self.u.ravel().take(at + band.size)
+        rest = half - self.area_top.ravel().take(at)  # area still needed below the band top
+        width_top = (self.width_lo + self.rise).ravel().take(at)
         # area between c = top - t and top is width_top t - b t^2 / 2 = rest
         disc = np.sqrt(np.maximum(width_top * width_top - 2.0 * b * rest, 0.0))
         with np.errstate(divide="ignore", invalid="ignore"):
@@ -201,41 +334,57 @@ class _WidthProfile:
         w > max(0, alpha/2). So Q/b has at most one interior maximum, at the largest
         root of h; there s = w - alpha solves (2/3) s^3 + (3/2) alpha s^2 + alpha^2 s
         = -beta^2 k, which gives u = s/beta without dividing by a small beta.
+
+        Q rises towards the centroid from both sides, so inside a band that does not
+        hold the centroid Q/b is at most Q at the band's end nearer the centroid over
+        the band's smaller end width; the interior is solved only in bands where that
+        bound could beat the best end value (a few per section), which gives the same
+        maximum.
         """
-        lo, hi = self.u[:, :-1], self.u[:, 1:]
-        live = np.flatnonzero(hi > lo)  # merged levels leave empty bands
-        lo, hi, w_lo, b, q_lo, q_hi = (np.ravel(x).take(live) for x in (lo, hi, self.width_lo, self.beta,
-                                                                      self.first_start, self.first_top))
+        lo, hi = self.u[:-1], self.u[1:]
+        w_lo, b, q_lo, q_hi = self.width_lo, self.beta, self.first_start, self.first_top
+        w_hi = w_lo + self.rise
+        tiny = 1e-9 * depth
+
+        def ratio(q, width, tiny):
+            return np.divide(q, width, out=np.zeros_like(q), where=width > tiny)
+
+        best = np.maximum(ratio(q_lo, w_lo, tiny), ratio(q_hi, w_hi, tiny)).max(axis=0)
+        w_min = np.minimum(w_lo, w_hi)
+        q_max = np.where(lo >= 0.0, q_lo, q_hi)
+        maybe = (w_min <= tiny) | (q_max > (1.0 - 1e-12) * best * w_min) | ((lo < 0.0) & (hi > 0.0))
+        live = np.flatnonzero(maybe & (hi > lo))  # merged levels leave empty bands
+        n = best.size
+        lo, hi, w_lo, b, q_lo, q_hi = (x.ravel().take(live) for x in (lo, hi, w_lo, b, q_lo, q_hi))
         a = w_lo - b * lo
         k = q_hi + a * hi * hi / 2.0 + b * hi * hi * hi / 3.0
         s = _largest_cubic_root(a, 6.0 * b * b * k - a * a * a) - a
         denom = a * a + 1.5 * a * s + (2.0 / 3.0) * s * s  # > 0 unless a = s = 0
         with np.errstate(divide="ignore", invalid="ignore"):
             v = np.clip(np.where(denom > 0.0, -b * k / denom, lo), lo, hi) - lo  # from the band's foot
-        tiny = 1e-9 * depth[live // self.beta.shape[1]]
-
-        def ratio(q, width):
-            return np.divide(q, width, out=np.zeros_like(q), where=width > tiny)
-
         # widths and Q measured from the band's foot: no large alpha in thin steep bands
         q_v = q_lo - (lo * (w_lo * v + b * v * v / 2.0) + v * v * (w_lo / 2.0 + b * v / 3.0))
-        best = np.maximum(ratio(q_lo, w_lo), ratio(q_hi, w_lo + b * (hi - lo)))
-        best = np.maximum(best, ratio(q_v, w_lo + b * v))
-        peak = np.zeros(self.beta.size)
-        peak[live] = best
-        return peak.reshape(self.beta.shape).max(axis=1)
+        section = live % n
+        np.maximum.at(best, section, ratio(q_v, w_lo + b * v, tiny.take(section)))
+        return best
 
 
 def _properties_chunk(e: Edges) -> dict[str, np.ndarray]:
     p = elastic_properties(e)
     A = p["A"]
+    prev = e.prev
+    succ = np.empty_like(prev)
+    succ[prev] = np.arange(prev.size)
+    # vertices (V, N): the sections along the fast axis, so sums over vertices vectorise
+    z, y = np.ascontiguousarray(e.z0.T), np.ascontiguousarray(e.y0.T)
     # plastic modulus about the horizontal axis (bending in the vertical plane)
-    vertical = _WidthProfile(e, p["yc"])
+    vertical = _WidthProfile(y - p["yc"], z, succ, prev, p["depth"])
     Zz, c = vertical.plastic(A)
     p["Zz"], p["_pna_y"] = Zz, p["yc"] + c
     p["shear_factor"] = vertical.shear_peak(p["depth"]) / p["Iz"]
-    # about the vertical axis: the same code with z and y exchanged
-    Zy, c = _WidthProfile(swap_axes(e), p["zc"]).plastic(A)
+    # about the vertical axis: the same code with z and y exchanged; the mirror image
+    # runs the other way round, so each edge leads to the vertex before it
+    Zy, c = _WidthProfile(z - p["zc"], y, prev, succ, p["width"], shear=False).plastic(A)
     p["Zy"], p["_pna_z"] = Zy, p["zc"] + c
     return p
 
@@ -259,8 +408,9 @@ def properties(e: Edges, private: bool = False, offset: int = 0) -> dict[str, np
     """
     n = e.n
     chunks = []
-    for start in range(0, n, _CHUNK):
-        sub = e.rows(slice(start, start + _CHUNK))
+    step = _chunk_size(e.z0.shape[1])
+    for start in range(0, n, step):
+        sub = e.rows(slice(start, start + step))
         chunks.append(_properties_chunk(sub))
     out = {k: np.concatenate([c[k] for c in chunks]) for k in chunks[0]}
     bad = np.flatnonzero(~(out["A"] > 0))
