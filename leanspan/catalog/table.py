@@ -317,7 +317,8 @@ def catalog_table(series=None, families=None, materials=None, user_csv=None, max
             # relative slack 1e-4: a polygonised tube of d = 21.3 mm is 21.301 mm deep
             keep &= op(df[col].to_numpy(), float(limit) * (1 + 1e-4) if op is np.less_equal
                        else float(limit) * (1 - 1e-4))
-    df = df[keep].reset_index(drop=True)
+    if not keep.all():  # (no copy when every row stays)
+        df = df[keep].reset_index(drop=True)
     if materials is None:
         df = _with_materials(df, None, mats)
     else:

@@ -1,12 +1,16 @@
 """User catalogues: a supplier's list as CSV, read into dimension arrays per family.
 
-Columns: ``family`` and that family's dimension keys (GUIDE section 4), in mm unless
+Columns: ``family`` and that family's dimension keys (docs/formats.md 3.3), in mm unless
 the header names a unit (``d [in]``); optional ``name`` and ``material``. Rows of
 different families may share one file: a cell left blank is "not given". Columns
 named after a section property (``A``, ``Iz``, ``Zz`` ..., ``mass_per_length``) are
 tabulated values, compared with the computed ones (default units mm², mm⁴, mm³, mm,
 kg/m). Other columns (a price, a stock code) are ignored. Lines starting with ``#``
 are comments. Row numbers are file line numbers.
+
+The text is split into an (N, columns) array of cells at once
+(:func:`~leanspan.catalog.csvfile.read_grid`) and parsed a column at a time; only a file with
+a bad cell is read again row by row, to name the first bad row.
 
 Examples
 --------
