@@ -1,5 +1,6 @@
-"""The column-wise reader of user catalogues gives exactly what the row-by-row reader gives, and
-leaves every file with a bad cell to the row reader (which names the row)."""
+"""The column-wise reader of user catalogues (cells split all at once by ``read_grid``) gives
+exactly what the row-by-row reader gives (cells from ``read_table``), and leaves every file with
+a bad cell to the row reader (which names the row)."""
 
 from __future__ import annotations
 
@@ -9,7 +10,7 @@ import numpy as np
 import pytest
 
 from leanspan.catalog import user
-from leanspan.catalog.csvfile import read_table
+from leanspan.catalog.csvfile import read_grid, read_table
 from leanspan.catalog.materials import materials_table
 from leanspan.errors import CatalogError
 
@@ -33,7 +34,10 @@ def _both(path):
             col[name] = (j, "text", None)
     assert "family" in names
     table = materials_table()
-    return user._by_columns(path, header, rows, col, table), (lambda: user._by_rows(path, header, rows, col, table))
+    split = read_grid(path.read_text(encoding="utf-8"), path)
+    assert split is not None and split[0] == header
+    _, lines, grid = split
+    return user._by_columns(path, lines, grid, col, table), (lambda: user._by_rows(path, header, rows, col, table))
 
 
 def _same(a, b):

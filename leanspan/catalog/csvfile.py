@@ -21,12 +21,20 @@ from __future__ import annotations
 
 import csv
 import io
+import re
+from collections import Counter
+from operator import methodcaller
 from pathlib import Path
+
+import numpy as np
 
 from ..errors import CatalogError, brief
 from ..units import unit_factor
 
-__all__ = ["split_header", "column_factor", "read_table", "to_float"]
+__all__ = ["split_header", "column_factor", "read_table", "read_grid", "to_float"]
+
+_ODD_SPACE = re.compile(r"[^\S \t\n]")  # white space other than blanks, tabs and line ends
+_ODD_ASCII_SPACE = "\x0b\x0c\x1c\x1d\x1e\x1f"
 
 
 def split_header(text: str) -> tuple[str, str | None]:
@@ -106,16 +114,92 @@ def read_table(path, error=CatalogError, text: str | None = None):
     rows = []
     for line, cells in _lines(text, path, error):
         if header is None:
-            header = [split_header(c) for c in cells]
-            names = [h for h, _ in header]
-            dup = {n for n in names if names.count(n) > 1}
-            if dup:
-                raise error(f"{path}: row {line}: column {sorted(dup)[0]!r} appears twice")
+            header = _header(cells, line, path, error)
             continue
         rows.append((line, cells))
     if header is None:
-        raise error(f"{path}: no header row; expected column names such as 'family,d,b'")
+        raise error(_NO_HEADER.format(path=path))
     return header, rows
+
+
+_NO_HEADER = "{path}: no header row; expected column names such as 'family,d,b'"
+
+
+def _header(cells, line, path, error) -> list:
+    """The header cells as ``(name, unit)``; a column named twice is an error."""
+    header = [split_header(c) for c in cells]
+    counts = Counter(h for h, _ in header)
+    dup = {n for n, k in counts.items() if k > 1}
+    if dup:
+        raise error(f"{path}: row {line}: column {sorted(dup)[0]!r} appears twice")
+    return header
+
+
+def read_grid(text: str, path, error=CatalogError):
+    """The rows of a CSV text as one (N, columns) array of stripped cells, split all at once.
+
+    The same cells and line numbers as :func:`read_table` (short rows padded with blanks),
+    without a Python step per row: the text is split on line ends and commas once, and
+    comments, blank lines and short rows are found with arrays over the lines. Text the
+    direct split cannot read exactly (quotes, white space other than blanks and tabs) and a
+    row with more cells than the header give None: :func:`read_table` then reads it (and
+    names the row).
+
+    Returns
+    -------
+    header : list of (name, unit or None)
+    lines : ndarray of int
+        The file line number of every row.
+    grid : ndarray of object (N, columns)
+        The cells (str).
+
+    Examples
+    --------
+    >>> header, lines, grid = read_grid("# invented\\nfamily, d [in]\\n\\ncircle , 2\\ntube\\n", "x.csv")
+    >>> header, lines.tolist(), grid.tolist()
+    ([('family', None), ('d', 'in')], [4, 5], [['circle', '2'], ['tube', '']])
+    >>> read_grid('family,name\\nbox,"a, b"\\n', "x.csv") is None  # quotes: the csv module reads it
+    True
+    """
+    if '"' in text:
+        return None
+    text = text.replace("\r\n", "\n").replace("\r", "\n")  # the csv module's line ends
+    if _odd_space(text):
+        return None
+    lines = text.split("\n")
+    n = len(lines)
+    spaced = " " in text or "\t" in text
+    if spaced:  # (str.strip takes blanks and tabs, the only white space left)
+        lines = list(map(str.strip, lines))
+    # per line, each a pass in C: commas, a comment mark, anything but commas (and blanks)
+    commas = np.fromiter(map(methodcaller("count", ","), lines), np.int64, n)
+    comment = np.fromiter(map(methodcaller("startswith", "#"), lines), bool, n)
+    filled = np.fromiter(map(len, map(methodcaller("strip", ", \t"), lines)), np.int64, n) > 0
+    rows = np.flatnonzero(filled & ~comment)
+    if rows.size == 0:
+        raise error(_NO_HEADER.format(path=path))
+    header = _header([c.strip() for c in lines[rows[0]].split(",")], int(rows[0]) + 1, path, error)
+    width, rows = len(header), rows[1:]
+    if (commas[rows] >= width).any():
+        return None
+    picked = np.array(lines, dtype=object)[rows]
+    short = commas[rows] < width - 1
+    if short.any():  # pad short rows with blank cells
+        picked[short] = picked[short] + np.full(int(short.sum()), ",", object) * (width - 1 - commas[rows][short])
+    data = ",".join(picked.tolist())
+    cells = data.split(",") if rows.size else []
+    if spaced and (" " in data or "\t" in data):  # a row with blanks: strip every cell
+        cells = list(map(str.strip, cells))
+    grid = np.array(cells, dtype=object)
+    return header, rows + 1, grid.reshape(rows.size, width)
+
+
+def _odd_space(text: str) -> bool:
+    """True if ``text`` holds white space other than blanks, tabs and line ends (which
+    :func:`read_grid` leaves to the csv module's reader)."""
+    if text.isascii():  # (a few scans in C: quicker than the expression)
+        return any(c in text for c in _ODD_ASCII_SPACE)
+    return _ODD_SPACE.search(text) is not None
 
 
 def to_float(text: str, where: str, expected: str, error=CatalogError) -> float:

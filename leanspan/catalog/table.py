@@ -33,25 +33,23 @@ Examples
 
 from __future__ import annotations
 
-import hashlib
-import io
-import os
 from functools import lru_cache
 from pathlib import Path
 
 import numpy as np
 
-from .. import __version__
 from ..errors import CatalogError, LeanspanError
-from ..fileio import atomic_write
+from ..fileio import protect_inputs, read_text
 from ..sections.families import FAMILIES
 from ..sections.properties import KEYS, STABILITY_KEYS, family_properties, family_stability
+from .cache import (USER_FILES_KEPT, USER_MIN_ROWS, cache_dir, cache_enabled, load_columns, save_columns,
+                    source_hash, user_cache_file, user_key)
 from .csvfile import column_factor
 from .materials import OPTIONAL as MATERIAL_OPTIONAL
 from .materials import get_material, materials_table
 from .series import RENAMED, SERIES
 from .thickness import beyond_table, governing_thickness, strength_factors, thickness_steps
-from .user import TABULATED, read_user_catalog
+from .user import TABULATED, _factorize, read_user_catalog
 
 __all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "family_rows", "dims_of", "row_dims", "cache_dir",
            "cache_file", "cache_enabled", "builtin_frame"]
@@ -64,6 +62,10 @@ MATERIAL_COLUMNS = ("kind", "E", "G", "density", "strength_bending", "strength_s
 _TEXT_COLUMNS = ("name", "family", "series", "material")
 # every column a block builds: what the disk cache must hold to be used
 _COLUMNS = _TEXT_COLUMNS + DIM_KEYS + tuple(KEYS) + STABILITY_KEYS
+# a supplier list's rows: the same plus each row's file line, in the table's column order
+_USER_COLUMNS = _TEXT_COLUMNS + ("row",) + _COLUMNS[len(_TEXT_COLUMNS):]
+# what a supplier list's cache file holds besides its columns: its key and its warnings
+_USER_EXTRA = ("_key", "_warnings")
 
 
 def _block(series: str, family: str, dims: dict, names: list, materials, stability: bool = True) -> dict:
@@ -103,60 +105,17 @@ def _build_builtin() -> dict:
     return _concat(blocks)
 
 
-def _source_hash() -> str:
-    """Hash of everything the built-in table depends on."""
-    here = Path(__file__).resolve().parent
-    h = hashlib.sha256(f"{__version__} numpy {np.__version__}".encode())
-    files = sorted(here.glob("*.py")) + sorted((here / "data").glob("*"))
-    files += sorted((here.parent / "sections").glob("*.py"))
-    for f in files:
-        h.update(f.name.encode())
-        h.update(f.read_bytes())
-    return h.hexdigest()[:16]
-
-
-def cache_dir() -> Path:
-    """The user cache folder: ``$LEANSPAN_CACHE`` if set, else ``$XDG_CACHE_HOME/leanspan`` or
-    ``~/.cache/leanspan``."""
-    own = os.environ.get("LEANSPAN_CACHE")
-    if own:
-        return Path(own)
-    base = os.environ.get("XDG_CACHE_HOME") or os.path.join(os.path.expanduser("~"), ".cache")
-    return Path(base) / "leanspan"
-
-
-def cache_enabled() -> bool:
-    """False when ``LEANSPAN_NO_CACHE`` is set (to anything but "" or "0"): nothing is read or written."""
-    return os.environ.get("LEANSPAN_NO_CACHE", "") in ("", "0")
-
-
 def cache_file() -> Path:
     """The cache file of the current code and data (it may not exist yet)."""
-    return cache_dir() / f"catalog-{_source_hash()}.npz"
+    return cache_dir() / f"catalog-{source_hash()}.npz"
 
 
 def _load_cache(path: Path) -> dict | None:
-    try:
-        with np.load(path, allow_pickle=False) as z:
-            cols = {k: z[k] for k in z.files}
-    except Exception:  # missing, partial or foreign file: rebuild
-        return None
-    if set(cols) != set(_COLUMNS):
-        return None
-    return cols
+    return load_columns(path, _COLUMNS)
 
 
 def _save_cache(path: Path, cols: dict) -> None:
-    try:
-        path.parent.mkdir(parents=True, exist_ok=True)
-        buf = io.BytesIO()
-        np.savez_compressed(buf, **cols)
-        atomic_write(path, buf.getvalue())
-        for old in path.parent.glob("catalog-*.npz"):  # drop caches of older code
-            if old != path:
-                old.unlink(missing_ok=True)
-    except Exception:  # read-only or full disk: work without a disk cache
-        pass
+    save_columns(path, cols)  # and drop the caches of older code
 
 
 @lru_cache(maxsize=4)
@@ -180,34 +139,76 @@ def builtin_frame(use_cache: bool = True):
     """
     import pandas as pd
 
-    cols = _build_builtin() if not (use_cache and cache_enabled()) else _builtin_columns(_source_hash(), True)
+    cols = _build_builtin() if not (use_cache and cache_enabled()) else _builtin_columns(source_hash(), True)
     return pd.DataFrame({k: v.copy() for k, v in cols.items()})
 
 
-def _user_frame(path, materials):
+def _user_frame(path, mats):
+    """A supplier list's rows (series ``user``, column ``row``: the file line) and its warnings,
+    from the disk cache when this text was computed before with these materials and this code
+    (:mod:`.cache`)."""
     import pandas as pd
 
-    cat = read_user_catalog(path, materials)
+    path = Path(path)
+    text = read_text(path, "a CSV file", CatalogError, encoding="utf-8-sig")
+    key = user_key(text, mats) if cache_enabled() else None
+    cached = _load_user_cache(user_cache_file(key), key) if key else None
+    if cached is not None:
+        protect_inputs(path)
+        cols, notes = cached
+        warnings = [f"{path}: {n}" for n in notes]
+    else:
+        cols, warnings = _user_columns(path, text, mats)
+        if key and len(cols["row"]) >= USER_MIN_ROWS:
+            _save_user_cache(user_cache_file(key), key, cols, warnings, path)
+    return pd.DataFrame(cols), warnings
+
+
+def _user_columns(path, text, mats):
+    """Read and compute a supplier list: its columns (rows in file order) and its warnings."""
+    cat = read_user_catalog(path, mats, text=text)
     blocks, lines = [], []
     for fam, b in cat.blocks.items():  # one vectorised call per family present
         blocks.append(_block("user", fam, b.dims, b.names, b.materials))
-        lines.append(np.asarray(b.lines))
+        lines.append(b.lines)
     if not blocks:
         raise CatalogError(f"{path}: no catalogue rows")
-    cols = _concat(blocks)
-    order = np.argsort(np.concatenate(lines), kind="stable")
-    df = pd.DataFrame({k: v[order] for k, v in cols.items()})
-    df.insert(4, "row", np.concatenate(lines)[order])
-    return df, cat
+    built = _concat(blocks)
+    rows = np.concatenate(lines)
+    order = np.argsort(rows, kind="stable")
+    cols = {k: rows[order] if k == "row" else built[k][order] for k in _USER_COLUMNS}
+    return cols, cat.warnings + _compare_tabulated(cols, cat, mats)
 
 
-def _compare_tabulated(df, cat, warnings: list) -> None:
-    """Warn, row by row, where a tabulated property differs from the computed one by > 1 %."""
-    line_to_row = {int(r): i for i, r in enumerate(df["row"])}
-    for fam, block in cat.blocks.items():
-        idx = np.array([line_to_row[l] for l in block.lines])
+def _load_user_cache(file, key):
+    """The columns and warnings (without the file name in front) of a supplier list's cache
+    file; None when missing, damaged or not this key's."""
+    cols = load_columns(file, _USER_COLUMNS, _USER_EXTRA)
+    if cols is None or cols.pop("_key").tolist() != [key]:
+        return None
+    return cols, cols.pop("_warnings").tolist()
+
+
+def _save_user_cache(file, key, cols, warnings, path) -> None:
+    prefix = f"{path}: "
+    if not all(w.startswith(prefix) for w in warnings):  # a note that cannot be moved to another path
+        return
+    extra = {"_key": np.array([key]), "_warnings": np.array([w[len(prefix):] for w in warnings], dtype=str)}
+    save_columns(file, {**cols, **extra}, compress=False, keep=USER_FILES_KEPT)
+
+
+def _compare_tabulated(cols, cat, mats) -> list:
+    """Warnings, row by row, where a tabulated property differs from the computed one by > 1 %
+    (``mass_per_length`` with the row's own material)."""
+    warnings = []
+    for block in cat.blocks.values():
+        idx = np.searchsorted(cols["row"], block.lines)  # cols["row"]: every file line, ascending
         for key, given in block.tabulated.items():
-            computed = df[key].to_numpy()[idx]
+            if key == "mass_per_length":
+                names, code = _factorize(block.materials)
+                computed = cols["A"][idx] * np.array([mats[m].density for m in names])[code]
+            else:
+                computed = cols[key][idx]
             with np.errstate(divide="ignore", invalid="ignore"):
                 rel = (given - computed) / np.abs(computed)
             # 1 % of the computed value; lengths also pass within 1 micrometre (zc = 0 vs 1e-19)
@@ -221,6 +222,7 @@ def _compare_tabulated(df, cat, warnings: list) -> None:
                     f"{cat.path}: row {block.lines[i]} ({block.names[i]}): tabulated {key} = "
                     f"{given[i] / f:.5g} {unit}, computed {computed[i] / f:.5g} {unit} "
                     f"({100 * rel[i]:+.1f} %)")
+    return warnings
 
 
 def _expand_names(names, what, known_series, known_families):
@@ -298,10 +300,8 @@ def catalog_table(series=None, families=None, materials=None, user_csv=None, max
     if builtin:
         frames.append(builtin_frame())
     if user_csv is not None:
-        udf, cat = _user_frame(user_csv, mats)
-        warnings += cat.warnings
-        # every user row, with its own material, before any filter
-        _compare_tabulated(_user_rows_default(udf, cat, mats), cat, warnings)
+        udf, user_warnings = _user_frame(user_csv, mats)
+        warnings += user_warnings
         frames.append(udf)
     if not frames:
         raise CatalogError("empty catalogue: give a user catalogue or include the built-in series")
@@ -317,7 +317,8 @@ def catalog_table(series=None, families=None, materials=None, user_csv=None, max
             # relative slack 1e-4: a polygonised tube of d = 21.3 mm is 21.301 mm deep
             keep &= op(df[col].to_numpy(), float(limit) * (1 + 1e-4) if op is np.less_equal
                        else float(limit) * (1 - 1e-4))
-    df = df[keep].reset_index(drop=True)
+    if not keep.all():  # (no copy when every row stays)
+        df = df[keep].reset_index(drop=True)
     if materials is None:
         df = _with_materials(df, None, mats)
     else:
@@ -356,22 +357,14 @@ def family_rows(family: str, dims: dict, names, material: str, series: str = "bu
     return _with_materials(df, get_material(material, mats).name, mats)
 
 
-def _user_rows_default(sub, cat, mats):
-    """User rows with their own materials (for comparing a tabulated mass per length)."""
-    out = sub.copy()
-    own = {l: m for b in cat.blocks.values() for l, m in zip(b.lines, b.materials)}
-    dens = np.array([mats[own[int(l)]].density for l in out["row"]])
-    out["mass_per_length"] = out["A"].to_numpy() * dens
-    return out.reset_index(drop=True)
-
-
 def _with_materials(df, material, mats):
     """Set the material columns (one material for all rows, or each row's own)."""
+    import pandas as pd
+
     df = df.copy()
     if material is not None:
         df["material"] = material
-    names = df["material"].to_numpy()
-    uniq, inv = np.unique(names, return_inverse=True) if len(names) else (np.array([]), np.zeros(0, int))
+    inv, uniq = pd.factorize(df["material"])  # (by hashing: quicker than sorting the names)
     rows = [mats[u] for u in uniq]
     df["kind"] = np.array([m.kind for m in rows], dtype=object)[inv] if rows else []
     for col in ("E", "G", "density", "strength_bending", "strength_shear") + MATERIAL_OPTIONAL:

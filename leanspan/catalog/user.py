@@ -1,12 +1,16 @@
 """User catalogues: a supplier's list as CSV, read into dimension arrays per family.
 
-Columns: ``family`` and that family's dimension keys (GUIDE section 4), in mm unless
+Columns: ``family`` and that family's dimension keys (docs/formats.md 3.3), in mm unless
 the header names a unit (``d [in]``); optional ``name`` and ``material``. Rows of
 different families may share one file: a cell left blank is "not given". Columns
 named after a section property (``A``, ``Iz``, ``Zz`` ..., ``mass_per_length``) are
 tabulated values, compared with the computed ones (default units mm², mm⁴, mm³, mm,
 kg/m). Other columns (a price, a stock code) are ignored. Lines starting with ``#``
 are comments. Row numbers are file line numbers.
+
+The text is split into an (N, columns) array of cells at once
+(:func:`~leanspan.catalog.csvfile.read_grid`) and parsed a column at a time; only a file with
+a bad cell is read again row by row, to name the first bad row.
 
 Examples
 --------
@@ -15,7 +19,7 @@ Examples
 >>> _ = p.write_text("family,b,d [in],material\\nrectangle,45,9.25,C24\\n")
 >>> cat = read_user_catalog(p)
 >>> cat.blocks["rectangle"].dims["d"], cat.blocks["rectangle"].lines
-(array([0.23495]), [2])
+(array([0.23495]), array([2]))
 >>> _ = p.write_text("family,b,d\\nrectangle,45,x\\n")
 >>> read_user_catalog(p)
 Traceback (most recent call last):
@@ -31,10 +35,10 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import CatalogError, GeometryError, MaterialError
-from ..fileio import protect_inputs
+from ..fileio import protect_inputs, read_text
 from ..sections.families import FAMILIES
 from ..units import RANGES, check_range
-from .csvfile import column_factor, read_table, to_float
+from .csvfile import column_factor, read_grid, read_table, to_float
 from .materials import get_material, materials_table
 
 __all__ = ["UserBlock", "UserCatalog", "read_user_catalog", "TABULATED", "DEFAULT_MATERIAL"]
@@ -55,13 +59,14 @@ DEFAULT_MATERIAL = {"rectangle": "C24", "circle": "S355", "tube": "S355J2H", "bo
 
 @dataclass
 class UserBlock:
-    """The rows of one family: dims (m, completed), names, materials, file lines, tabulated values."""
+    """The rows of one family: dims (m, completed), names and materials (object arrays of str),
+    file lines (int array), tabulated values (lists while the row reader fills them)."""
 
     family: str
     dims: dict = field(default_factory=dict)
-    names: list = field(default_factory=list)
-    materials: list = field(default_factory=list)
-    lines: list = field(default_factory=list)
+    names: list | np.ndarray = field(default_factory=list)
+    materials: list | np.ndarray = field(default_factory=list)
+    lines: list | np.ndarray = field(default_factory=list)
     tabulated: dict = field(default_factory=dict)  # key -> array (NaN where not given)
 
 
@@ -74,7 +79,7 @@ class UserCatalog:
     warnings: list
 
 
-def read_user_catalog(path, materials: dict | None = None) -> UserCatalog:
+def read_user_catalog(path, materials: dict | None = None, text: str | None = None) -> UserCatalog:
     """Read and check a user catalogue CSV.
 
     Parameters
@@ -83,6 +88,8 @@ def read_user_catalog(path, materials: dict | None = None) -> UserCatalog:
         The CSV file (never modified).
     materials : dict of name -> Material, optional
         Table used to check the ``material`` column (default: the built-in table).
+    text : str, optional
+        The file's text, already read (the file is then not read again).
 
     Raises
     ------
@@ -91,8 +98,15 @@ def read_user_catalog(path, materials: dict | None = None) -> UserCatalog:
         dimension, an unknown family or material, impossible geometry.
     """
     path = Path(path)
-    header, rows = read_table(path, CatalogError)
+    if text is None:
+        text = read_text(path, "a CSV file", CatalogError, encoding="utf-8-sig")
     protect_inputs(path)
+    split = read_grid(text, path, CatalogError)
+    if split is None:  # quotes, odd white space or a long row: the csv module's rows
+        header, rows = read_table(path, CatalogError, text)
+        lines, grid = _grid_of(rows, len(header))
+    else:
+        (header, lines, grid), rows = split, None
     names = [h for h, _ in header]
     if "family" not in names:
         raise CatalogError(f"{path}: missing column 'family'; expected family plus dimension "
@@ -100,7 +114,6 @@ def read_user_catalog(path, materials: dict | None = None) -> UserCatalog:
     dim_keys = {k for f in FAMILIES.values() for k in f.all_keys}
     col = {}
     warnings = []
-    defaulted = {}  # "C24 (rectangle)" -> file lines that got it by default
     ignored = []
     for j, (name, unit) in enumerate(header):
         if name in dim_keys:
@@ -115,15 +128,22 @@ def read_user_catalog(path, materials: dict | None = None) -> UserCatalog:
     if ignored:
         warnings.append(f"{path}: ignored columns (not a dimension or property): {', '.join(ignored)}")
     table = materials if materials is not None else materials_table()
-    found = _by_columns(path, header, rows, col, table)
-    blocks, raw, defaulted = found if found is not None else _by_rows(path, header, rows, col, table)
+    found = _by_columns(path, lines, grid, col, table) if grid is not None else None
+    if found is None:  # some cell needs a message: the row reader names the first
+        if rows is None:
+            header, rows = read_table(path, CatalogError, text)
+        found = _by_rows(path, header, rows, col, table)
+    blocks, raw, defaulted = found
     for assumed, lines in defaulted.items():  # a grade nobody chose must not pass unnoticed
         shown = ", ".join(str(n) for n in lines[:8]) + (" ..." if len(lines) > 8 else "")
         warnings.append(f"{path}: no material given in row(s) {shown}: assumed {assumed}; "
                         "fill in the material column to be sure")
     for fam_name, block in blocks.items():
         fam = FAMILIES[fam_name]
-        given = {k: np.array(v) for k, v in raw[fam_name].items() if k in fam.all_keys}
+        block.names = np.array(block.names, dtype=object)
+        block.materials = np.array(block.materials, dtype=object)
+        block.lines = np.asarray(block.lines, dtype=np.int64)
+        given = {k: np.asarray(v, float) for k, v in raw[fam_name].items() if k in fam.all_keys}
         given = {k: v for k, v in given.items() if k in fam.keys or not np.isnan(v).all()}
         try:
             dims = fam.complete(given)
@@ -131,10 +151,26 @@ def read_user_catalog(path, materials: dict | None = None) -> UserCatalog:
         except GeometryError as exc:
             raise CatalogError(str(exc)) from None
         block.dims = dims
-        block.tabulated = {k: np.array(v) for k, v in block.tabulated.items()}
-        generated = fam.designation(dims)
-        block.names = [n or g for n, g in zip(block.names, generated)]
+        block.tabulated = {k: np.asarray(v, float) for k, v in block.tabulated.items()}
+        unnamed = np.flatnonzero(block.names == "")
+        if unnamed.size:  # designations generated for the rows without a name only
+            generated = fam.designation({k: v[unnamed] for k, v in dims.items()})
+            block.names[unnamed] = np.array(generated, dtype=object)
     return UserCatalog(path, blocks, warnings)
+
+
+def _grid_of(rows, width):
+    """Line numbers and the (N, width) cell array of rows from :func:`read_table` (short rows
+    padded); no grid (None) when a row has more cells than the header."""
+    lines = np.array([ln for ln, _ in rows], dtype=np.int64)
+    if any(len(c) > width for _, c in rows):
+        return lines, None
+    grid = np.empty((len(rows), width), dtype=object)
+    grid[:] = ""
+    for i, (_, cells) in enumerate(rows):  # quoted files only (the csv module reads them a row at a time)
+        grid[i, :len(cells)] = cells
+    return lines, grid
+
 
 def _by_rows(path, header, rows, col, table):
     """The rows one at a time: the reference path, and the one that names the first bad cell."""
@@ -213,32 +249,33 @@ def _numbers(cells, factor, within):
     return out, blank
 
 
-def _by_columns(path, header, rows, col, table):
-    """The same result as :func:`_by_rows`, a column at a time; None if any cell needs a message."""
-    H = len(header)
-    if any(len(c) > H for _, c in rows):
+def _factorize(values):
+    """The distinct values (in order of first appearance) and each value's index among them."""
+    uniq = list(dict.fromkeys(values))
+    code = {v: i for i, v in enumerate(uniq)}
+    return uniq, np.fromiter(map(code.__getitem__, values), np.intp, len(values))
+
+
+def _by_columns(path, lines, grid, col, table):
+    """The same result as :func:`_by_rows` from the (N, columns) cell array, a column at a time;
+    None if any cell needs a message."""
+    n = len(lines)
+    fam_names, fam_code = _factorize(grid[:, col["family"][0]])  # families in order of first appearance
+    if any(f not in FAMILIES for f in fam_names):
         return None
-    cells = [c for _, c in rows]
-    if any(len(c) != H for c in cells):
-        cells = [c + [""] * (H - len(c)) for c in cells]
-    # a column at a time: zip transposes in C
-    grid = [np.array(column, dtype=object) for column in zip(*cells)] if cells else [np.array([], object)] * H
-    lines = np.array([ln for ln, _ in rows], int)
-    fam_col = grid[col["family"][0]]
-    order = list(dict.fromkeys(fam_col))  # families in order of first appearance
-    if any(f not in FAMILIES for f in order):
-        return None
-    mats = grid[col["material"][0]] if "material" in col else np.full(len(rows), "", object)
-    resolved = {}
-    for name in set(mats) - {""}:  # each distinct material once
+    mats = grid[:, col["material"][0]] if "material" in col else np.full(n, "", dtype=object)
+    mat_names, mat_code = _factorize(mats)
+    resolved = []
+    for name in mat_names:  # each distinct material once
         try:
-            resolved[name] = get_material(name, table).name
+            resolved.append(get_material(name, table).name if name else "")
         except MaterialError:
             return None
+    resolved = np.array(resolved, dtype=object)
     blocks, raw, defaulted = {}, {}, {}
-    for f in order:  # a small set
+    for i, f in enumerate(fam_names):  # a small set
         fam = FAMILIES[f]
-        idx = np.flatnonzero(fam_col == f)
+        idx = np.flatnonzero(fam_code == i)
         if any(k not in col for k in fam.keys):
             return None
         block, values = UserBlock(f), {}
@@ -246,7 +283,7 @@ def _by_columns(path, header, rows, col, table):
             if what == "text":
                 continue
             within = "section length" if what == "dim" or TABULATED[key][0] == "length" else TABULATED[key][0]
-            nums, blank = _numbers(grid[j][idx], factor, within)
+            nums, blank = _numbers(grid[idx, j], factor, within)
             if nums is None:
                 return None
             if what == "dim":
@@ -255,12 +292,14 @@ def _by_columns(path, header, rows, col, table):
                 values[key] = nums
             else:
                 block.tabulated[key] = nums
-        m = mats[idx]
-        block.materials = [resolved[x] if x else DEFAULT_MATERIAL[f] for x in m]
-        if (m == "").any():
-            defaulted[f"{DEFAULT_MATERIAL[f]} ({f})"] = lines[idx][m == ""].tolist()
-        block.names = list(grid[col["name"][0]][idx]) if "name" in col else [""] * idx.size
-        block.lines = lines[idx].tolist()
+        m = resolved[mat_code[idx]]
+        blank = m == ""
+        if blank.any():
+            m[blank] = DEFAULT_MATERIAL[f]
+            defaulted[f"{DEFAULT_MATERIAL[f]} ({f})"] = lines[idx][blank].tolist()
+        block.materials = m
+        block.names = grid[idx, col["name"][0]] if "name" in col else np.full(idx.size, "", dtype=object)
+        block.lines = lines[idx]
         blocks[f], raw[f] = block, values
     # the "assumed material" notes in the order the row reader gives: by their first row
     return blocks, raw, dict(sorted(defaulted.items(), key=lambda item: item[1][0]))
