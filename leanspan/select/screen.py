@@ -33,11 +33,12 @@ from ..beam.results import snap_round_off
 from .checks import Effects, active_checks
 from .job import Limits
 from .member import beam_with_member
+from .envelope import envelope_effects
+from .extremes import _cubic_best, _cubic_stations, _polished_best
 from .screen_reduce import to_parents
 
 __all__ = ["Candidates", "Screen", "screen", "screen_loop", "evaluate", "check_names"]
 
-_SAMPLES = 12  # grid points per element before the Newton polish
 _BLOCK = 2048  # candidates per block (keeps the grid work in cache)
 
 
@@ -197,78 +198,6 @@ def evaluate(effects: Effects, cand: Candidates, first_pass: bool = False) -> Sc
     return Screen(effects, demand, allow, combo, util, governing, passes, checks, columns, cand.props)
 
 
-def _grid(lengths):
-    return lengths[:, None] * np.linspace(0.0, 1.0, _SAMPLES)[None, :]
-
-
-
-def _cubic_stations(coef, lo, hi):
-    """Where a cubic (coefficients ``coef`` (..., n <= 4), local s) can peak on [lo, hi]: both ends
-    and the real roots of its quadratic derivative inside (stable formula; a vanishing s^2 term
-    leaves the linear root). Returns s (..., 4); unused slots repeat ``lo``."""
-    n = coef.shape[-1]
-    c1 = coef[..., 1]
-    c2 = 2.0 * coef[..., 2] if n > 2 else np.zeros_like(c1)
-    c3 = 3.0 * coef[..., 3] if n > 3 else np.zeros_like(c1)
-    disc = c2 * c2 - 4.0 * c3 * c1
-    root = np.sqrt(np.maximum(disc, 0.0))
-    q = -0.5 * (c2 + np.where(c2 >= 0, root, -root))
-    with np.errstate(divide="ignore", invalid="ignore"):
-        r1 = np.where(c3 != 0, q / c3, np.nan)
-        r2 = np.where(q != 0, c1 / q, np.nan)
-    lo, hi = np.broadcast_to(lo, c1.shape), np.broadcast_to(hi, c1.shape)
-    pts = [lo, hi] + [np.where((disc >= 0) & (r > lo) & (r < hi), r, lo) for r in (r1, r2)]
-    return np.stack(pts, axis=-1)
-
-
-def _cubic_extremes(coef, L, x0):
-    """Exact max and min of cubics coef (K, E, 4) on [0, L_e] (see :func:`_cubic_stations`).
-    Returns {+1: (value, x), -1: (value, x)} over all elements."""
-    s = _cubic_stations(coef, 0.0, L)  # (K, E, 4)
-    vals = _horner(coef[..., None, :], s)
-    out = {}
-    K = coef.shape[0]
-    for sign in (1, -1):
-        flat = (sign * vals).reshape(K, -1)
-        j = np.argmax(flat, axis=1)
-        e = j // s.shape[-1]
-        out[sign] = (sign * flat[np.arange(K), j], x0[e] + s.reshape(K, -1)[np.arange(K), j])
-    return out
-
-
-def _polished_extremes(coef, L, x0):
-    """Max and min of higher-degree polynomials coef (K, E, n) on [0, L_e]: the best of a
-    grid in every element, polished by Newton steps on the exact derivative."""
-    K, E, n = coef.shape
-    s_grid = _grid(L)  # (E, S)
-    vals = _horner(coef[:, :, None, :], s_grid[None])  # (K, E, S)
-    d1 = coef[..., 1:] * np.arange(1, n)
-    d2 = d1[..., 1:] * np.arange(1, n - 1)
-    out = {}
-    for sign in (1, -1):
-        i = np.argmax(sign * vals, axis=2)  # best grid point of every element
-        s_start = s_grid[np.arange(E)[None, :], i]
-        s = s_start
-        best = np.take_along_axis(vals, i[..., None], axis=2)[..., 0]
-        for _ in range(4):  # Newton converges in two or three steps from the grid: stop when it has
-            g, h = _horner(d1, s), _horner(d2, s)
-            ok = sign * h < 0  # curving the right way for a peak of sign * f
-            with np.errstate(divide="ignore", invalid="ignore"):
-                s_new = np.clip(s - np.where(ok, g / np.where(ok, h, 1.0), 0.0), 0.0, L)
-            done = np.all(np.abs(s_new - s) <= 1e-15 * L)
-            s = s_new
-            if done:
-                break
-        f = _horner(coef, s)
-        better = sign * f > sign * best
-        value = np.where(better, f, best)
-        where = np.where(better, s, s_start)
-        e = np.argmax(sign * value, axis=1)
-        r = np.arange(K)
-        out[sign] = (value[r, e], x0[e] + where[r, e])
-    return out
-
-
 def _field_extremes(field, F, sw, t, scale, lengths, x0, elems):
     """Max and min over elements ``elems`` of one combination, per candidate.
 
@@ -299,9 +228,11 @@ def _field_extremes(field, F, sw, t, scale, lengths, x0, elems):
             coef = np.einsum("ku,kuen->ken", Fk, sub[rows])
         if scale is not None:
             coef = coef * scale[rows, None, None]
-        ext = _cubic_extremes(coef, L, xs) if coef.shape[-1] <= 4 else _polished_extremes(coef, L, xs)
+        best = _cubic_best if coef.shape[-1] <= 4 else _polished_best
+        ext = best(coef, L, signs=(1, -1))
         for sign in (1, -1):
-            parts[sign].append(ext[sign])
+            value, e, s = ext[sign]
+            parts[sign].append((value, xs[e] + s))
     return {sg: tuple(np.concatenate([p[i] for p in parts[sg]]) for i in range(2)) for sg in (1, -1)}
 
 
@@ -345,10 +276,24 @@ def screen(model, cand: Candidates, self_weight_case=None, first_pass: bool = Fa
 _SHARE = 0.7  # share the evaluation of equal weights when they cut the candidates to this fraction
 
 
-def screen_effects(model, cand: Candidates, self_weight_case=None) -> Effects:
-    """The action effects (K, C) of every candidate under every combination, vectorised."""
+_ENVELOPE_MIN = 1500  # distinct weights from which the envelope screen is used (below, stations are cheaper)
+
+
+def screen_effects(model, cand: Candidates, self_weight_case=None, method: str = "auto") -> Effects:
+    """The action effects (K, C) of every candidate under every combination, vectorised.
+
+    ``method``: ``"stations"`` evaluates every element for every candidate (the reference);
+    ``"envelope"`` builds each combination's peak demands as functions of the candidate's weight
+    (:mod:`leanspan.select.envelope`; beams without springs only, else stations); ``"auto"``
+    uses the envelope from ``_ENVELOPE_MIN`` distinct weights.
+    """
     sw_case = self_weight_case if self_weight_case is not None else model.self_weight
-    resp = respond(model, EI=np.asarray(cand.EI, float), unit_self_weight=sw_case is not None,
+    EI = np.asarray(cand.EI, float)
+    sprung = any(s.type == "spring" for s in model.supports)
+    # without springs one stiffness gives every candidate's response (v scales with 1/EI; the
+    # deflections of all K would be K copies): respond still checks all of them
+    valid = EI.ndim == 1 and EI.size > 0 and bool(np.all(np.isfinite(EI)) and np.all(EI > 0))
+    resp = respond(model, EI=EI if sprung or not valid else EI[:1], unit_self_weight=sw_case is not None,
                    self_weight_case=sw_case)
     K = cand.size
     sw = resp.self_weight_index
@@ -365,12 +310,16 @@ def screen_effects(model, cand: Candidates, self_weight_case=None) -> Effects:
     # Without springs the forces depend on a candidate's weight alone and v scales with 1/EI, so
     # candidates of equal weight (one section in several steel grades ...) share one evaluation
     weights, back = np.unique(mass_g, return_inverse=True) if fixed else (mass_g, None)
-    shared = fixed and weights.size <= _SHARE * K
+    envelope = fixed and (method == "envelope" or (method == "auto" and weights.size >= _ENVELOPE_MIN))
+    shared = fixed and (envelope or weights.size <= _SHARE * K)
     if not shared:
         weights = mass_g
     C = len(resp.combos)
     out = {k: np.full((weights.size, C), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
-    for ci, combo in enumerate(resp.combos):  # a small set
+    if envelope:  # the loop below on the candidates' distinct weights, through the peak envelopes
+        out = envelope_effects(resp, weights, _cubic_best, _polished_best)
+        out["M_max"], out["M_min"] = snap_round_off(out["M_max"], out["M_min"])
+    for ci, combo in enumerate(resp.combos if not envelope else ()):  # a small set
         F = np.asarray(combo.factors, float)
         t = weights * (F[sw] if sw is not None else 0.0)
         if combo.check == "strength":
