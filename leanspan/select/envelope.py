@@ -19,8 +19,9 @@ This module builds h once per combination on the candidates' sorted distinct wei
   convex function lies below its chord, so the piece is exact;
 * elsewhere the maximiser moves with w (a span peak under loads of different shapes) and h is
   smooth; the piece is the cubic through the two knots' values and slopes, accepted once the
-  exact value at a candidate weight in between agrees to round-off (1e-14 of the function's
-  size), else the interval is halved. Where the maximiser jumps (a kink of h), halving goes on
+  exact value at the middle candidate weight agrees to round-off (1e-14 of the function's
+  size, scaled by the cubic's error shape tau^2 (1 - tau)^2 to the middle of the interval),
+  else the interval is halved. Where the maximiser jumps (a kink of h), halving goes on
   until no candidate lies inside, so those candidates are knots, exact.
 
 Each candidate's demand is then one lookup and a cubic: O(candidates x combinations),
@@ -157,7 +158,10 @@ def envelope_values(peaks, weights, best):
         c2 = (3 * slope - 2 * kd[pa] - kd[pb]) / dw
         c3 = (kd[pa] + kd[pb] - 2 * slope) / (dw * dw)
         guess = kh[pa] + tau * (kd[pa] + tau * (c2 + tau * c3))
-        ok = (np.abs(guess - h) <= _REL * size[j]) & (kt[pa] == t) & (kt[pb] == t)
+        # a cubic through values and slopes errs by about c tau^2 (dw - tau)^2 (largest at the
+        # middle): the gap seen at the knot, scaled to the middle, must be round-off
+        shape = 16.0 * (tau / dw) ** 2 * (1.0 - tau / dw) ** 2
+        ok = (np.abs(guess - h) <= _REL * size[j] * shape) & (kt[pa] == t) & (kt[pb] == t)
         # accepted or not, the middle knot splits the interval: accepted halves are cubic pieces
         accept(np.concatenate([pa[ok], pm[ok]]), np.concatenate([pm[ok], pb[ok]]), cubic=True)
         pa = np.concatenate([pa[~ok], pm[~ok]])
@@ -170,19 +174,21 @@ def envelope_values(peaks, weights, best):
     length = ib - ia
     last = np.r_[fj[1:] != fj[:-1], True]
     length = length + last  # the final piece of each function also owns its end point
-    piece = np.repeat(np.arange(fj.size), length).reshape(J, n)
-    tau = u[None, :] - u[ia[piece]]
-    values = c0[piece] + tau * (c1[piece] + tau * (c2[piece] + tau * c3[piece]))
-    return values, tg[piece]
+    ua = np.repeat(u[ia], length)  # pieces tile the weights: repeats, not gathers
+    tau = np.tile(u, J) - ua
+    values = np.repeat(c3, length)
+    for c in (c2, c1, c0):
+        values *= tau
+        values += np.repeat(c, length)
+    return values.reshape(J, n), np.repeat(tg, length).reshape(J, n)
 
 
-def envelope_effects(resp, mass_g, best_cubic, best_poly):
+def envelope_effects(resp, weights, best_cubic, best_poly):
     """Peak moments, shears and worst-span deflections of every concrete combination of a
-    response without springs (``resp.M.shape[0] == 1``), for candidates of weight per length
-    ``mass_g`` (K,): arrays (K, C) ``M_max``, ``M_min``, ``V_abs``, ``v_abs`` (times EI: the
+    response without springs (``resp.M.shape[0] == 1``), for the sorted distinct weights per
+    length ``weights`` (n,) of the candidates: arrays (C, n) (combination first) ``M_max``, ``M_min``, ``V_abs``, ``v_abs`` (times EI: the
     caller divides by each candidate's EI), ``v_allowed``, as the station screen gives them.
     """
-    weights, back = np.unique(np.asarray(mass_g, float), return_inverse=True)
     sw = resp.self_weight_index
     lengths, x0 = resp.lengths, resp.x_nodes[:-1]
     mids = x0 + lengths / 2
@@ -220,19 +226,18 @@ def envelope_effects(resp, mass_g, best_cubic, best_poly):
                 d = table[t][:, None]
                 deflection.append((ci, table, Peak(np.r_[A[e] / d, -A[e] / d], np.r_[B[e] / d, -B[e] / d],
                                                    np.r_[lengths[e], lengths[e]], np.r_[t, t])))
-    K, C = back.size, len(resp.combos)
-    out = {k: np.full((K, C), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
+    C = len(resp.combos)
+    out = {k: np.full((C, weights.size), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
     if strength:
         peaks = [p for _, ps in strength for p in ps]
         h, _ = envelope_values(peaks, weights, best_cubic)
         for i, (ci, _) in enumerate(strength):
-            out["M_max"][:, ci] = h[3 * i][back]
-            out["M_min"][:, ci] = -h[3 * i + 1][back]
-            out["V_abs"][:, ci] = h[3 * i + 2][back]
+            out["M_max"][ci] = h[3 * i]
+            out["M_min"][ci] = -h[3 * i + 1]
+            out["V_abs"][ci] = h[3 * i + 2]
     if deflection:
         h, tag = envelope_values([p for _, _, p in deflection], weights, best_poly)
         for i, (ci, table, _) in enumerate(deflection):
-            allowed = table[tag[i]][back]
-            out["v_allowed"][:, ci] = allowed
-            out["v_abs"][:, ci] = h[i][back] * allowed
+            out["v_allowed"][ci] = table[tag[i]]
+            out["v_abs"][ci] = h[i] * out["v_allowed"][ci]
     return out

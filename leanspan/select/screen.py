@@ -315,10 +315,13 @@ def screen_effects(model, cand: Candidates, self_weight_case=None, method: str =
     if not shared:
         weights = mass_g
     C = len(resp.combos)
-    out = {k: np.full((weights.size, C), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
-    if envelope:  # the loop below on the candidates' distinct weights, through the peak envelopes
-        out = envelope_effects(resp, weights, _cubic_best, _polished_best)
+    if not envelope:
+        out = {k: np.full((weights.size, C), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
+    else:  # the loop below on the candidates' distinct weights, through the peak envelopes
+        out = envelope_effects(resp, weights, _cubic_best, _polished_best)  # (C, n)
         out["M_max"], out["M_min"] = snap_round_off(out["M_max"], out["M_min"])
+        out = {k: np.take(a, back, axis=1).T for k, a in out.items()}  # (K, C)
+        out["v_abs"] *= v_scale[:, None]
     for ci, combo in enumerate(resp.combos if not envelope else ()):  # a small set
         F = np.asarray(combo.factors, float)
         t = weights * (F[sw] if sw is not None else 0.0)
@@ -330,7 +333,7 @@ def screen_effects(model, cand: Candidates, self_weight_case=None, method: str =
         elif combo.limit is not None:  # the worst span does not depend on the (common) 1/EI factor
             out["v_abs"][:, ci], out["v_allowed"][:, ci], _ = worst_span(
                 v_field, F, sw, t, None if shared else v_scale, resp.spans, lengths, x0, combo.limit)
-    if shared:
+    if shared and not envelope:
         out = {k: a[back] for k, a in out.items()}
         out["v_abs"] *= v_scale[:, None]
     names = [c.name for c in model.combinations]
@@ -344,6 +347,8 @@ def screen_effects(model, cand: Candidates, self_weight_case=None, method: str =
 def _by_parent(out, parents, C):
     """Effects of the concrete combinations (pattern members) reduced to their model combination:
     the largest moments and shears, and each member's worst span where its ratio is the largest."""
+    if parents.size == C and np.array_equal(parents, np.arange(C)):  # no pattern members
+        return out
     K = next(iter(out.values())).shape[0]
     red = {k: np.full((K, C), np.nan) for k in out}
     for c in range(C):  # a small set
