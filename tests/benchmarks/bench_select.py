@@ -19,6 +19,13 @@ strengths, final deflection with creep for two kdef values, bearing); no target 
 ``cli_demo_seconds``: ``leanspan demo`` end to end in a subprocess (target < 0.6 s).
 ``cli_section_seconds``: ``leanspan section`` on the flitch example in a subprocess (target < 0.4 s).
 ``cli_help_seconds``: ``leanspan --help`` in a subprocess (target < 0.5 s).
+``screen_100k_c10_seconds``: the action effects (peak moments, shears, worst-span deflections)
+of 100,000 candidates x the same 10 combinations through ``screen_effects`` (the envelope screen;
+target < 0.05 s); ``screen_100k_c10_stations_seconds`` the station screen (the reference) on the
+same; ``screen_envelope_max_difference`` their largest difference relative to each effect's size;
+``screen_floor_ratio_100k_c10`` the envelope time over the memory floor (reading the candidates'
+arrays and writing the five (K, C) effect arrays at the copy bandwidth measured here; target < 20);
+``evaluate_100k_c10_seconds`` applying the bending, shear and deflection checks to those effects.
 Candidate values are random but realistic (invented): timber to steel stiffnesses.
 """
 
@@ -95,6 +102,14 @@ def _best_of(fn, repeats=3):
         fn()
         best = min(best, time.perf_counter() - t0)
     return best
+
+
+def _copy_bandwidth() -> float:
+    """Bytes per second read plus written by a large numpy copy (the memory floor's bandwidth)."""
+    a = np.ones(25_000_000)
+    b = np.empty_like(a)
+    t = _best_of(lambda: np.copyto(b, a), repeats=5)
+    return 2 * a.nbytes / t
 
 
 def _subprocess_seconds(args, repeats=3):
@@ -177,7 +192,7 @@ def _design_candidates(job):
 def run() -> dict[str, float]:
     from leanspan.beam import Support
     from leanspan.select.job import Limits
-    from leanspan.select.screen import screen, screen_loop
+    from leanspan.select.screen import evaluate, screen, screen_effects, screen_loop
 
     job = _job()
     cand = _candidates(N_CAND)
@@ -206,7 +221,29 @@ def run() -> dict[str, float]:
     diff = _largest_difference(fast, ref, idx)
     spring_diff = _largest_difference(screen(sprung, cand, sw), screen_loop(sprung, sub, sw), idx)
 
-    return {"select_10k_seconds": fast_s,
+    big = _candidates(100_000, seed=2)
+    screen_effects(job.model, big, sw)  # warm
+    env_s = _best_of(lambda: screen_effects(job.model, big, sw), repeats=5)
+    env = screen_effects(job.model, big, sw)
+    st_s = _best_of(lambda: screen_effects(job.model, big, sw, method="stations"), repeats=1)
+    ref_eff = screen_effects(job.model, big, sw, method="stations")
+    env_diff = 0.0
+    for key in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed"):
+        a, b = getattr(env, key), getattr(ref_eff, key)
+        ok = ~np.isnan(b)
+        if ok.any():
+            env_diff = max(env_diff, float(np.max(np.abs(a[ok] - b[ok])) / np.abs(b[ok]).max()))
+    eval_s = _best_of(lambda: evaluate(env, big), repeats=3)
+    moved = (sum(np.asarray(v).nbytes for v in big.props.values()) + big.EI.nbytes + big.mass_per_length.nbytes
+             + 5 * env.M_max.nbytes)
+    floor = moved / _copy_bandwidth()
+
+    return {"screen_100k_c10_seconds": env_s,
+            "screen_100k_c10_stations_seconds": st_s,
+            "screen_envelope_max_difference": env_diff,
+            "screen_floor_ratio_100k_c10": env_s / floor,
+            "evaluate_100k_c10_seconds": eval_s,
+            "select_10k_seconds": fast_s,
             "select_10k_spring_seconds": spring_s,
             "select_10k_vibration_seconds": vib_s,
             "select_10k_all_checks_seconds": all_s,
