@@ -18,22 +18,17 @@ from hypothesis import strategies as st
 
 from leanspan.select.envelope import Peak, envelope_values
 from leanspan.select.extremes import _cubic_best
-from leanspan.select.screen import Candidates, evaluate, screen_effects
-from test_select_property import jobs
+from leanspan.select.screen import evaluate, screen_effects
+from test_select_property import jobs, random_candidates
 
 
 @st.composite
 def many_candidates(draw):
     K = draw(st.sampled_from([40, 300, 3000]))
     rng = np.random.default_rng(draw(st.integers(0, 2 ** 32 - 1)))
-    EI = 10 ** rng.uniform(5, 7.3, K)
-    S = 10 ** rng.uniform(-4.5, -3, K)
     mass = rng.uniform(5, 400, K)
     mass[: K // 4] = mass[K // 4: K // 2]  # some equal weights (one section, two grades)
-    return Candidates.with_allowables(
-        EI=EI, mass_per_length=mass, Sz_top=S, Sz_bot=S * rng.uniform(0.6, 1.4, K),
-        shear_factor=1.0 / rng.uniform(2e-3, 2e-2, K), bending_allow=rng.uniform(10e6, 300e6, K),
-        shear_allow=rng.uniform(2e6, 150e6, K))
+    return random_candidates(rng, K, mass)
 
 
 @settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])

@@ -87,10 +87,15 @@ def jobs(draw):
 def catalogues(draw):
     K = draw(st.integers(2, 5))
     rng = np.random.default_rng(draw(st.integers(0, 2 ** 32 - 1)))
-    EI = 10 ** rng.uniform(5, 7.3, K)  # 0.1 .. 20 MN m^2
+    return random_candidates(rng, K, rng.uniform(5, 80, K))
+
+
+def random_candidates(rng, K, mass):
+    """K random candidates (EI 0.1 .. 20 MN m^2, invented) of weights per length ``mass``."""
+    EI = 10 ** rng.uniform(5, 7.3, K)
     S = 10 ** rng.uniform(-4.5, -3, K)
     return Candidates.with_allowables(
-        EI=EI, mass_per_length=rng.uniform(5, 80, K), Sz_top=S, Sz_bot=S * rng.uniform(0.6, 1.4, K),
+        EI=EI, mass_per_length=mass, Sz_top=S, Sz_bot=S * rng.uniform(0.6, 1.4, K),
         shear_factor=1.0 / rng.uniform(2e-3, 2e-2, K), bending_allow=rng.uniform(10e6, 300e6, K),
         shear_allow=rng.uniform(2e6, 150e6, K))
 
