@@ -4,6 +4,9 @@
 (target < 2 s on the 2-core machine). ``catalog_cached_seconds``: the same table read
 back from the disk cache in a fresh process state (memory cache cleared).
 ``catalog_memory_seconds``: a repeat call within one process. ``catalog_rows``: the size.
+``select_1m_c50_seconds`` / ``select_1m_c50_peak_mb``: ``leanspan select`` end to end on an invented
+1,000,000-row list of the same kind against 50 combinations on a two-span beam, empty cache
+(targets < 5 s, < 2 GB); slow: skip with ``LEANSPAN_BENCH_SKIP=select_1m``.
 
 The invented 100,000-row supplier list (half timber rectangles, half steel I sections):
 ``user_csv_100k_seconds`` reads it into the selection's candidate table with an empty cache
@@ -57,6 +60,9 @@ def run() -> dict[str, float]:
         job = _write_100k_job(tmp)
         out.update(_user_csv_100k(job, tmp))
         out.update(_select_100k_csv(job, tmp))
+    if "select_1m" not in os.environ.get("LEANSPAN_BENCH_SKIP", ""):
+        with tempfile.TemporaryDirectory() as tmp:
+            out.update(_select_1m_c50(tmp))
     return out
 
 
@@ -114,9 +120,9 @@ def _user_csv_100k(job_path: str, folder: str) -> dict:
     return {"user_csv_100k_seconds": min(cold), "user_csv_100k_cached_seconds": min(hit)}
 
 
-def _select_100k_csv(job_path: str, folder: str) -> dict:
-    """``leanspan select`` end to end on the list: wall time and the child process's peak memory,
-    with an empty cache and then with the cache the first run wrote."""
+def _timed_select(job_path: str, cache: str, timeout: int = 600):
+    """Wall seconds and the child's peak memory (MB) of ``leanspan select JOB --json`` in a child
+    process using the cache folder ``cache``."""
     import subprocess
     import sys
 
@@ -125,18 +131,55 @@ def _select_100k_csv(job_path: str, folder: str) -> dict:
     code = ("import sys\nfrom leanspan.cli import main\ntry:\n    status = main(sys.argv[1:])\nfinally:\n"
             "    hwm = [l for l in open('/proc/self/status') if l.startswith('VmHWM')]\n"
             "    print('peak_kb', hwm[0].split()[1] if hwm else 'nan', file=sys.stderr)\nsys.exit(status)")
+    env = dict(os.environ, LEANSPAN_CACHE=cache)
+    env.pop("LEANSPAN_NO_CACHE", None)
+    t0 = time.perf_counter()
+    r = subprocess.run([sys.executable, "-c", code, "select", job_path, "--json"],
+                       capture_output=True, text=True, timeout=timeout, env=env)
+    seconds = time.perf_counter() - t0
+    if r.returncode not in (0, 1):
+        raise RuntimeError(f"select on {job_path} exited {r.returncode}: {r.stderr.strip()[:300]}")
+    peak = [line.split()[1] for line in r.stderr.splitlines() if line.startswith("peak_kb")]
+    return seconds, float(peak[-1]) / 1024.0 if peak else float("nan")
 
+
+def _combinations_50() -> str:
+    """50 invented combinations (40 strength, 10 deflection) of four load cases, as TOML."""
+    out = []
+    for i, (g, q, s, w) in enumerate([(g, q, s, w) for g in (1.0, 1.2, 1.35, 1.15) for q in (0.0, 1.05, 1.5)
+                                      for s in (0.0, 0.75, 1.5) for w in (0.0, 0.9)][:40]):
+        out.append(f'[[combination]]\nname = "ULS {i}"\ncheck = "strength"\n'
+                   f'factors = {{ dead = {g}, imposed = {q}, snow = {s}, wind = {w} }}\n')
+    for i in range(10):
+        limit = ("span/250", "span/360", "span/300", "25 mm")[i % 4]
+        out.append(f'[[combination]]\nname = "SLS {i}"\ncheck = "deflection"\nlimit = "{limit}"\n'
+                   f'factors = {{ dead = {1.0 if i % 2 else 0.0}, imposed = {0.5 + 0.1 * i}, snow = {0.1 * i} }}\n')
+    return "".join(out)
+
+
+def _select_1m_c50(folder: str) -> dict:
+    """``leanspan select`` end to end (empty cache) on an invented 1,000,000-row list against 50
+    combinations on a two-span beam: seconds and peak MB. Skip with LEANSPAN_BENCH_SKIP=select_1m."""
+    _write_100k_job(folder, n=1_000_000)
+    job = os.path.join(folder, "job-c50.toml")
+    with open(job, "w", encoding="utf-8") as f:
+        f.write('[beam]\nspans = ["5 m", "6.5 m"]\n'
+                '[[load]]\ncase = "dead"\ntype = "udl"\nw = "6 kN/m"\n'
+                '[[load]]\ncase = "imposed"\ntype = "udl"\nw = "5 kN/m"\n'
+                '[[load]]\ncase = "imposed"\ntype = "point"\nP = "12 kN"\nat = "8 m"\n'
+                '[[load]]\ncase = "snow"\ntype = "linear"\nw1 = "0.5 kN/m"\nw2 = "2 kN/m"\nfrom = "0 m"\nto = "11.5 m"\n'
+                '[[load]]\ncase = "wind"\ntype = "udl"\nw = "-1.2 kN/m"\n'
+                + _combinations_50()
+                + '[search]\ncatalog = "list.csv"\nself_weight = "dead"\n[limits]\nstress_factor = 0.6\n')
+    seconds, mb = _timed_select(job, os.path.join(folder, "cache-1m"), timeout=1800)
+    return {"select_1m_c50_seconds": seconds, "select_1m_c50_peak_mb": mb}
+
+
+def _select_100k_csv(job_path: str, folder: str) -> dict:
+    """``leanspan select`` end to end on the list: wall time and the child process's peak memory,
+    with an empty cache and then with the cache the first run wrote."""
     def run(cache):
-        env = dict(os.environ, LEANSPAN_CACHE=cache)
-        env.pop("LEANSPAN_NO_CACHE", None)
-        t0 = time.perf_counter()
-        r = subprocess.run([sys.executable, "-c", code, "select", job_path, "--json"],
-                           capture_output=True, text=True, timeout=600, env=env)
-        seconds = time.perf_counter() - t0
-        if r.returncode not in (0, 1):
-            raise RuntimeError(f"select on the 100k list exited {r.returncode}: {r.stderr.strip()[:300]}")
-        peak = [line.split()[1] for line in r.stderr.splitlines() if line.startswith("peak_kb")]
-        return seconds, float(peak[-1]) / 1024.0 if peak else float("nan")
+        return _timed_select(job_path, cache)
 
     cold, cached, peaks = [], [], []
     for i in range(2):
