@@ -52,8 +52,8 @@ class Peak:
 
 
 def _exact(peaks, which, w, best):
-    """h of peaks ``which`` (m,) at weights ``w`` (m,), all of one polynomial degree: the value, its
-    slope in w, and the maximiser's line (a, b) and tag, each (m,)."""
+    """h of peaks ``which`` (m,) at weights ``w`` (m,), all of one polynomial degree: the value, the
+    maximiser's line a + w b (b is also the slope of h in w) and its tag, each (m,)."""
     P = max(p.L.size for p in peaks)
     n = max(p.A.shape[1] for p in peaks)
 
@@ -71,7 +71,7 @@ def _exact(peaks, which, w, best):
     r = np.arange(w.size)
     a = _horner(A[r, e], s)
     b = _horner(B[r, e], s)
-    return value, b, a, b, tag[r, e]
+    return value, a, b, tag[r, e]
 
 
 def envelope_values(peaks, weights, best):
@@ -106,12 +106,12 @@ def envelope_values(peaks, weights, best):
         return np.zeros((J, n)), np.zeros((J, n), int)
     start = np.unique(np.linspace(0, n - 1, min(n, _KNOTS)).round().astype(int))
     if start.size == n:  # few weights: every one is a knot
-        h, _, _, _, t = _exact(peaks, np.repeat(np.arange(J), n), np.tile(u, J), best)
+        h, _, _, t = _exact(peaks, np.repeat(np.arange(J), n), np.tile(u, J), best)
         return h.reshape(J, n), t.reshape(J, n)
-    # the knot table: function, weight index, value, slope, line (a, b), tag
+    # the knot table: function, weight index, value, line (a, b; b the slope), tag
     kj = np.repeat(np.arange(J), start.size)
     ki = np.tile(start, J)
-    kh, kd, ka, kb, kt = _exact(peaks, kj, u[ki], best)
+    kh, ka, kb, kt = _exact(peaks, kj, u[ki], best)
     size = np.zeros(J)
     np.maximum.at(size, kj, np.abs(kh))
     # pending intervals: rows of the knot table at their two ends
@@ -122,7 +122,7 @@ def envelope_values(peaks, weights, best):
 
     def accept(a, b, cubic):
         wa, wb = u[ki[a]], u[ki[b]]
-        ha, hb, da, db = kh[a], kh[b], kd[a], kd[b]
+        ha, hb, da, db = kh[a], kh[b], kb[a], kb[b]
         if cubic:
             with np.errstate(divide="ignore", invalid="ignore"):
                 dw = wb - wa
@@ -146,18 +146,18 @@ def envelope_values(peaks, weights, best):
             break
         mid = (ki[pa] + ki[pb]) // 2
         j = kj[pa]
-        h, d, a, b, t = _exact(peaks, j, u[mid], best)
+        h, a, b, t = _exact(peaks, j, u[mid], best)
         pm = kh.size + np.arange(mid.size)
         kj, ki = np.concatenate([kj, j]), np.concatenate([ki, mid])
-        kh, kd, ka, kb, kt = (np.concatenate([x, y]) for x, y in ((kh, h), (kd, d), (ka, a), (kb, b), (kt, t)))
+        kh, ka, kb, kt = (np.concatenate([x, y]) for x, y in ((kh, h), (ka, a), (kb, b), (kt, t)))
         np.maximum.at(size, j, np.abs(h))
         # the cubic piece over [a, b], checked at the middle knot
         wa, wb, wm = u[ki[pa]], u[ki[pb]], u[mid]
         dw, tau = wb - wa, wm - wa
         slope = (kh[pb] - kh[pa]) / dw
-        c2 = (3 * slope - 2 * kd[pa] - kd[pb]) / dw
-        c3 = (kd[pa] + kd[pb] - 2 * slope) / (dw * dw)
-        guess = kh[pa] + tau * (kd[pa] + tau * (c2 + tau * c3))
+        c2 = (3 * slope - 2 * kb[pa] - kb[pb]) / dw
+        c3 = (kb[pa] + kb[pb] - 2 * slope) / (dw * dw)
+        guess = kh[pa] + tau * (kb[pa] + tau * (c2 + tau * c3))
         # a cubic through values and slopes errs by about c tau^2 (dw - tau)^2 (largest at the
         # middle): the gap seen at the knot, scaled to the middle, must be round-off
         shape = 16.0 * (tau / dw) ** 2 * (1.0 - tau / dw) ** 2
