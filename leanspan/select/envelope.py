@@ -12,7 +12,7 @@ so that h is the worst span's deflection ratio) is a maximum of functions linear
 This module builds h once per combination on the candidates' sorted distinct weights:
 
 * h is computed exactly (the same per-element evaluation as the station screen,
-  :func:`leanspan.select.screen._cubic_best` / :func:`~leanspan.select.screen._polished_best`)
+  :func:`leanspan.select.extremes._cubic_best` / :func:`~leanspan.select.extremes._polished_best`)
   at a few knot weights;
 * between two knots whose maximiser is the same line (same A and B values: a support, a point
   load, a fixed peak), h *is* that line: h >= the line everywhere, equals it at both knots, and a
@@ -34,8 +34,9 @@ from __future__ import annotations
 import numpy as np
 
 from ..beam.poly import evaluate as _horner
+from .extremes import _cubic_best, _polished_best
 
-__all__ = ["Peak", "envelope_values"]
+__all__ = ["Peak", "envelope_values", "envelope_effects"]
 
 _KNOTS = 33  # initial knots per function (evenly spaced over the sorted weights)
 _REL = 1e-14  # accepted gap between the cubic piece and the exact value, of the function's size
@@ -72,6 +73,13 @@ def _exact(peaks, which, w, best):
     a = _horner(A[r, e], s)
     b = _horner(B[r, e], s)
     return value, a, b, tag[r, e]
+
+
+def _hermite(ha, hb, da, db, dw):
+    """c2, c3 of the cubic ha + da tau + c2 tau^2 + c3 tau^3 with values ha, hb and slopes da, db
+    at tau = 0 and tau = dw > 0 (cubic Hermite interpolation)."""
+    slope = (hb - ha) / dw
+    return (3 * slope - 2 * da - db) / dw, (da + db - 2 * slope) / (dw * dw)
 
 
 def envelope_values(peaks, weights, best):
@@ -120,18 +128,12 @@ def envelope_values(peaks, weights, best):
     pb = pa + 1
     pieces = []  # (function, ia, ib, c0, c1, c2, c3, tag)
 
-    def accept(a, b, cubic):
-        wa, wb = u[ki[a]], u[ki[b]]
-        ha, hb, da, db = kh[a], kh[b], kb[a], kb[b]
+    def accept(a, b, cubic):  # the intervals between knot rows a and b become pieces
         if cubic:
-            with np.errstate(divide="ignore", invalid="ignore"):
-                dw = wb - wa
-                slope = (hb - ha) / dw
-                c2 = np.where(dw > 0, (3 * slope - 2 * da - db) / dw, 0.0)
-                c3 = np.where(dw > 0, (da + db - 2 * slope) / (dw * dw), 0.0)
+            c2, c3 = _hermite(kh[a], kh[b], kb[a], kb[b], u[ki[b]] - u[ki[a]])
         else:
             c2 = c3 = np.zeros(a.size)
-        pieces.append((kj[a], ki[a], ki[b], ha, da, c2, c3, kt[a]))
+        pieces.append((kj[a], ki[a], ki[b], kh[a], kb[a], c2, c3, kt[a]))
 
     while pa.size:
         scale = size[kj[pa]]
@@ -154,9 +156,7 @@ def envelope_values(peaks, weights, best):
         # the cubic piece over [a, b], checked at the middle knot
         wa, wb, wm = u[ki[pa]], u[ki[pb]], u[mid]
         dw, tau = wb - wa, wm - wa
-        slope = (kh[pb] - kh[pa]) / dw
-        c2 = (3 * slope - 2 * kb[pa] - kb[pb]) / dw
-        c3 = (kb[pa] + kb[pb] - 2 * slope) / (dw * dw)
+        c2, c3 = _hermite(kh[pa], kh[pb], kb[pa], kb[pb], dw)
         guess = kh[pa] + tau * (kb[pa] + tau * (c2 + tau * c3))
         # a cubic through values and slopes errs by about c tau^2 (dw - tau)^2 (largest at the
         # middle): the gap seen at the knot, scaled to the middle, must be round-off
@@ -183,11 +183,12 @@ def envelope_values(peaks, weights, best):
     return values.reshape(J, n), np.repeat(tg, length).reshape(J, n)
 
 
-def envelope_effects(resp, weights, best_cubic, best_poly):
+def envelope_effects(resp, weights):
     """Peak moments, shears and worst-span deflections of every concrete combination of a
     response without springs (``resp.M.shape[0] == 1``), for the sorted distinct weights per
-    length ``weights`` (n,) of the candidates: arrays (C, n) (combination first) ``M_max``, ``M_min``, ``V_abs``, ``v_abs`` (times EI: the
-    caller divides by each candidate's EI), ``v_allowed``, as the station screen gives them.
+    length ``weights`` (n,) of the candidates: arrays (C, n) (combination first) ``M_max``,
+    ``M_min``, ``V_abs``, ``v_abs`` (times EI: the caller divides by each candidate's EI) and
+    ``v_allowed``, as the station screen gives them.
     """
     sw = resp.self_weight_index
     lengths, x0 = resp.lengths, resp.x_nodes[:-1]
@@ -213,16 +214,15 @@ def envelope_effects(resp, weights, best_cubic, best_poly):
         elif combo.limit is not None:
             A, B = parts(v_field)
             table = np.full(len(resp.spans), np.nan)  # allowed deflection per span
-            rows = []
+            rows, tags = [], []  # the elements of each span, and the span of every element
             for si, (a, b, _kind) in enumerate(resp.spans):  # a small set
                 elems = np.nonzero((mids > a) & (mids < b))[0]
                 if elems.size:
                     rows.append(elems)
+                    tags.append(np.full(elems.size, si))
                     table[si] = float(combo.limit.allowed(b - a))
             if rows:
-                e = np.concatenate(rows)
-                t = np.concatenate([np.full(r.size, i) for i, r in enumerate(rows)])
-                t = np.flatnonzero(~np.isnan(table))[t]  # span index of every element
+                e, t = np.concatenate(rows), np.concatenate(tags)
                 d = table[t][:, None]
                 deflection.append((ci, table, Peak(np.r_[A[e] / d, -A[e] / d], np.r_[B[e] / d, -B[e] / d],
                                                    np.r_[lengths[e], lengths[e]], np.r_[t, t])))
@@ -230,13 +230,13 @@ def envelope_effects(resp, weights, best_cubic, best_poly):
     out = {k: np.full((C, weights.size), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
     if strength:
         peaks = [p for _, ps in strength for p in ps]
-        h, _ = envelope_values(peaks, weights, best_cubic)
+        h, _ = envelope_values(peaks, weights, _cubic_best)
         for i, (ci, _) in enumerate(strength):
             out["M_max"][ci] = h[3 * i]
             out["M_min"][ci] = -h[3 * i + 1]
             out["V_abs"][ci] = h[3 * i + 2]
     if deflection:
-        h, tag = envelope_values([p for _, _, p in deflection], weights, best_poly)
+        h, tag = envelope_values([p for _, _, p in deflection], weights, _polished_best)
         for i, (ci, table, _) in enumerate(deflection):
             out["v_allowed"][ci] = table[tag[i]]
             out["v_abs"][ci] = h[i] * out["v_allowed"][ci]

@@ -26,7 +26,6 @@ def _grid(lengths):
     return lengths[..., None] * np.linspace(0.0, 1.0, _SAMPLES)
 
 
-
 def _cubic_stations(coef, lo, hi):
     """Where a cubic (coefficients ``coef`` (..., n <= 4), local s) can peak on [lo, hi]: both ends
     and the real roots of its quadratic derivative inside (stable formula; a vanishing s^2 term

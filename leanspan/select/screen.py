@@ -318,7 +318,7 @@ def screen_effects(model, cand: Candidates, self_weight_case=None, method: str =
     if not envelope:
         out = {k: np.full((weights.size, C), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
     else:  # the loop below on the candidates' distinct weights, through the peak envelopes
-        out = envelope_effects(resp, weights, _cubic_best, _polished_best)  # (C, n)
+        out = envelope_effects(resp, weights)  # (C, n)
         out["M_max"], out["M_min"] = snap_round_off(out["M_max"], out["M_min"])
         out = {k: np.take(a, back, axis=1).T for k, a in out.items()}  # (K, C)
         out["v_abs"] *= v_scale[:, None]

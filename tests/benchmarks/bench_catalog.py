@@ -178,16 +178,13 @@ def _select_1m_c50(folder: str) -> dict:
 def _select_100k_csv(job_path: str, folder: str) -> dict:
     """``leanspan select`` end to end on the list: wall time and the child process's peak memory,
     with an empty cache and then with the cache the first run wrote."""
-    def run(cache):
-        return _timed_select(job_path, cache)
-
     cold, cached, peaks = [], [], []
     for i in range(2):
         cache = os.path.join(folder, f"cache-select-{i}")
-        seconds, mb = run(cache)
+        seconds, mb = _timed_select(job_path, cache)
         cold.append(seconds)
         peaks.append(mb)
-        cached.append(run(cache)[0])
+        cached.append(_timed_select(job_path, cache)[0])
     return {"select_100k_csv_seconds": min(cold), "select_100k_csv_cached_seconds": min(cached),
             "select_100k_csv_peak_mb": max(peaks)}
 
