@@ -43,11 +43,11 @@ from ..catalog.table import family_rows
 from ..errors import LeanspanError, SelectionError, brief
 from ..sections.families import FAMILIES, _mm_all
 from ..units import check_number, parse
+from .long_list import KEEP, kept_positions
 
 __all__ = ["Space", "parse_built_up", "built_up_table", "KINDS", "CHUNK", "KEEP", "MAX_CANDIDATES"]
 
 CHUNK = 2**18  # candidates screened at a time (large: more repeated weights per chunk)
-KEEP = 1000  # passing built-up candidates kept for the ranked table
 MAX_CANDIDATES = 10_000_000  # combinations one space may hold (the first pass keeps 33 bytes each)
 MAX_TIMBERS = 10  # timbers of one flitch beam
 SERIES = "built_up"
@@ -476,35 +476,6 @@ def screen_space(space: Space, job, chunk: int | None = None) -> _Summary:
     return out
 
 
-def _best(first, second, idx, n):
-    """``idx`` sorted by (first, second), the first ``n`` and any tied with the n-th."""
-    if idx.size <= n:
-        return idx
-    order = idx[np.lexsort((second[idx], first[idx]))]
-    edge = order[n - 1]
-    tied = order[n:][(first[order[n:]] == first[edge]) & (second[order[n:]] == second[edge])]
-    return np.concatenate([order[:n], tied[: 4 * n]])
-
-
-def _kept(summary_arrays, threshold, top_failures=3):
-    """Positions (into the summary arrays) the ranked table can show: the best KEEP passing, the
-    heaviest ``top_failures`` failing ones below ``threshold`` (the winner's objective value; ties
-    kept), and with nothing passing anywhere the KEEP closest."""
-    flat, passes, first, second, worst = summary_arrays
-    p = np.flatnonzero(passes)
-    f = np.flatnonzero(~passes)
-    keep = [_best(first, second, p, KEEP)]
-    if np.isfinite(threshold):
-        lighter = f[first[f] < threshold]
-        if lighter.size:
-            order = lighter[np.argsort(-first[lighter], kind="stable")]
-            edge = first[order[min(top_failures, order.size) - 1]]
-            keep.append(order[first[order] >= edge][: 4 * KEEP])
-    else:
-        keep.append(_best(worst, first, f, KEEP))
-    return np.unique(np.concatenate(keep))
-
-
 def built_up_table(job, catalogue=None, chunk: int | None = None):
     """The rows to rank for a job with ``[built_up]``: the catalogue rows (``catalogue``, a
     DataFrame or None) and the built-up rows the table can show.
@@ -531,7 +502,7 @@ def built_up_table(job, catalogue=None, chunk: int | None = None):
     for space, arrays in zip(job.built_up, summaries):
         if arrays[0].size == 0:
             continue
-        pos = _kept(arrays, threshold)
+        pos = kept_positions(*arrays[1:], threshold)
         dropped += arrays[0].size - pos.size
         dropped_pass += int(arrays[1].sum() - arrays[1][pos].sum())
         frames.append(space_rows(space, arrays[0][pos], job))

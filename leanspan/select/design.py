@@ -38,7 +38,7 @@ from ..errors import SelectionError, brief
 from ..units import check_number
 
 __all__ = ["DURATIONS", "SERVICE_CLASSES", "SOURCES", "DesignBasis", "kmod", "kdef", "gamma_M", "kh", "K_CR",
-           "parse_design", "allowable_stress", "TIMBER"]
+           "parse_design", "allowable_stress", "combination_free", "TIMBER"]
 
 DURATIONS = ("permanent", "long", "medium", "short", "instantaneous")
 SERVICE_CLASSES = (1, 2, 3)
@@ -149,6 +149,12 @@ class DesignBasis:
     def describe(self) -> str:
         return (f"design strengths from characteristic values, service class {self.service_class} "
                 "(timber kmod × kh × f_k / γM, metals f / γM0)")
+
+
+def combination_free(limits) -> bool:
+    """Whether :func:`allowable_stress` is the same for every combination: the user's limits
+    are; design strengths (``[design]``, kmod by load duration) are not."""
+    return getattr(limits, "design", None) is None
 
 
 def allowable_stress(props, limits, eff, which: str) -> np.ndarray:

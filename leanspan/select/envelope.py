@@ -36,9 +36,10 @@ import numpy as np
 from ..beam.poly import evaluate as _horner
 from .extremes import _cubic_best, _polished_best
 
-__all__ = ["Peak", "envelope_values", "envelope_effects"]
+__all__ = ["Peak", "Pieces", "EnvelopeTable", "envelope_values", "envelope_pieces", "envelope_effects"]
 
 _KNOTS = 33  # initial knots per function (evenly spaced over the sorted weights)
+_BLOCK = 2048  # weights evaluated at a time (the pieces of every function on them stay in cache)
 _REL = 1e-14  # accepted gap between the cubic piece and the exact value, of the function's size
 
 
@@ -82,18 +83,55 @@ def _hermite(ha, hb, da, db, dw):
     return (3 * slope - 2 * da - db) / dw, (da + db - 2 * slope) / (dw * dw)
 
 
-def envelope_values(peaks, weights, best):
-    """h of every peak at every weight: (len(peaks), n) values and tags.
+class Pieces:
+    """Piecewise cubics h_j(w) on the sorted distinct weights ``u`` (n,): per piece its function
+    ``fj``, first and last weight index ``ia``, ``ib`` and ``c0 + c1 tau + c2 tau^2 + c3 tau^3``
+    (tau = w - u[ia]) with the maximiser's tag; the pieces of a function tile [0, n - 1] in order.
+    :meth:`values` evaluates them on any contiguous range of the weights (a chunk of candidates
+    sorted by weight), so the pieces are built once for every chunk."""
 
-    Parameters
-    ----------
-    peaks : list of Peak
-        Functions of one polynomial degree.
-    weights : ndarray (n,)
-        Sorted distinct weights per length w.
-    best : callable
-        ``best(coef (m, P, n), L (m, P)) -> (value, element, s)`` each (m,): the exact maximum of
-        the element polynomials (the station screen's evaluator).
+    def __init__(self, u, J, fj, ia, ib, coef, tag):
+        self.u, self.J = u, J
+        order = np.lexsort((ia, fj))
+        self.fj, self.ia, self.ib, self.tag = fj[order], ia[order], ib[order], tag[order]
+        self.coef = [c[order] for c in coef]  # c0, c1, c2, c3
+        # piece p covers weight indices [ia, end): its successor's start, or n for a function's last
+        last = np.r_[self.fj[1:] != self.fj[:-1], True]
+        self.end = np.where(last, u.size, np.r_[self.ia[1:], 0])
+        self.lines = not np.any(self.coef[2]) and not np.any(self.coef[3])
+
+    def values(self, lo: int = 0, hi: int | None = None):
+        """h of every function at the weights ``u[lo:hi]``: (J, hi - lo) values and tags."""
+        hi = self.u.size if hi is None else hi
+        m = max(hi - lo, 0)
+        values, tags = np.empty((self.J, m)), np.empty((self.J, m), self.tag.dtype)
+        for a in range(lo, hi, _BLOCK):  # blocks of weights: the temporaries stay in cache
+            b = min(hi, a + _BLOCK)
+            values[:, a - lo:b - lo], tags[:, a - lo:b - lo] = self._block(a, b)
+        return values, tags
+
+    def _block(self, lo, hi):
+        m = hi - lo
+        keep = np.flatnonzero((self.end > lo) & (self.ia < hi))  # pieces overlapping [lo, hi)
+        length = np.minimum(self.end[keep], hi) - np.maximum(self.ia[keep], lo)
+        # pieces tile each function's weights: repeats, not gathers
+        tau = np.tile(self.u[lo:hi], self.J) - np.repeat(self.u[self.ia[keep]], length)
+        c0, c1, c2, c3 = (c[keep] for c in self.coef)
+        if self.lines:  # every piece a line (no moving maximiser): skip the cubic terms
+            values = np.repeat(c1, length)
+        else:
+            values = np.repeat(c3, length)
+            for c in (c2, c1):
+                values *= tau
+                values += np.repeat(c, length)
+        values *= tau
+        values += np.repeat(c0, length)
+        return values.reshape(self.J, m), np.repeat(self.tag[keep], length).reshape(self.J, m)
+
+
+def envelope_values(peaks, weights, best):
+    """h of every peak at every weight: (len(peaks), n) values and tags
+    (:func:`envelope_pieces` evaluated at all the weights).
 
     Examples
     --------
@@ -108,14 +146,33 @@ def envelope_values(peaks, weights, best):
     >>> bool(np.allclose(h[0], exact, rtol=1e-13))
     True
     """
+    return envelope_pieces(peaks, weights, best).values()
+
+
+def envelope_pieces(peaks, weights, best) -> Pieces:
+    """The pieces of every peak over the weights (see the module docstring).
+
+    Parameters
+    ----------
+    peaks : list of Peak
+        Functions of one polynomial degree.
+    weights : ndarray (n,)
+        Sorted distinct weights per length w.
+    best : callable
+        ``best(coef (m, P, n), L (m, P)) -> (value, element, s)`` each (m,): the exact maximum of
+        the element polynomials (the station screen's evaluator).
+    """
     u = np.asarray(weights, float)
     n, J = u.size, len(peaks)
+    none = np.zeros(0, int)
     if n == 0 or J == 0:
-        return np.zeros((J, n)), np.zeros((J, n), int)
+        return Pieces(u, J, none, none, none, [np.zeros(0)] * 4, none)
     start = np.unique(np.linspace(0, n - 1, min(n, _KNOTS)).round().astype(int))
-    if start.size == n:  # few weights: every one is a knot
+    if start.size == n:  # few weights: every one is a knot, a constant piece each
         h, _, _, t = _exact(peaks, np.repeat(np.arange(J), n), np.tile(u, J), best)
-        return h.reshape(J, n), t.reshape(J, n)
+        z = np.zeros(h.size)
+        idx = np.tile(np.arange(n), J)
+        return Pieces(u, J, np.repeat(np.arange(J), n), idx, idx, [h, z, z, z], t)
     # the knot table: function, weight index, value, line (a, b; b the slope), tag
     kj = np.repeat(np.arange(J), start.size)
     ki = np.tile(start, J)
@@ -168,19 +225,7 @@ def envelope_values(peaks, weights, best):
         pb = np.concatenate([pm[~ok], pb[~ok]])
 
     fj, ia, ib, c0, c1, c2, c3, tg = (np.concatenate(p) for p in zip(*pieces))
-    order = np.lexsort((ia, fj))
-    fj, ia, ib, c0, c1, c2, c3, tg = (x[order] for x in (fj, ia, ib, c0, c1, c2, c3, tg))
-    # the piece of every (function, weight index): pieces of a function tile [0, n - 1]
-    length = ib - ia
-    last = np.r_[fj[1:] != fj[:-1], True]
-    length = length + last  # the final piece of each function also owns its end point
-    ua = np.repeat(u[ia], length)  # pieces tile the weights: repeats, not gathers
-    tau = np.tile(u, J) - ua
-    values = np.repeat(c3, length)
-    for c in (c2, c1, c0):
-        values *= tau
-        values += np.repeat(c, length)
-    return values.reshape(J, n), np.repeat(tg, length).reshape(J, n)
+    return Pieces(u, J, fj, ia, ib, [c0, c1, c2, c3], tg)
 
 
 def envelope_effects(resp, weights):
@@ -188,8 +233,78 @@ def envelope_effects(resp, weights):
     response without springs (``resp.M.shape[0] == 1``), for the sorted distinct weights per
     length ``weights`` (n,) of the candidates: arrays (C, n) (combination first) ``M_max``,
     ``M_min``, ``V_abs``, ``v_abs`` (times EI: the caller divides by each candidate's EI) and
-    ``v_allowed``, as the station screen gives them.
+    ``v_allowed``, as the station screen gives them (:class:`EnvelopeTable` at all the weights).
     """
+    return EnvelopeTable(resp, weights).effects()
+
+
+class EnvelopeTable:
+    """The peak envelopes of every concrete combination of a response without springs, built once
+    on the sorted distinct weights ``weights`` (n,); :meth:`effects` gives them on any contiguous
+    range of those weights (a chunk of candidates in weight order)."""
+
+    def __init__(self, resp, weights):
+        self.C, self.n = len(resp.combos), np.size(weights)
+        self.strength, self.deflection = _peaks(resp)
+        self.m_pieces = self.v_pieces = None
+        if self.strength:
+            self.m_pieces = envelope_pieces([p for _, ps in self.strength for p in ps], weights, _cubic_best)
+        if self.deflection:
+            self.v_pieces = envelope_pieces([p for _, _, p in self.deflection], weights, _polished_best)
+
+    def effects(self, lo: int = 0, hi: int | None = None) -> dict:
+        """Arrays (C, hi - lo) of the weights ``[lo, hi)`` (see :func:`envelope_effects`)."""
+        hi = self.n if hi is None else hi
+        out = {k: np.full((self.C, hi - lo), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
+        if self.strength:
+            h, _ = self.m_pieces.values(lo, hi)
+            for i, (ci, _) in enumerate(self.strength):
+                out["M_max"][ci] = h[3 * i]
+                np.negative(h[3 * i + 1], out=out["M_min"][ci])
+                out["V_abs"][ci] = h[3 * i + 2]
+        if self.deflection:
+            h, tag = self.v_pieces.values(lo, hi)
+            for i, (ci, table, _) in enumerate(self.deflection):
+                out["v_allowed"][ci] = table[tag[i]]
+                np.multiply(h[i], out["v_allowed"][ci], out=out["v_abs"][ci])
+        return out
+
+
+    def worst(self, lo: int = 0, hi: int | None = None) -> dict:
+        """The effects' worst values over every combination at the weights ``[lo, hi)``: arrays
+        (hi - lo,) ``M_max`` (largest), ``M_min`` (smallest), ``V_abs`` (largest), and the
+        ``v_abs`` (times EI), ``v_allowed`` of the largest deflection ratio; NaN where no
+        combination gives them. Moments are snapped to zero per combination first, as
+        :meth:`effects` is in the screen."""
+        from ..beam.results import snap_round_off
+
+        hi = self.n if hi is None else hi
+        out = {k: np.empty(max(hi - lo, 0)) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
+        cols = np.arange(_BLOCK)
+        for a in range(lo, hi, _BLOCK):  # blocks of weights: the (C, block) arrays stay in cache
+            b = min(hi, a + _BLOCK)
+            e = self.effects(a, b)
+            M_max, M_min = snap_round_off(e["M_max"], e["M_min"])
+            with np.errstate(invalid="ignore", divide="ignore"):
+                ratio = e["v_abs"] / e["v_allowed"]
+            j = np.argmax(np.where(np.isnan(ratio), -np.inf, ratio), axis=0)
+            at = slice(a - lo, b - lo)
+            if self.C:
+                np.fmax.reduce(M_max, axis=0, out=out["M_max"][at])
+                np.fmin.reduce(M_min, axis=0, out=out["M_min"][at])
+                np.fmax.reduce(e["V_abs"], axis=0, out=out["V_abs"][at])
+                out["v_abs"][at] = e["v_abs"][j, cols[: b - a]]
+                out["v_allowed"][at] = e["v_allowed"][j, cols[: b - a]]
+            else:
+                for v in out.values():
+                    v[at] = np.nan
+        return out
+
+
+def _peaks(resp):
+    """The peak functions of every concrete combination: ``[(combination index, [M+, M-, |V|])]``
+    for strength ones and ``[(combination index, allowed deflection per span, worst-span peak)]``
+    for deflection ones."""
     sw = resp.self_weight_index
     lengths, x0 = resp.lengths, resp.x_nodes[:-1]
     mids = x0 + lengths / 2
@@ -226,18 +341,4 @@ def envelope_effects(resp, weights):
                 d = table[t][:, None]
                 deflection.append((ci, table, Peak(np.r_[A[e] / d, -A[e] / d], np.r_[B[e] / d, -B[e] / d],
                                                    np.r_[lengths[e], lengths[e]], np.r_[t, t])))
-    C = len(resp.combos)
-    out = {k: np.full((C, weights.size), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
-    if strength:
-        peaks = [p for _, ps in strength for p in ps]
-        h, _ = envelope_values(peaks, weights, _cubic_best)
-        for i, (ci, _) in enumerate(strength):
-            out["M_max"][ci] = h[3 * i]
-            out["M_min"][ci] = -h[3 * i + 1]
-            out["V_abs"][ci] = h[3 * i + 2]
-    if deflection:
-        h, tag = envelope_values([p for _, _, p in deflection], weights, _polished_best)
-        for i, (ci, table, _) in enumerate(deflection):
-            out["v_allowed"][ci] = table[tag[i]]
-            out["v_abs"][ci] = h[i] * out["v_allowed"][ci]
-    return out
+    return strength, deflection

@@ -21,6 +21,7 @@ registered check (:mod:`leanspan.select.checks`) to them.
 from __future__ import annotations
 
 import dataclasses
+import os
 from dataclasses import dataclass, field
 
 import numpy as np
@@ -33,11 +34,11 @@ from ..beam.results import snap_round_off
 from .checks import Effects, active_checks
 from .job import Limits
 from .member import beam_with_member
-from .envelope import envelope_effects
+from .envelope import EnvelopeTable
 from .extremes import _cubic_best, _cubic_stations, _polished_best
 from .screen_reduce import to_parents
 
-__all__ = ["Candidates", "Screen", "screen", "screen_loop", "evaluate", "check_names"]
+__all__ = ["Candidates", "Screen", "screen", "screen_chunks", "screen_verdicts", "screen_loop", "evaluate", "check_names", "CHUNK"]
 
 _BLOCK = 2048  # candidates per block (keeps the grid work in cache)
 
@@ -161,9 +162,13 @@ class Screen:
         return out
 
 
-def evaluate(effects: Effects, cand: Candidates, first_pass: bool = False) -> Screen:
+def evaluate(effects: Effects, cand: Candidates, first_pass: bool = False, nan_fails=frozenset()) -> Screen:
     """Apply every check active for ``cand.limits`` to ``effects`` (K, C) of candidates ``cand``;
-    with ``first_pass``, not those that only report for this beam (:attr:`Check.reports_only`)."""
+    with ``first_pass``, not those that only report for this beam (:attr:`Check.reports_only`).
+
+    A check that gives NaN for every candidate does not apply to the job (NaN utilisation); NaN
+    for some only fails them. ``nan_fails`` names checks to treat as the latter even when all of
+    ``cand`` are NaN (a part of a larger set in which some are not: see :func:`screen_chunks`)."""
     K = cand.size
     demand, allow, combo, util, columns = {}, {}, {}, {}, {}
     rows = np.arange(K)
@@ -185,7 +190,7 @@ def evaluate(effects: Effects, cand: Candidates, first_pass: bool = False) -> Sc
         none = np.isneginf(filled[rows, j])
         # NaN for every candidate: the check does not apply to this job (no deflection limit);
         # NaN for some only: their data could not be checked, so they fail rather than pass
-        none = none & none.all()
+        none = none & (bool(none.all()) and check.name not in nan_fails)
         util[check.name] = np.where(none, np.nan, np.where(np.isneginf(filled[rows, j]), np.inf, u[rows, j]))
         demand[check.name] = np.where(none, np.nan, d[rows, j])
         allow[check.name] = np.where(none, np.nan, a[rows, j])
@@ -257,7 +262,8 @@ def worst_span(field, F, sw, t, scale, spans, lengths, x0, limit):
     return mag_out, allowed_out, ratio
 
 
-def screen(model, cand: Candidates, self_weight_case=None, first_pass: bool = False) -> Screen:
+def screen(model, cand: Candidates, self_weight_case=None, first_pass: bool = False,
+           nan_fails=frozenset()) -> Screen:
     """Check every candidate against every combination of ``model`` (a BeamModel).
 
     Parameters
@@ -269,8 +275,10 @@ def screen(model, cand: Candidates, self_weight_case=None, first_pass: bool = Fa
         The case carrying each candidate's weight (default: the model's ``self_weight``).
     first_pass : bool
         Pass and fail only: skip the checks that only report for this beam (see :func:`evaluate`).
+    nan_fails : set of str
+        See :func:`evaluate`.
     """
-    return evaluate(screen_effects(model, cand, self_weight_case), cand, first_pass)
+    return evaluate(screen_effects(model, cand, self_weight_case), cand, first_pass, nan_fails)
 
 
 _SHARE = 0.7  # share the evaluation of equal weights when they cut the candidates to this fraction
@@ -287,42 +295,15 @@ def screen_effects(model, cand: Candidates, self_weight_case=None, method: str =
     (:mod:`leanspan.select.envelope`; beams without springs only, else stations); ``"auto"``
     uses the envelope from ``_ENVELOPE_MIN`` distinct weights.
     """
-    sw_case = self_weight_case if self_weight_case is not None else model.self_weight
-    EI = np.asarray(cand.EI, float)
-    sprung = any(s.type == "spring" for s in model.supports)
-    # without springs one stiffness gives every candidate's response (v scales with 1/EI; the
-    # deflections of all K would be K copies): respond still checks all of them
-    valid = EI.ndim == 1 and EI.size > 0 and bool(np.all(np.isfinite(EI)) and np.all(EI > 0))
-    resp = respond(model, EI=EI if sprung or not valid else EI[:1], unit_self_weight=sw_case is not None,
-                   self_weight_case=sw_case)
-    K = cand.size
-    sw = resp.self_weight_index
-    mass_g = np.asarray(cand.mass_per_length, float) * G
+    s = _Setup(model, cand, self_weight_case, method)
+    if s.table is not None:  # through the peak envelopes, on the candidates' distinct weights
+        return s.effects(np.arange(cand.size))
+    resp, weights, sw, K = s.resp, s.weights, s.resp.self_weight_index, cand.size
     lengths, x0 = resp.lengths, resp.x_nodes[:-1]
     all_elems = np.arange(lengths.size)
-    fixed = resp.M.shape[0] == 1
-    if fixed:  # deflection = (v EI of the unit solve) / EI_k
-        v_field = resp.v[:1] * resp.EI[:1, None, :, None]
-        v_scale = 1.0 / np.asarray(cand.EI, float)
-    else:
-        v_field, v_scale = resp.v, None
-
-    # Without springs the forces depend on a candidate's weight alone and v scales with 1/EI, so
-    # candidates of equal weight (one section in several steel grades ...) share one evaluation
-    weights, back = np.unique(mass_g, return_inverse=True) if fixed else (mass_g, None)
-    envelope = fixed and (method == "envelope" or (method == "auto" and weights.size >= _ENVELOPE_MIN))
-    shared = fixed and (envelope or weights.size <= _SHARE * K)
-    if not shared:
-        weights = mass_g
     C = len(resp.combos)
-    if not envelope:
-        out = {k: np.full((weights.size, C), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
-    else:  # the loop below on the candidates' distinct weights, through the peak envelopes
-        out = envelope_effects(resp, weights)  # (C, n)
-        out["M_max"], out["M_min"] = snap_round_off(out["M_max"], out["M_min"])
-        out = {k: np.take(a, back, axis=1).T for k, a in out.items()}  # (K, C)
-        out["v_abs"] *= v_scale[:, None]
-    for ci, combo in enumerate(resp.combos if not envelope else ()):  # a small set
+    out = {k: np.full((weights.size, C), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
+    for ci, combo in enumerate(resp.combos):  # a small set
         F = np.asarray(combo.factors, float)
         t = weights * (F[sw] if sw is not None else 0.0)
         if combo.check == "strength":
@@ -332,16 +313,156 @@ def screen_effects(model, cand: Candidates, self_weight_case=None, method: str =
             out["V_abs"][:, ci] = np.maximum(np.abs(v[1][0]), np.abs(v[-1][0]))
         elif combo.limit is not None:  # the worst span does not depend on the (common) 1/EI factor
             out["v_abs"][:, ci], out["v_allowed"][:, ci], _ = worst_span(
-                v_field, F, sw, t, None if shared else v_scale, resp.spans, lengths, x0, combo.limit)
-    if shared and not envelope:
-        out = {k: a[back] for k, a in out.items()}
-        out["v_abs"] *= v_scale[:, None]
-    names = [c.name for c in model.combinations]
-    parents = np.array([names.index(c.parent or c.name) for c in resp.combos], int)
-    sampler = FieldSampler(resp, parents, mass_g, None if not fixed else v_scale)
-    return Effects(**_by_parent(out, parents, len(names)), combinations=tuple(model.combinations),
-                   sampler=sampler, EI=np.asarray(cand.EI, float),
-                   mass_per_length=np.asarray(cand.mass_per_length, float), model=model, limits=cand.limits)
+                s.v_field, F, sw, t, None if s.shared else s.v_scale, resp.spans, lengths, x0, combo.limit)
+    if s.shared:
+        out = {k: a[s.back] for k, a in out.items()}
+        out["v_abs"] *= s.v_scale[:, None]
+    return s.finish(out, slice(None))
+
+
+class _Setup:
+    """What every chunk of a screen shares: the beam's unit-case response (one stiffness without
+    springs, else one per candidate), the candidates' distinct weights and, for the envelope
+    screen, the peak envelopes built on them once (:class:`~leanspan.select.envelope.EnvelopeTable`)."""
+
+    def __init__(self, model, cand, self_weight_case=None, method="auto"):
+        sw_case = self_weight_case if self_weight_case is not None else model.self_weight
+        EI = np.asarray(cand.EI, float)
+        sprung = any(s.type == "spring" for s in model.supports)
+        # without springs one stiffness gives every candidate's response (v scales with 1/EI; the
+        # deflections of all K would be K copies): respond still checks all of them
+        valid = EI.ndim == 1 and EI.size > 0 and bool(np.all(np.isfinite(EI)) and np.all(EI > 0))
+        self.resp = resp = respond(model, EI=EI if sprung or not valid else EI[:1],
+                                   unit_self_weight=sw_case is not None, self_weight_case=sw_case)
+        self.model, self.cand = model, cand
+        K = cand.size
+        self.mass_g = np.asarray(cand.mass_per_length, float) * G
+        self.fixed = fixed = resp.M.shape[0] == 1
+        if fixed:  # deflection = (v EI of the unit solve) / EI_k
+            self.v_field = resp.v[:1] * resp.EI[:1, None, :, None]
+            self.v_scale = 1.0 / EI
+        else:
+            self.v_field, self.v_scale = resp.v, None
+        # Without springs the forces depend on a candidate's weight alone and v scales with 1/EI, so
+        # candidates of equal weight (one section in several steel grades ...) share one evaluation
+        weights, self.back = np.unique(self.mass_g, return_inverse=True) if fixed else (self.mass_g, None)
+        envelope = fixed and (method == "envelope" or (method == "auto" and weights.size >= _ENVELOPE_MIN))
+        self.shared = fixed and (envelope or weights.size <= _SHARE * K)
+        self.weights = weights if self.shared else self.mass_g
+        self.table = EnvelopeTable(resp, weights) if envelope else None
+        names = [c.name for c in model.combinations]
+        self.parents = np.array([names.index(c.parent or c.name) for c in resp.combos], int)
+
+    def effects(self, rows) -> Effects:
+        """The envelope screen's effects of candidates ``rows`` (fastest in weight order: their
+        distinct weights are then one contiguous range of the table's)."""
+        idx = self.back[rows]
+        lo, hi = (int(idx.min()), int(idx.max()) + 1) if idx.size else (0, 0)
+        out = self.table.effects(lo, hi)  # (C, n')
+        out["M_max"], out["M_min"] = snap_round_off(out["M_max"], out["M_min"])
+        local = idx - lo
+        out = {k: np.take(a, local, axis=1).T for k, a in out.items()}  # (K', C)
+        out["v_abs"] *= self.v_scale[rows, None]
+        return self.finish(out, rows)
+
+    def finish(self, out, rows) -> Effects:
+        """The Effects of candidates ``rows`` from their concrete combinations' arrays ``out``."""
+        cand = self.cand
+        sampler = FieldSampler(self.resp, self.parents, self.mass_g[rows],
+                               None if not self.fixed else self.v_scale[rows])
+        return Effects(**_by_parent(out, self.parents, len(self.model.combinations)),
+                       combinations=tuple(self.model.combinations), sampler=sampler,
+                       EI=np.asarray(cand.EI, float)[rows],
+                       mass_per_length=np.asarray(cand.mass_per_length, float)[rows],
+                       model=self.model, limits=cand.limits)
+
+
+#: Candidates screened at a time by :func:`screen_chunks` (bounds the (K, C) arrays held at once).
+CHUNK = 2**14
+
+
+def screen_chunks(model, cand: Candidates, self_weight_case=None, first_pass: bool = False,
+                  chunk: int = CHUNK, nan_fails=frozenset(), workers: int | None = None):
+    """:func:`screen` in chunks of ``chunk`` candidates: yields ``(rows, Screen)`` (rows: indices
+    into ``cand``), holding a few chunks' (K, C) arrays at a time.
+
+    Without springs the beam is solved and the peak envelopes built once, and the chunks follow
+    the candidates' weights (each chunk's weights are one range of the envelopes); each chunk's
+    numbers equal those of the whole screen. With springs each chunk is its own screen.
+    ``nan_fails`` as for :func:`evaluate`. ``workers`` threads screen chunks at the same time
+    (default: up to two, as the machine allows; numpy's array loops run outside Python's lock).
+    """
+    K = cand.size
+    sprung = any(s.type == "spring" for s in model.supports)
+    s = None if sprung else _Setup(model, cand, self_weight_case)
+    if s is None or s.table is None:
+        parts = [np.arange(a, min(K, a + chunk)) for a in range(0, K, chunk)]
+
+        def one(rows):
+            return rows, screen(model, cand.take(rows), self_weight_case, first_pass, nan_fails)
+    else:
+        order = np.argsort(s.back, kind="stable")
+        # each chunk a range of weights; its rows in table order (the column gathers run forwards)
+        parts = [np.sort(order[a:a + chunk]) for a in range(0, K, chunk)]
+
+        def one(rows):
+            return rows, evaluate(s.effects(rows), cand.take(rows), first_pass, nan_fails)
+    workers = min(2, os.cpu_count() or 1) if workers is None else workers
+    if workers <= 1 or len(parts) <= 1:
+        yield from map(one, parts)
+        return
+    from concurrent.futures import ThreadPoolExecutor
+
+    with ThreadPoolExecutor(workers) as pool:
+        yield from pool.map(one, parts)
+
+
+def screen_verdicts(model, cand: Candidates, self_weight_case=None, chunk: int = CHUNK):
+    """Pass and fail of every candidate and its largest utilisation (K,), the first pass of a long
+    list (the checks that only report for this beam left out, as ``screen(..., first_pass=True)``),
+    and the checks that gave any candidate a value (for the rows kept: ``nan_fails`` of
+    :func:`evaluate`).
+
+    Without springs, when every check needs only the effects' worst values over the combinations
+    (:attr:`~leanspan.select.checks.Check.peaks_suffice`), those are found per distinct weight
+    from the peak envelopes (:meth:`~leanspan.select.envelope.EnvelopeTable.worst`) and the checks
+    run once on them: no (K, C) array is formed. The utilisations equal the full screen's (a
+    deflection ratio may differ in its last bit where two combinations tie). Otherwise
+    :func:`screen_chunks`.
+    """
+    checks = [c for c in active_checks(cand.limits) if c.reports_only is None or not c.reports_only(model)]
+    sprung = any(s.type == "spring" for s in model.supports)
+    s = None
+    if not sprung and all(c.peaks_suffice is not None and c.peaks_suffice(cand.limits) for c in checks):
+        s = _Setup(model, cand, self_weight_case)
+    if s is not None and s.table is not None:
+        w = s.table.worst()
+        peak = {k: v[s.back][:, None] for k, v in w.items()}
+        peak["v_abs"] *= s.v_scale[:, None]
+        eff = Effects(**peak, combinations=(), EI=np.asarray(cand.EI, float),
+                      mass_per_length=np.asarray(cand.mass_per_length, float), model=model, limits=cand.limits)
+        res = evaluate(eff, cand, first_pass=True)
+        some = frozenset(n for n, u in res.utilisation.items() if not np.isnan(u).all())
+        return (*_verdicts(res), some)
+    passes, worst = np.zeros(cand.size, bool), np.full(cand.size, np.nan)
+    all_nan, some = {}, set()  # per check: the chunks in which every row is NaN; checks with a value
+    for rows, res in screen_chunks(model, cand, self_weight_case, first_pass=True, chunk=chunk):
+        passes[rows], worst[rows] = _verdicts(res)
+        for name, u in res.utilisation.items():  # a small set
+            if np.isnan(u).all():
+                all_nan.setdefault(name, []).append(rows)
+            else:
+                some.add(name)
+    # a check NaN for a whole chunk but not for the whole list: those rows could not be checked
+    for name in (n for n in all_nan if n in some):
+        for rows in all_nan[name]:
+            passes[rows], worst[rows] = False, np.inf
+    return passes, worst, frozenset(some)
+
+
+def _verdicts(res):
+    """Pass/fail and the largest utilisation (K,) of a :class:`Screen`."""
+    return np.array(res.passes), np.fmax.reduce(np.stack(list(res.utilisation.values()), axis=1), axis=1)
 
 
 def _by_parent(out, parents, C):

@@ -18,6 +18,7 @@ from ..errors import SelectionError
 from ..units import utilisation_text
 from .checks import active_checks
 from .chosen import chosen_member
+from .long_list import LONG_LIST, long_list_rows
 from .member import member_arrays, shared_name_ranks
 from .screen import Candidates, Screen, screen
 
@@ -279,22 +280,29 @@ def run_selection(job, table=None) -> Selection:
     ----------
     job : Job
     table : pandas.DataFrame, optional
-        Catalogue rows to screen instead of the job's own search (used by tests).
+        Catalogue rows to screen instead of the job's own search (schedules, tests): all of them
+        are kept in the result.
+
+    A search of more than :data:`~leanspan.select.long_list.LONG_LIST` rows is screened in chunks
+    and keeps the rows the table can show (:func:`~leanspan.select.long_list.long_list_rows`).
     """
-    dropped = dropped_pass = 0  # built-up candidates screened but not kept for the table
+    dropped = dropped_pass = 0  # candidates screened but not kept for the table
+    nan_fails = frozenset()
     if table is None and getattr(job, "built_up", ()):
         from .built_up import built_up_table
 
         df, dropped, dropped_pass = built_up_table(job, candidate_table(job.search) if job.catalogue else None)
     else:
         df = candidate_table(job.search) if table is None else table
+        if table is None and len(df) > LONG_LIST:
+            df, dropped, dropped_pass, nan_fails = long_list_rows(df, job)
     warnings = (list(df.attrs.get("warnings", [])) if hasattr(df, "attrs") else []) + list(job.model.notes)
     warnings += _mixed_bases(df, job)
     if len(df) == 0:
         why = _why_empty(job.search) if table is None else "the given table"
         raise SelectionError(f"search: no catalogue rows match {why}; widen the search")
     cand = candidates_from_table(df, job.limits)
-    res = screen(job.model, cand, job.search.self_weight)
+    res = screen(job.model, cand, job.search.self_weight, nan_fails=nan_fails)
     order = rank_order(df, res, job.search.objective)
     first = _rows(df, res, order, [0])[0]
     n_pass = int(res.passes.sum())

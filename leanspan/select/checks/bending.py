@@ -17,7 +17,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..design import allowable_stress
+from ..design import allowable_stress, combination_free
 from .registry import Check, register
 
 __all__ = ["BENDING"]
@@ -55,4 +55,4 @@ BENDING = register(Check(
     demand=_demand, allowable=_allowable, kind="pressure", demand_key="sigma",
     sentence="Bending stress σ = M / Sz, the larger of M max / Sz bottom and |M min| / Sz top, "
              "against the bending stress limit.",
-    action=_action, formula=_formula))
+    action=_action, formula=_formula, peaks_suffice=combination_free))

@@ -35,7 +35,7 @@ import dataclasses
 import numpy as np
 
 from ...errors import SelectionError
-from ..design import allowable_stress
+from ..design import allowable_stress, combination_free
 from .bending import BENDING
 from .registry import Check, TextRule, register
 from .section_class import METALS, classify, effective_moduli, epsilon, memoised
@@ -166,4 +166,5 @@ LOCAL_BUCKLING = register(Check(
              "sections are excluded or checked as M / S_eff on the effective section (EN 1993-1-5 4.4 "
              "effective widths, flanges then webs), as [limits] slender_sections says.",
     covers=("local_buckling",), limit_keys={"slender_sections": "text"},
-    action=BENDING.action, active=_active, sheet_rows=_sheet_rows, details=_details))
+    action=BENDING.action, active=_active, sheet_rows=_sheet_rows, details=_details,
+    peaks_suffice=combination_free))

@@ -181,6 +181,14 @@ class Check:
         ``formula(effects, props, c) -> tuple`` for ONE candidate at combination ``c``: the
         :attr:`CheckRow.formula` of its default sheet row (the sheet prints it with the numbers
         in display units).
+    peaks_suffice : callable, optional
+        ``peaks_suffice(limits) -> bool``: true when the check's largest utilisation over the
+        combinations is its utilisation at the effects' worst values over all of them (largest
+        ``M_max`` and ``V_abs``, smallest ``M_min``, the ``v_abs``, ``v_allowed`` pair of the
+        largest ratio): its allowable does not depend on the combination, its demand rises with
+        ``M_max``, ``V_abs`` and the deflection ratio and falls with ``M_min``, and it reads
+        nothing else of the effects. A first pass over a long list then works on those worst
+        values alone (:func:`leanspan.select.screen.screen_verdicts`).
     """
 
     name: str
@@ -200,6 +208,7 @@ class Check:
     details: Callable | None = None
     formula: Callable | None = None
     reports_only: Callable | None = None
+    peaks_suffice: Callable | None = None
 
     def __post_init__(self):
         if not self.name.isidentifier():

@@ -23,7 +23,7 @@ import dataclasses
 
 import numpy as np
 
-from ..design import allowable_stress
+from ..design import allowable_stress, combination_free
 from .registry import Check, TextRule, register
 from .section_class import memoised, web_shear
 
@@ -89,4 +89,5 @@ SHEAR = register(Check(
              "force) against the shear stress limit; for steel webs with hw/t > 72 ε / η the limit is "
              "times min(1, χw), the shear buckling factor of EN 1993-1-5 Table 5.1 (non-rigid end post, "
              "λw = hw / (86.4 t ε), stiffeners at the supports only; η = 1.2 up to S460).",
-    action=_action, sheet_rows=_sheet_rows, details=_details, formula=_formula))
+    action=_action, sheet_rows=_sheet_rows, details=_details, formula=_formula,
+    peaks_suffice=combination_free))

@@ -1,0 +1,82 @@
+"""Long catalogue lists: a first pass in chunks, then the full screen of the rows a table can show.
+
+A search over more than :data:`LONG_LIST` catalogue rows (a large supplier list) would hold
+(rows x combinations) arrays for every effect and check at once: 400 MB each for a million rows
+and 50 combinations. Instead :func:`long_list_rows` sorts the rows into pass and fail first
+(:func:`leanspan.select.screen.screen_verdicts`: on the worst effects over the combinations where
+the checks allow it, else in chunks), keeping per row its verdict,
+objective values and largest utilisation, and returns the rows the ranked table can show: the
+best :data:`KEEP` passing ones (and any tied with the last), the heaviest failing ones lighter than
+the winner (the nearest failures) or, with nothing passing, the :data:`KEEP` closest.
+:func:`leanspan.select.search.run_selection` then screens those in full as usual; the counts of
+screened and passing rows include the rest. The built-up search keeps its rows the same way.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+__all__ = ["LONG_LIST", "KEEP", "long_list_rows", "kept_positions", "best_rows"]
+
+LONG_LIST = 2**17  # catalogue rows from which a search screens in chunks and keeps the best
+KEEP = 1000  # passing candidates kept for the ranked table
+
+
+def best_rows(first, second, idx, n):
+    """``idx`` sorted by (first, second), the first ``n`` and any tied with the n-th.
+
+    >>> best_rows(np.array([3.0, 1.0, 2.0, 1.0]), np.zeros(4), np.arange(4), 1).tolist()
+    [1, 3]
+    """
+    if idx.size <= n:
+        return idx
+    order = idx[np.lexsort((second[idx], first[idx]))]
+    edge = order[n - 1]
+    tied = order[n:][(first[order[n:]] == first[edge]) & (second[order[n:]] == second[edge])]
+    return np.concatenate([order[:n], tied[: 4 * n]])
+
+
+def kept_positions(passes, first, second, worst, threshold, top_failures=3):
+    """Positions the ranked table can show: the best KEEP passing, the heaviest ``top_failures``
+    failing ones below ``threshold`` (the winner's objective value; ties kept), and with nothing
+    passing anywhere the KEEP closest (smallest largest utilisation)."""
+    p = np.flatnonzero(passes)
+    f = np.flatnonzero(~passes)
+    keep = [best_rows(first, second, p, KEEP)]
+    if np.isfinite(threshold):
+        lighter = f[first[f] < threshold]
+        if lighter.size:
+            order = lighter[np.argsort(-first[lighter], kind="stable")]
+            edge = first[order[min(top_failures, order.size) - 1]]
+            keep.append(order[first[order] >= edge][: 4 * KEEP])
+    else:
+        keep.append(best_rows(worst, first, f, KEEP))
+    return np.unique(np.concatenate(keep))
+
+
+def long_list_rows(df, job, chunk=None):
+    """The rows of a long catalogue table ``df`` to screen in full, from a first pass in chunks.
+
+    Returns
+    -------
+    (DataFrame, int, int, frozenset)
+        The kept rows, how many rows were screened but not kept, how many of those passed, and the
+        checks whose NaN means fail for the kept rows (those that gave some row of the list a
+        value: ``nan_fails`` of :func:`leanspan.select.screen.evaluate`).
+    """
+    from .screen import CHUNK, screen_verdicts
+    from .search import candidates_from_table
+
+    cand = candidates_from_table(df, job.limits)
+    passes, worst, nan_fails = screen_verdicts(job.model, cand, job.search.self_weight, chunk=chunk or CHUNK)
+    K = cand.size
+    mass = df["mass_per_length"].to_numpy(float)
+    depth = df["depth"].to_numpy(float)
+    first, second = (mass, depth) if job.search.objective == "mass" else (depth, mass)
+    threshold = float(first[passes].min()) if passes.any() else np.inf
+    pos = kept_positions(passes, first, second, worst, threshold)
+    dropped = K - pos.size
+    dropped_pass = int(passes.sum() - passes[pos].sum())
+    kept = df.iloc[pos].reset_index(drop=True)
+    kept.attrs = dict(df.attrs)
+    return kept, dropped, dropped_pass, nan_fails
