@@ -53,22 +53,27 @@ class Peak:
         self.tag = np.zeros(self.L.size, int) if tag is None else np.asarray(tag, int)
 
 
-def _exact(peaks, which, w, best):
-    """h of peaks ``which`` (m,) at weights ``w`` (m,), all of one polynomial degree: the value, the
-    maximiser's line a + w b (b is also the slope of h in w) and its tag, each (m,)."""
+def _stacked(peaks):
+    """The peaks' A, B (J, P, n), L and tag (J, P) as one padded stack: every peak repeats its
+    element 0 to P rows (a repeat does not change a maximum) and is zero-padded in degree."""
     P = max(p.L.size for p in peaks)
     n = max(p.A.shape[1] for p in peaks)
+    J = len(peaks)
+    A, B = np.zeros((J, P, n)), np.zeros((J, P, n))
+    L, tag = np.empty((J, P)), np.empty((J, P), int)
+    for j, p in enumerate(peaks):  # a small set (a few per combination)
+        m, d = p.A.shape
+        A[j, :m, :d], A[j, m:, :d] = p.A, p.A[0]
+        B[j, :m, :d], B[j, m:, :d] = p.B, p.B[0]
+        L[j, :m], L[j, m:] = p.L, p.L[0]
+        tag[j, :m], tag[j, m:] = p.tag, p.tag[0]
+    return A, B, L, tag
 
-    def pad(p, a):  # repeat element 0 to P rows (a repeat does not change a maximum), zero-pad degree
-        out = np.zeros((P, n))
-        out[: a.shape[0], : a.shape[1]] = a
-        out[a.shape[0]:, : a.shape[1]] = a[0]
-        return out
 
-    A = np.stack([pad(p, p.A) for p in peaks])[which]  # (m, P, n)
-    B = np.stack([pad(p, p.B) for p in peaks])[which]
-    L = np.stack([np.concatenate([p.L, np.full(P - p.L.size, p.L[0])]) for p in peaks])[which]
-    tag = np.stack([np.concatenate([p.tag, np.full(P - p.L.size, p.tag[0])]) for p in peaks])[which]
+def _exact(stack, which, w, best):
+    """h of the stacked peaks (:func:`_stacked`) ``which`` (m,) at weights ``w`` (m,): the value,
+    the maximiser's line a + w b (b is also the slope of h in w) and its tag, each (m,)."""
+    A, B, L, tag = (x[which] for x in stack)
     value, e, s = best(A + w[:, None, None] * B, L)
     r = np.arange(w.size)
     a = _horner(A[r, e], s)
@@ -110,7 +115,8 @@ class Pieces:
             values[:, a - lo:b - lo], tags[:, a - lo:b - lo] = self._block(a, b)
         return values, tags
 
-    def _block(self, lo, hi):
+    def _block(self, lo, hi, tags=True):
+        """Values (J, hi - lo) and, with ``tags``, the maximisers' tags on the weights [lo, hi)."""
         m = hi - lo
         keep = np.flatnonzero((self.end > lo) & (self.ia < hi))  # pieces overlapping [lo, hi)
         length = np.minimum(self.end[keep], hi) - np.maximum(self.ia[keep], lo)
@@ -126,7 +132,7 @@ class Pieces:
                 values += np.repeat(c, length)
         values *= tau
         values += np.repeat(c0, length)
-        return values.reshape(self.J, m), np.repeat(self.tag[keep], length).reshape(self.J, m)
+        return values.reshape(self.J, m), np.repeat(self.tag[keep], length).reshape(self.J, m) if tags else None
 
 
 def envelope_values(peaks, weights, best):
@@ -168,15 +174,16 @@ def envelope_pieces(peaks, weights, best) -> Pieces:
     if n == 0 or J == 0:
         return Pieces(u, J, none, none, none, [np.zeros(0)] * 4, none)
     start = np.unique(np.linspace(0, n - 1, min(n, _KNOTS)).round().astype(int))
+    stack = _stacked(peaks)
     if start.size == n:  # few weights: every one is a knot, a constant piece each
-        h, _, _, t = _exact(peaks, np.repeat(np.arange(J), n), np.tile(u, J), best)
+        h, _, _, t = _exact(stack, np.repeat(np.arange(J), n), np.tile(u, J), best)
         z = np.zeros(h.size)
         idx = np.tile(np.arange(n), J)
         return Pieces(u, J, np.repeat(np.arange(J), n), idx, idx, [h, z, z, z], t)
     # the knot table: function, weight index, value, line (a, b; b the slope), tag
     kj = np.repeat(np.arange(J), start.size)
     ki = np.tile(start, J)
-    kh, ka, kb, kt = _exact(peaks, kj, u[ki], best)
+    kh, ka, kb, kt = _exact(stack, kj, u[ki], best)
     size = np.zeros(J)
     np.maximum.at(size, kj, np.abs(kh))
     # pending intervals: rows of the knot table at their two ends
@@ -205,7 +212,7 @@ def envelope_pieces(peaks, weights, best) -> Pieces:
             break
         mid = (ki[pa] + ki[pb]) // 2
         j = kj[pa]
-        h, a, b, t = _exact(peaks, j, u[mid], best)
+        h, a, b, t = _exact(stack, j, u[mid], best)
         pm = kh.size + np.arange(mid.size)
         kj, ki = np.concatenate([kj, j]), np.concatenate([ki, mid])
         kh, ka, kb, kt = (np.concatenate([x, y]) for x, y in ((kh, h), (ka, a), (kb, b), (kt, t)))
@@ -251,54 +258,69 @@ class EnvelopeTable:
             self.m_pieces = envelope_pieces([p for _, ps in self.strength for p in ps], weights, _cubic_best)
         if self.deflection:
             self.v_pieces = envelope_pieces([p for _, _, p in self.deflection], weights, _polished_best)
+        self._strength_columns = np.array([ci for ci, _ in self.strength], int)
+        self._deflection_columns = np.array([ci for ci, _, _ in self.deflection], int)
+        self._unfilled = np.setdiff1d(np.arange(self.C), np.r_[self._strength_columns, self._deflection_columns])
+        self._allowed = np.array([t for _, t, _ in self.deflection]) if self.deflection else np.zeros((0, 1))
 
     def effects(self, lo: int = 0, hi: int | None = None) -> dict:
-        """Arrays (C, hi - lo) of the weights ``[lo, hi)`` (see :func:`envelope_effects`)."""
+        """Arrays (C, hi - lo) of the weights ``[lo, hi)`` (see :func:`envelope_effects`), the
+        moments snapped to zero per combination (:func:`~leanspan.beam.results.snap_round_off`)
+        as the station screen does."""
         hi = self.n if hi is None else hi
-        out = {k: np.full((self.C, hi - lo), np.nan) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
-        if self.strength:
-            h, _ = self.m_pieces.values(lo, hi)
-            for i, (ci, _) in enumerate(self.strength):
-                out["M_max"][ci] = h[3 * i]
-                np.negative(h[3 * i + 1], out=out["M_min"][ci])
-                out["V_abs"][ci] = h[3 * i + 2]
-        if self.deflection:
-            h, tag = self.v_pieces.values(lo, hi)
-            for i, (ci, table, _) in enumerate(self.deflection):
-                out["v_allowed"][ci] = table[tag[i]]
-                np.multiply(h[i], out["v_allowed"][ci], out=out["v_abs"][ci])
+        out = {k: np.empty((self.C, max(hi - lo, 0))) for k in _KEYS}
+        for k, v in out.items():  # NaN in the rows the blocks do not fill
+            v[self._strength_columns if k.startswith("v_") else self._deflection_columns] = np.nan
+            v[self._unfilled] = np.nan
+        for a in range(lo, hi, _BLOCK):  # blocks of weights: the temporaries stay in cache
+            b = min(hi, a + _BLOCK)
+            self._fill({k: v[:, a - lo:b - lo] for k, v in out.items()}, a, b)
         return out
 
+    def _fill(self, out, a, b):
+        """Write the effects of weights [a, b) into the (C, b - a) arrays ``out``."""
+        from ..beam.results import snap_round_off
+
+        if self.strength:
+            h, _ = self.m_pieces._block(a, b, tags=False)  # (J, b - a): M+, M-, |V| of each combination
+            ci = self._strength_columns
+            out["M_max"][ci], out["M_min"][ci] = snap_round_off(h[0::3], -h[1::3])
+            out["V_abs"][ci] = h[2::3]
+        if self.deflection:
+            h, tag = self.v_pieces._block(a, b)
+            allowed = self._allowed[np.arange(tag.shape[0])[:, None], tag]
+            ci = self._deflection_columns
+            out["v_allowed"][ci] = allowed
+            np.multiply(h, allowed, out=h)
+            out["v_abs"][ci] = h
 
     def worst(self, lo: int = 0, hi: int | None = None) -> dict:
         """The effects' worst values over every combination at the weights ``[lo, hi)``: arrays
         (hi - lo,) ``M_max`` (largest), ``M_min`` (smallest), ``V_abs`` (largest), and the
         ``v_abs`` (times EI), ``v_allowed`` of the largest deflection ratio; NaN where no
-        combination gives them. Moments are snapped to zero per combination first, as
-        :meth:`effects` is in the screen."""
-        from ..beam.results import snap_round_off
-
+        combination gives them (moments snapped per combination first, as in :meth:`effects`)."""
         hi = self.n if hi is None else hi
-        out = {k: np.empty(max(hi - lo, 0)) for k in ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")}
-        cols = np.arange(_BLOCK)
-        for a in range(lo, hi, _BLOCK):  # blocks of weights: the (C, block) arrays stay in cache
+        out = {k: np.full(max(hi - lo, 0), np.nan) for k in _KEYS}
+        rows = np.arange(_BLOCK)
+        for a in range(lo, hi, _BLOCK):  # blocks of weights: the (block, C) arrays stay in cache
             b = min(hi, a + _BLOCK)
-            e = self.effects(a, b)
-            M_max, M_min = snap_round_off(e["M_max"], e["M_min"])
-            with np.errstate(invalid="ignore", divide="ignore"):
-                ratio = e["v_abs"] / e["v_allowed"]
-            j = np.argmax(np.where(np.isnan(ratio), -np.inf, ratio), axis=0)
+            e = {k: np.full((self.C, b - a), np.nan) for k in _KEYS}
+            self._fill(e, a, b)
             at = slice(a - lo, b - lo)
-            if self.C:
-                np.fmax.reduce(M_max, axis=0, out=out["M_max"][at])
-                np.fmin.reduce(M_min, axis=0, out=out["M_min"][at])
+            if self.strength:
+                np.fmax.reduce(e["M_max"], axis=0, out=out["M_max"][at])
+                np.fmin.reduce(e["M_min"], axis=0, out=out["M_min"][at])
                 np.fmax.reduce(e["V_abs"], axis=0, out=out["V_abs"][at])
-                out["v_abs"][at] = e["v_abs"][j, cols[: b - a]]
-                out["v_allowed"][at] = e["v_allowed"][j, cols[: b - a]]
-            else:
-                for v in out.values():
-                    v[at] = np.nan
+            if self.deflection:
+                with np.errstate(invalid="ignore", divide="ignore"):
+                    ratio = e["v_abs"] / e["v_allowed"]
+                j = np.argmax(np.where(np.isnan(ratio), -np.inf, ratio), axis=0)
+                out["v_abs"][at] = e["v_abs"][j, rows[: b - a]]
+                out["v_allowed"][at] = e["v_allowed"][j, rows[: b - a]]
         return out
+
+
+_KEYS = ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")
 
 
 def _peaks(resp):

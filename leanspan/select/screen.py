@@ -320,6 +320,20 @@ def screen_effects(model, cand: Candidates, self_weight_case=None, method: str =
     return s.finish(out, slice(None))
 
 
+def _distinct(values):
+    """``np.unique(values, return_inverse=True)`` and an order that sorts ``values``.
+
+    >>> [a.tolist() for a in _distinct(np.array([3.0, 1.0, 2.0]))]
+    [[1.0, 2.0, 3.0], [2, 0, 1], [1, 2, 0]]
+    """
+    order = np.argsort(values)
+    v = values[order]
+    new = np.r_[True, v[1:] != v[:-1]] if v.size else np.zeros(0, bool)
+    back = np.empty(v.size, np.int64)
+    back[order] = np.cumsum(new) - 1
+    return v[new], back, order
+
+
 class _Setup:
     """What every chunk of a screen shares: the beam's unit-case response (one stiffness without
     springs, else one per candidate), the candidates' distinct weights and, for the envelope
@@ -345,7 +359,7 @@ class _Setup:
             self.v_field, self.v_scale = resp.v, None
         # Without springs the forces depend on a candidate's weight alone and v scales with 1/EI, so
         # candidates of equal weight (one section in several steel grades ...) share one evaluation
-        weights, self.back = np.unique(self.mass_g, return_inverse=True) if fixed else (self.mass_g, None)
+        weights, self.back, self.order = _distinct(self.mass_g) if fixed else (self.mass_g, None, None)
         envelope = fixed and (method == "envelope" or (method == "auto" and weights.size >= _ENVELOPE_MIN))
         self.shared = fixed and (envelope or weights.size <= _SHARE * K)
         self.weights = weights if self.shared else self.mass_g
@@ -358,10 +372,11 @@ class _Setup:
         distinct weights are then one contiguous range of the table's)."""
         idx = self.back[rows]
         lo, hi = (int(idx.min()), int(idx.max()) + 1) if idx.size else (0, 0)
-        out = self.table.effects(lo, hi)  # (C, n')
-        out["M_max"], out["M_min"] = snap_round_off(out["M_max"], out["M_min"])
+        out = self.table.effects(lo, hi)  # (C, n'), moments snapped
         local = idx - lo
-        out = {k: np.take(a, local, axis=1).T for k, a in out.items()}  # (K', C)
+        if local.size != hi - lo or not np.array_equal(local, np.arange(local.size)):
+            out = {k: np.take(a, local, axis=1) for k, a in out.items()}  # (C, K')
+        out = {k: a.T for k, a in out.items()}  # (K', C) views
         out["v_abs"] *= self.v_scale[rows, None]
         return self.finish(out, rows)
 
@@ -401,9 +416,7 @@ def screen_chunks(model, cand: Candidates, self_weight_case=None, first_pass: bo
         def one(rows):
             return rows, screen(model, cand.take(rows), self_weight_case, first_pass, nan_fails)
     else:
-        order = np.argsort(s.back, kind="stable")
-        # each chunk a range of weights; its rows in table order (the column gathers run forwards)
-        parts = [np.sort(order[a:a + chunk]) for a in range(0, K, chunk)]
+        parts = [s.order[a:a + chunk] for a in range(0, K, chunk)]  # each chunk a range of weights
 
         def one(rows):
             return rows, evaluate(s.effects(rows), cand.take(rows), first_pass, nan_fails)
