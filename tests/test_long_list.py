@@ -127,14 +127,13 @@ def _job(text, tmp=None, dead=3, support="", limits='[limits]\nstress_factor = 0
 def _write_list(folder, n, seed):
     """An invented supplier list: timber rectangles and steel I sections of random sizes."""
     rng = np.random.default_rng(seed)
-    rows = ["# invented supplier list for a test", "family,material,d,b,tw,tf,r"]
-    for i in range(n):
-        if i % 2:
-            rows.append(f"rectangle,C24,{rng.integers(100, 400)},{rng.integers(40, 200)},,,")
-        else:
-            d = int(rng.integers(120, 400))
-            tw = round(d / 40 + rng.uniform(0, 3), 1)
-            rows.append(f"ibeam,S355,{d},{int(d * rng.uniform(0.4, 0.6))},{tw},{round(tw * 1.5, 1)},{round(tw * 2, 1)}")
+    d = rng.integers(120, 400, n)
+    b = np.where(np.arange(n) % 2, rng.integers(40, 200, n), (d * rng.uniform(0.4, 0.6, n)).astype(int))
+    tw = np.round(d / 40 + rng.uniform(0, 3, n), 1)
+    timber = [f"rectangle,C24,{x},{y},,," for x, y in zip(d[1::2], b[1::2])]
+    steel = [f"ibeam,S355,{x},{y},{t},{round(t * 1.5, 1)},{round(t * 2, 1)}"
+             for x, y, t in zip(d[0::2], b[0::2], tw[0::2])]
+    rows = ["# invented supplier list for a test", "family,material,d,b,tw,tf,r"] + timber + steel
     (Path(folder) / "list.csv").write_text("\n".join(rows) + "\n", encoding="utf-8")
 
 

@@ -334,6 +334,9 @@ def _distinct(values):
     return v[new], back, order
 
 
+_KEYS = ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")
+
+
 class _Setup:
     """What every chunk of a screen shares: the beam's unit-case response (one stiffness without
     springs, else one per candidate), the candidates' distinct weights and, for the envelope
@@ -420,14 +423,20 @@ def screen_chunks(model, cand: Candidates, self_weight_case=None, first_pass: bo
 
         def one(rows):
             return rows, evaluate(s.effects(rows), cand.take(rows), first_pass, nan_fails)
+    yield from _threaded(one, parts, workers)
+
+
+def _threaded(fn, items, workers=None):
+    """``map(fn, items)`` on ``workers`` threads (default: up to two, as the machine allows; numpy's
+    array loops run outside Python's lock), results in order."""
     workers = min(2, os.cpu_count() or 1) if workers is None else workers
-    if workers <= 1 or len(parts) <= 1:
-        yield from map(one, parts)
+    if workers <= 1 or len(items) <= 1:
+        yield from map(fn, items)
         return
     from concurrent.futures import ThreadPoolExecutor
 
     with ThreadPoolExecutor(workers) as pool:
-        yield from pool.map(one, parts)
+        yield from pool.map(fn, items)
 
 
 def screen_verdicts(model, cand: Candidates, self_weight_case=None, chunk: int = CHUNK):
@@ -441,7 +450,8 @@ def screen_verdicts(model, cand: Candidates, self_weight_case=None, chunk: int =
     from the peak envelopes (:meth:`~leanspan.select.envelope.EnvelopeTable.worst`) and the checks
     run once on them: no (K, C) array is formed. The utilisations equal the full screen's (a
     deflection ratio may differ in its last bit where two combinations tie). Otherwise
-    :func:`screen_chunks`.
+    :func:`screen_chunks`. Either way parts of the work run on two threads where the machine has
+    two cores.
     """
     checks = [c for c in active_checks(cand.limits) if c.reports_only is None or not c.reports_only(model)]
     sprung = any(s.type == "spring" for s in model.supports)
@@ -449,17 +459,21 @@ def screen_verdicts(model, cand: Candidates, self_weight_case=None, chunk: int =
     if not sprung and all(c.peaks_suffice is not None and c.peaks_suffice(cand.limits) for c in checks):
         s = _Setup(model, cand, self_weight_case)
     if s is not None and s.table is not None:
-        w = s.table.worst()
-        peak = {k: v[s.back][:, None] for k, v in w.items()}
+        n = s.table.n
+        halves = [(0, n // 2), (n // 2, n)]  # two ranges of weights, one per thread
+        worst_parts = list(_threaded(lambda r: s.table.worst(*r), halves))
+        peak = {k: np.concatenate([w[k] for w in worst_parts])[s.back][:, None] for k in _KEYS}
         peak["v_abs"] *= s.v_scale[:, None]
         eff = Effects(**peak, combinations=(), EI=np.asarray(cand.EI, float),
                       mass_per_length=np.asarray(cand.mass_per_length, float), model=model, limits=cand.limits)
-        res = evaluate(eff, cand, first_pass=True)
-        some = frozenset(n for n, u in res.utilisation.items() if not np.isnan(u).all())
-        return (*_verdicts(res), some)
+        parts = [np.arange(a, min(cand.size, a + 8 * chunk)) for a in range(0, cand.size, 8 * chunk)]
+        results = _threaded(lambda rows: (rows, evaluate(eff.take(rows), cand.take(rows), first_pass=True)),
+                            parts)
+    else:
+        results = screen_chunks(model, cand, self_weight_case, first_pass=True, chunk=chunk)
     passes, worst = np.zeros(cand.size, bool), np.full(cand.size, np.nan)
     all_nan, some = {}, set()  # per check: the chunks in which every row is NaN; checks with a value
-    for rows, res in screen_chunks(model, cand, self_weight_case, first_pass=True, chunk=chunk):
+    for rows, res in results:
         passes[rows], worst[rows] = _verdicts(res)
         for name, u in res.utilisation.items():  # a small set
             if np.isnan(u).all():
