@@ -210,6 +210,10 @@ def _sheet_rows(chosen):
     return rows
 
 
+# No peaks_suffice: the demand reads the support reactions, which the worst M, V and v do not
+# give. Each reaction is a line in the member's weight, so the worst one per support is an upper
+# envelope of lines (left for later); until then a long list with a bearing_length is screened in
+# chunks (screen.screen_chunks).
 BEARING = register(Check(
     name="bearing", label="bearing",
     columns=("kind", "family", "width", "depth", "tw", "tf", "tf_bot", "r", "t", "fc_90", "strength_bending"),

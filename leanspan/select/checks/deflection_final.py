@@ -186,6 +186,8 @@ def _sheet_rows(chosen):
               "utilisation": "chosen.utilisation.deflection_final"})]
 
 
+# No peaks_suffice: the final deflection adds creep per load case (kdef x psi2 of each case), read
+# from the fields, not from the worst deflection of one combination.
 DEFLECTION_FINAL = register(Check(
     name="deflection_final", label="final defl.",
     columns=("kind", "depth", "rho_k", "strength_bending", "strength_shear"),  # also what [design] strengths read

@@ -288,6 +288,9 @@ def _allowable(props, limits, eff):
     return allowable_stress(props, limits, eff, "bending")
 
 
+# No peaks_suffice: Mcr (through C1) depends on the shape of each segment's moment diagram under
+# each combination, not only on the peak moment, so the worst effects over the combinations do not
+# decide it; a long list with restraints given is screened in chunks (screen.screen_chunks).
 LATERAL_TORSIONAL = register(Check(
     name="lateral_torsional", label="buckling",
     columns=("E", "E_05", "G", "Iy", "Iz", "J", "Cw", "ys", "yc", "wagner", "depth", "width", "theta", "Sz_top",

@@ -114,6 +114,8 @@ def _sheet_rows(chosen):
     return out
 
 
+# No peaks_suffice: the frequency and the point deflection come from the member's own stiffness
+# and mass, not from the combinations' effects.
 VIBRATION = register(Check(
     name="vibration", label="vibration", columns=(), demand=_demand, allowable=_allowable,
     kind="frequency", demand_key="f1",
