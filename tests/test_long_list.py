@@ -137,7 +137,8 @@ def _write_list(folder, n, seed):
     (Path(folder) / "list.csv").write_text("\n".join(rows) + "\n", encoding="utf-8")
 
 
-@pytest.mark.parametrize("variant", ["plain", "nothing passes", "spring", "design", "objective depth"])
+@pytest.mark.parametrize("variant", ["plain", "nothing passes", "spring", "design", "objective depth",
+                                     "vibration", "restraints"])
 def test_long_list_selection_equals_the_full_table(tmp_path, monkeypatch, variant):
     # reference: run_selection on the full table given directly (no long-list path: every row
     # screened in full at once and ranked)
@@ -149,6 +150,10 @@ def test_long_list_selection_equals_the_full_table(tmp_path, monkeypatch, varian
     if variant == "spring":
         kw["support"] = ('[[support]]\nat = "0 m"\ntype = "pin"\n[[support]]\nat = "4.5 m"\ntype = "spring"\n'
                          'k = "3000 kN/m"\n[[support]]\nat = "10 m"\ntype = "roller"\n')
+    if variant == "vibration":  # a check that reads the member alone (the fast first pass still applies)
+        kw["limits"] = '[limits]\nstress_factor = 0.6\nmin_frequency = "9 Hz"\n'
+    if variant == "restraints":  # lateral-torsional buckling: the first pass in chunks
+        kw["limits"] = '[limits]\nstress_factor = 0.6\nlateral_restraint = "supports"\nlateral_restraint_at = ["2.5 m", "7 m"]\n'
     if variant == "design":
         kw["limits"] = '[design]\nservice_class = 1\nduration = { dead = "permanent", imposed = "medium" }\npsi2 = { imposed = 0.3 }\n'
     text = _BEAM.replace('self_weight = "dead"\n', 'self_weight = "dead"\nobjective = "depth"\n') \
