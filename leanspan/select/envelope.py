@@ -299,24 +299,27 @@ class EnvelopeTable:
         (hi - lo,) ``M_max`` (largest), ``M_min`` (smallest), ``V_abs`` (largest), and the
         ``v_abs`` (times EI), ``v_allowed`` of the largest deflection ratio; NaN where no
         combination gives them (moments snapped per combination first, as in :meth:`effects`)."""
+        from ..beam.results import snap_round_off
+
         hi = self.n if hi is None else hi
         out = {k: np.full(max(hi - lo, 0), np.nan) for k in _KEYS}
-        rows = np.arange(_BLOCK)
-        for a in range(lo, hi, _BLOCK):  # blocks of weights: the (block, C) arrays stay in cache
+        for a in range(lo, hi, _BLOCK):  # blocks of weights: the pieces' values stay in cache
             b = min(hi, a + _BLOCK)
-            e = {k: np.full((self.C, b - a), np.nan) for k in _KEYS}
-            self._fill(e, a, b)
             at = slice(a - lo, b - lo)
             if self.strength:
-                np.fmax.reduce(e["M_max"], axis=0, out=out["M_max"][at])
-                np.fmin.reduce(e["M_min"], axis=0, out=out["M_min"][at])
-                np.fmax.reduce(e["V_abs"], axis=0, out=out["V_abs"][at])
+                h, _ = self.m_pieces._block(a, b, tags=False)  # (J, b - a): M+, M-, |V| per combination
+                M_max, M_min = snap_round_off(h[0::3], -h[1::3])
+                np.fmax.reduce(M_max, axis=0, out=out["M_max"][at])
+                np.fmin.reduce(M_min, axis=0, out=out["M_min"][at])
+                np.fmax.reduce(h[2::3], axis=0, out=out["V_abs"][at])
             if self.deflection:
-                with np.errstate(invalid="ignore", divide="ignore"):
-                    ratio = e["v_abs"] / e["v_allowed"]
-                j = np.argmax(np.where(np.isnan(ratio), -np.inf, ratio), axis=0)
-                out["v_abs"][at] = e["v_abs"][j, rows[: b - a]]
-                out["v_allowed"][at] = e["v_allowed"][j, rows[: b - a]]
+                # h is each combination's worst-span |v| / allowed times EI: the same EI for all
+                h, tag = self.v_pieces._block(a, b)
+                j = np.argmax(np.where(np.isnan(h), -np.inf, h), axis=0)
+                cols = np.arange(b - a)
+                allowed = self._allowed[j, tag[j, cols]]
+                out["v_allowed"][at] = allowed
+                out["v_abs"][at] = h[j, cols] * allowed
         return out
 
 

@@ -38,7 +38,7 @@ from ...errors import SelectionError
 from ..design import allowable_stress, combination_free
 from .bending import BENDING
 from .registry import Check, TextRule, register
-from .section_class import METALS, classify, effective_moduli, epsilon, memoised
+from .section_class import METALS, classify, effective_moduli, elements, epsilon, memoised
 
 __all__ = ["LOCAL_BUCKLING", "CHOICES", "slender_choice"]
 
@@ -70,8 +70,9 @@ def _moduli(props, limits):
     choice = slender_choice(limits)
     gross = np.minimum(np.asarray(props["Sz_top"], float), np.asarray(props["Sz_bot"], float))
     out = []
+    parts = (elements(props), np.asarray(props["kind"]).astype(str), epsilon(props))  # for both signs
     for sign in (1.0, -1.0):
-        cls = classify(props, sign)
+        cls = classify(props, sign, parts)
         if choice == "effective":
             S = effective_moduli(props, sign)[0]
         else:

@@ -274,11 +274,13 @@ class Classes:
         return _NAMES.get(str(self.family[k]), {}).get(j, SLOTS[j])
 
 
-def classify(props, sign: float = 1.0) -> Classes:
-    """The section class of every candidate for sagging (``sign`` +1, top compressed) or hogging (-1)."""
-    el = elements(props)
-    kind = np.asarray(props["kind"]).astype(str)
-    eps = epsilon(props)
+def classify(props, sign: float = 1.0, parts=None) -> Classes:
+    """The section class of every candidate for sagging (``sign`` +1, top compressed) or hogging (-1).
+
+    ``parts``: ``(elements(props), kind, epsilon(props))`` when already worked out (they do not
+    depend on the sign)."""
+    el, kind, eps = parts if parts is not None else (elements(props), np.asarray(props["kind"]).astype(str),
+                                                     epsilon(props))
     comp, psi, tip, _ = _stress(el, np.asarray(props["yc"], float), sign)
     ratio, l1, l2, l3, _ = class_limits(el, kind, eps, psi, tip)
     with np.errstate(invalid="ignore"):
