@@ -39,7 +39,13 @@ def best_rows(first, second, idx, n):
 def kept_positions(passes, first, second, worst, threshold, top_failures=3):
     """Positions the ranked table can show: the best KEEP passing, the heaviest ``top_failures``
     failing ones below ``threshold`` (the winner's objective value; ties kept), and with nothing
-    passing anywhere the KEEP closest (smallest largest utilisation)."""
+    passing anywhere the KEEP closest (smallest largest utilisation).
+
+    >>> passes = np.array([True, False, True, False, False])
+    >>> mass = np.array([30.0, 12.0, 25.0, 20.0, 40.0])
+    >>> kept_positions(passes, mass, np.zeros(5), np.array([0.9, 1.4, 0.8, 1.1, 1.2]), 25.0).tolist()
+    [0, 1, 2, 3]
+    """
     p = np.flatnonzero(passes)
     f = np.flatnonzero(~passes)
     keep = [best_rows(first, second, p, KEEP)]
