@@ -586,6 +586,35 @@ class FieldSampler:
         out = self._combine(self.resp.reactions[..., 0])
         return np.broadcast_to(out, (self.mass_g.size,) + out.shape[1:])
 
+    def worst_reactions(self, combos):
+        """The largest upward force of the concrete combinations ``combos`` (indices) at every support
+        and the position in ``combos`` of the combination giving it, each (K, S); where no force is
+        upward, the first combination's (as an argmax of max(R, 0) would give). None with springs.
+
+        Each reaction is a line in the candidate's weight, ``R = a + t b`` (t: the factored weight per
+        length), so the largest is the upper envelope of ``len(combos)`` lines per support: each
+        candidate looks up its line among the envelope's breakpoints, O(K log C) not O(K C).
+        """
+        r = self.resp.reactions[..., 0]
+        if r.shape[0] != 1 or self.rows is not None:
+            return None
+        sub = self.only(combos)
+        F, _ = sub._weights()  # (Cc, U): self-weight factor zeroed
+        sw = self.resp.self_weight_index
+        a = np.einsum("cu,u...->c...", F, r[0])  # (Cc, S): the other loads' (as _combine sums them)
+        f_sw = self.F[np.asarray(combos, int), sw] if sw is not None else np.zeros(len(combos))
+        b = r[0, sw] if sw is not None else np.zeros(a.shape[1])  # per unit factored weight (S,)
+        K, S = self.mass_g.size, a.shape[1]
+        R, j = np.empty((K, S)), np.empty((K, S), int)
+        for s in range(S):  # a small set
+            lines, breaks = _upper_lines(a[:, s], f_sw * b[s])
+            pick = lines[np.searchsorted(breaks, self.mass_g, side="right")]
+            R[:, s] = a[pick, s] + self.mass_g * f_sw[pick] * b[s]
+            first = a[0, s] + self.mass_g * f_sw[0] * b[s]
+            up = R[:, s] > 0
+            R[:, s], j[:, s] = np.where(up, R[:, s], first), np.where(up, pick, 0)
+        return R, j
+
     def _combined(self, name, elems):
         """Coefficients (K, C_concrete, len(elems), n) of the combined field on elements ``elems``:
         sum_u F_cu field_u + t_kc field_self-weight (t = the candidate's factored weight), for
@@ -630,6 +659,33 @@ class FieldSampler:
         field, scale = self._field(name)
         # the unit cases at the points first (1 or K, U, P), then combined: O(K C P), not O(K C P n)
         return self._scaled(self._combine(_horner(field[:, :, e, :], x - r.x_nodes[e])), scale)  # (K, C, P)
+
+
+def _upper_lines(a, b):
+    """The upper envelope of the lines ``a[i] + m b[i]`` over m >= 0: line indices (P,) and the
+    P - 1 values of m where each next one takes over (sorted); ties go to the lowest index.
+
+    >>> lines, breaks = _upper_lines(np.array([5.0, 8.0, 0.0]), np.array([1.0, -1.0, 4.0]))
+    >>> lines.tolist(), breaks.tolist()
+    ([1, 0, 2], [1.5, 1.6666666666666667])
+    """
+    # at m = 0 the largest a leads (lowest index among equals, then the steepest)
+    order = np.lexsort((np.arange(a.size), -b, -a))
+    lines, breaks, m = [int(order[0])], [], 0.0
+    while True:  # at most len(a) steps: each takes over from the current line at a larger m
+        i = lines[-1]
+        steeper = np.flatnonzero(b > b[i])
+        if steeper.size == 0:
+            break
+        cross = (a[i] - a[steeper]) / (b[steeper] - b[i])  # where each steeper line reaches line i
+        cross = np.maximum(cross, m)
+        first = cross.min()
+        cand = steeper[cross == first]
+        nxt = int(cand[np.lexsort((cand, -b[cand]))[0]])  # the steepest of those crossing first
+        lines.append(nxt)
+        breaks.append(float(first))
+        m = first
+    return np.array(lines, int), np.array(breaks, float)
 
 
 def screen_loop(model, cand: Candidates, self_weight_case=None) -> Screen:
@@ -686,3 +742,6 @@ class _StackedSampler:
 
     def reactions(self):
         return np.concatenate([s.reactions() for s in self.samplers], axis=0)
+
+    def worst_reactions(self, combos):
+        return None  # the reference takes every combination's reactions

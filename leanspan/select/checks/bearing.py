@@ -116,12 +116,29 @@ def bearing_lengths(eff, props):
     strength = sampler.strength
     if not (timber | web).any() or strength.size == 0:  # nothing this check covers
         return nan, nan, nan, np.zeros((K, S), int)
-    R = sampler.only(strength).reactions()  # (K, Cs, S): the strength combinations alone
     f = _strength(eff, props, resp.combos)[:, strength]  # (K, Cs)
-    with np.errstate(divide="ignore", invalid="ignore"):
-        ratio = np.maximum(R, 0.0) / f[:, :, None]
-    j = np.argmax(np.where(np.isnan(ratio), -np.inf, ratio), axis=1)  # (K, S)
-    T = np.take_along_axis(ratio, j[:, None, :], axis=1)[:, 0, :]  # reaction / strength (m^2)
+    # one strength for all combinations (no [design]): the largest upward reaction governs, the
+    # upper envelope of lines in the weight (FieldSampler.worst_reactions); else every combination
+    worst = sampler.worst_reactions(strength) if _same_over_combinations(f) and not np.any(f <= 0) else None
+    if worst is not None:
+        reaction, j = worst
+        f_used = f[:, 0]
+        with np.errstate(divide="ignore", invalid="ignore"):
+            T = np.maximum(reaction, 0.0) / f_used[:, None]
+        # an argmax of NaN ratios (no strength) takes the first combination
+        bad = ~(np.isfinite(f_used) & (f_used > 0))
+        if bad.any():
+            first = sampler.only(strength[:1]).reactions()[:, 0, :]
+            reaction[bad], j[bad] = first[bad], 0
+        f_used = np.broadcast_to(f_used[:, None], j.shape).copy()
+    else:
+        R = sampler.only(strength).reactions()  # (K, Cs, S): the strength combinations alone
+        with np.errstate(divide="ignore", invalid="ignore"):
+            ratio = np.maximum(R, 0.0) / f[:, :, None]
+        j = np.argmax(np.where(np.isnan(ratio), -np.inf, ratio), axis=1)  # (K, S)
+        T = np.take_along_axis(ratio, j[:, None, :], axis=1)[:, 0, :]  # reaction / strength (m^2)
+        reaction = np.take_along_axis(R, j[:, None, :], axis=1)[:, 0, :]
+        f_used = np.take_along_axis(f, j, axis=1)
     L = eff.model.length
     at = np.array([s.at for s in resp.supports])
     req_t = required_timber(T, col["width"][:, None], 1.0, at, L - at)
@@ -129,9 +146,13 @@ def bearing_lengths(eff, props):
     near = np.minimum(at, L - at)[None, :] <= col["depth"][:, None]  # (K, S)
     req_w = required_web(T, tw[:, None], k[:, None], 1.0, near)
     req = np.where(timber[:, None], req_t, np.where(web[:, None], req_w, np.nan))
-    reaction = np.take_along_axis(R, j[:, None, :], axis=1)[:, 0, :]
-    f_used = np.take_along_axis(f, j, axis=1)
     return req, reaction, f_used, strength[j]
+
+
+def _same_over_combinations(f) -> bool:
+    """Whether every candidate's strength (K, C) is one value for all combinations (NaN alike)."""
+    same = (f == f[:, :1]) | (np.isnan(f) & np.isnan(f[:, :1]))
+    return bool(f.shape[1] and same.all())
 
 
 def _demand(eff, props):
@@ -211,9 +232,8 @@ def _sheet_rows(chosen):
 
 
 # No peaks_suffice: the demand reads the support reactions, which the worst M, V and v do not
-# give. Each reaction is a line in the member's weight, so the worst one per support is an upper
-# envelope of lines (left for later); until then a long list with a bearing_length is screened in
-# chunks (screen.screen_chunks).
+# give; a long list with a bearing_length is screened in chunks (screen.screen_chunks), each
+# candidate's worst reaction per support found on the upper envelope of lines in its weight.
 BEARING = register(Check(
     name="bearing", label="bearing",
     columns=("kind", "family", "width", "depth", "tw", "tf", "tf_bot", "r", "t", "fc_90", "strength_bending"),
