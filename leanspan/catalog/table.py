@@ -42,8 +42,8 @@ from ..errors import CatalogError, LeanspanError
 from ..fileio import protect_inputs, read_text
 from ..sections.families import FAMILIES
 from ..sections.properties import KEYS, STABILITY_KEYS, family_properties, family_stability
-from .cache import (USER_FILES_KEPT, USER_MIN_ROWS, cache_dir, cache_enabled, load_columns, save_columns,
-                    source_hash, user_cache_file, user_key)
+from .cache import (USER_FILES_KEPT, USER_MIN_ROWS, cache_dir, cache_enabled, load_columns, pack_text,
+                    save_columns, source_hash, unpack_text, user_cache_file, user_key)
 from .csvfile import column_factor
 from .materials import OPTIONAL as MATERIAL_OPTIONAL
 from .materials import get_material, materials_table
@@ -60,33 +60,46 @@ BUILT_UP_DIM_KEYS = ("timbers", "timber_width", "timber_depth", "plate_thickness
 MATERIAL_COLUMNS = ("kind", "E", "G", "density", "strength_bending", "strength_shear",
                     "mass_per_length", "strength_thickness") + MATERIAL_OPTIONAL  # optional: NaN where not given
 _TEXT_COLUMNS = ("name", "family", "series", "material")
+# the numeric columns of a block: dimensions, section properties, buckling
+_NUMBER_COLUMNS = DIM_KEYS + tuple(KEYS) + STABILITY_KEYS
 # every column a block builds: what the disk cache must hold to be used
-_COLUMNS = _TEXT_COLUMNS + DIM_KEYS + tuple(KEYS) + STABILITY_KEYS
+_COLUMNS = _TEXT_COLUMNS + _NUMBER_COLUMNS
 # a supplier list's rows: the same plus each row's file line, in the table's column order
 _USER_COLUMNS = _TEXT_COLUMNS + ("row",) + _COLUMNS[len(_TEXT_COLUMNS):]
 # what a supplier list's cache file holds besides its columns: its key and its warnings
 _USER_EXTRA = ("_key", "_warnings")
+# and each text column's distinct values (the column itself holds their codes: see cache.pack_text)
+_USER_TEXT = tuple(f"_text_{k}" for k in _TEXT_COLUMNS)
 
 
 def _block(series: str, family: str, dims: dict, names: list, materials, stability: bool = True) -> dict:
     """Columns (numpy arrays) for N rows of one family: text, dims, section properties (the
     buckling columns NaN unless ``stability``)."""
-    fam = FAMILIES[family]
-    dims = fam.complete(dims)
-    props = family_properties(family, dims)
+    numbers = _section_columns(family, dims, stability)
     n = len(names)
     cols = {"name": np.array(names, dtype=str), "family": np.full(n, family),
             "series": np.full(n, series),
             "material": np.array(materials if not isinstance(materials, str) else [materials] * n, dtype=str)}
-    for k in DIM_KEYS:
-        cols[k] = dims[k] if k in dims else np.full(n, np.nan)
+    for k in _NUMBER_COLUMNS:
+        cols[k] = numbers[k] if k in numbers else np.full(n, np.nan)
+    return cols
+
+
+def _section_columns(family: str, dims: dict, stability: bool = True) -> dict:
+    """The dimension (those of the family), section-property and buckling columns of N rows of
+    one family (the buckling columns NaN unless ``stability``)."""
+    fam = FAMILIES[family]
+    dims = fam.complete(dims)
+    props = family_properties(family, dims, wagner=stability)
+    cols = {k: dims[k] for k in DIM_KEYS if k in dims}
     for k in KEYS:
         cols[k] = np.asarray(props[k], float)
     try:
         if not stability:
             raise LeanspanError("not asked for")
-        stab = family_stability(family, dims, cols["yc"], cols["zc"])
+        stab = family_stability(family, dims, cols["yc"], cols["zc"], props["wagner"])
     except LeanspanError:  # a closed form that does not fit these walls: buckling checks refuse the row
+        n = len(cols["A"])
         stab = {k: np.full(n, np.nan) for k in STABILITY_KEYS}
     for k in STABILITY_KEYS:
         cols[k] = np.asarray(stab[k], float)
@@ -165,27 +178,41 @@ def _user_frame(path, mats):
 
 
 def _user_columns(path, text, mats):
-    """Read and compute a supplier list: its columns (rows in file order) and its warnings."""
+    """Read and compute a supplier list: its columns (rows in file order) and its warnings.
+
+    Each family's rows are computed at once and written straight to their places in file order."""
     cat = read_user_catalog(path, mats, text=text)
-    blocks, lines = [], []
-    for fam, b in cat.blocks.items():  # one vectorised call per family present
-        blocks.append(_block("user", fam, b.dims, b.names, b.materials))
-        lines.append(b.lines)
-    if not blocks:
+    if not cat.blocks:
         raise CatalogError(f"{path}: no catalogue rows")
-    built = _concat(blocks)
-    rows = np.concatenate(lines)
-    order = np.argsort(rows, kind="stable")
-    cols = {k: rows[order] if k == "row" else built[k][order] for k in _USER_COLUMNS}
+    lines = np.concatenate([b.lines for b in cat.blocks.values()])
+    order = np.argsort(lines, kind="stable")
+    place = np.empty_like(order)
+    place[order] = np.arange(order.size)  # each block row's place in file order
+    n = order.size
+    cols = {"name": np.empty(n, object), "family": np.empty(n, object), "series": np.full(n, "user", object),
+            "material": np.empty(n, object), "row": lines[order]}
+    for k in _NUMBER_COLUMNS:  # a dimension a family does not use stays NaN; every row has the rest
+        cols[k] = np.full(n, np.nan) if k in DIM_KEYS else np.empty(n)
+    start = 0
+    for fam, b in cat.blocks.items():  # one vectorised call per family present
+        rows = place[start:start + b.lines.size]
+        start += b.lines.size
+        for k, v in _section_columns(fam, b.dims).items():
+            cols[k][rows] = v
+        cols["name"][rows], cols["family"][rows], cols["material"][rows] = b.names, fam, b.materials
     return cols, cat.warnings + _compare_tabulated(cols, cat, mats)
 
 
 def _load_user_cache(file, key):
     """The columns and warnings (without the file name in front) of a supplier list's cache
     file; None when missing, damaged or not this key's."""
-    cols = load_columns(file, _USER_COLUMNS, _USER_EXTRA)
+    cols = load_columns(file, _USER_COLUMNS, _USER_EXTRA + _USER_TEXT)
     if cols is None or cols.pop("_key").tolist() != [key]:
         return None
+    for k, blob in zip(_TEXT_COLUMNS, _USER_TEXT):
+        cols[k] = unpack_text(cols[k], cols.pop(blob))
+        if cols[k] is None:
+            return None
     return cols, cols.pop("_warnings").tolist()
 
 
@@ -194,6 +221,12 @@ def _save_user_cache(file, key, cols, warnings, path) -> None:
     if not all(w.startswith(prefix) for w in warnings):  # a note that cannot be moved to another path
         return
     extra = {"_key": np.array([key]), "_warnings": np.array([w[len(prefix):] for w in warnings], dtype=str)}
+    cols = dict(cols)
+    for k, blob in zip(_TEXT_COLUMNS, _USER_TEXT):  # text as codes and distinct values
+        packed = pack_text(cols[k])
+        if packed is None:  # a name holding NUL: not cached
+            return
+        cols[k], extra[blob] = packed
     save_columns(file, {**cols, **extra}, compress=False, keep=USER_FILES_KEPT)
 
 
@@ -361,7 +394,7 @@ def _with_materials(df, material, mats):
     """Set the material columns (one material for all rows, or each row's own)."""
     import pandas as pd
 
-    df = df.copy()
+    df = df.copy(deep=False)  # (copy-on-write: the caller's frame keeps its columns)
     if material is not None:
         df["material"] = material
     inv, uniq = pd.factorize(df["material"])  # (by hashing: quicker than sorting the names)

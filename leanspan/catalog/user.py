@@ -154,8 +154,7 @@ def read_user_catalog(path, materials: dict | None = None, text: str | None = No
         block.tabulated = {k: np.asarray(v, float) for k, v in block.tabulated.items()}
         unnamed = np.flatnonzero(block.names == "")
         if unnamed.size:  # designations generated for the rows without a name only
-            generated = fam.designation({k: v[unnamed] for k, v in dims.items()})
-            block.names[unnamed] = np.array(generated, dtype=object)
+            block.names[unnamed] = fam.designations({k: v[unnamed] for k, v in dims.items()})
     return UserCatalog(path, blocks, warnings)
 
 

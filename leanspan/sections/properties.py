@@ -369,8 +369,11 @@ class _WidthProfile:
         return best
 
 
-def _properties_chunk(e: Edges) -> dict[str, np.ndarray]:
+def _properties_chunk(e: Edges, wagner: bool = False) -> dict[str, np.ndarray]:
     p = elastic_properties(e)
+    if wagner:  # on these edges, about the centroid: see family_stability
+        t = third_moments(e, (p["zc"], p["yc"]))
+        p["wagner"] = t["Syyy"] + t["Syzz"]
     A = p["A"]
     prev = e.prev
     succ = np.empty_like(prev)
@@ -389,7 +392,7 @@ def _properties_chunk(e: Edges) -> dict[str, np.ndarray]:
     return p
 
 
-def properties(e: Edges, private: bool = False, offset: int = 0) -> dict[str, np.ndarray]:
+def properties(e: Edges, private: bool = False, offset: int = 0, wagner: bool = False) -> dict[str, np.ndarray]:
     """All section properties (:data:`KEYS`) for every section in the batch ``e``.
 
     Parameters
@@ -400,6 +403,8 @@ def properties(e: Edges, private: bool = False, offset: int = 0) -> dict[str, np
         Also return helper arrays (bounds ``_ymin`` …, plastic axes ``_pna_y``, ``_pna_z``).
     offset : int
         Index of the first section, for error messages.
+    wagner : bool
+        Also return ``wagner`` (see :data:`STABILITY_KEYS`), from the same edges.
 
     Raises
     ------
@@ -411,7 +416,7 @@ def properties(e: Edges, private: bool = False, offset: int = 0) -> dict[str, np
     step = _chunk_size(e.z0.shape[1])
     for start in range(0, n, step):
         sub = e.rows(slice(start, start + step))
-        chunks.append(_properties_chunk(sub))
+        chunks.append(_properties_chunk(sub, wagner))
     out = {k: np.concatenate([c[k] for c in chunks]) for k in chunks[0]}
     bad = np.flatnonzero(~(out["A"] > 0))
     if bad.size:
@@ -422,7 +427,8 @@ def properties(e: Edges, private: bool = False, offset: int = 0) -> dict[str, np
     return out
 
 
-def family_properties(family: str, dims: dict, private: bool = False) -> dict[str, np.ndarray]:
+def family_properties(family: str, dims: dict, private: bool = False,
+                      wagner: bool = False) -> dict[str, np.ndarray]:
     """Properties of N sections of one parametric family, from arrays of dimensions (m).
 
     Parameters
@@ -431,13 +437,16 @@ def family_properties(family: str, dims: dict, private: bool = False) -> dict[st
         A name in :data:`leanspan.sections.families.FAMILIES` (``"ibeam"`` …).
     dims : dict of str to array_like
         Dimension arrays of equal length N (or scalars), SI metres.
+    private, wagner : bool
+        As in :func:`properties` (``wagner``: the Wagner integral too, which
+        :func:`family_stability` then takes instead of building the polygons again).
     """
     fam = get_family(family)
     dims = fam.complete(dims)
     fam.validate(dims)
     n = len(next(iter(dims.values())))
     # build the polygons chunk by chunk too: small arrays stay in cache
-    chunks = [properties(edges_from_family(fam, {k: v[s:s + _CHUNK] for k, v in dims.items()}), private, s)
+    chunks = [properties(edges_from_family(fam, {k: v[s:s + _CHUNK] for k, v in dims.items()}), private, s, wagner)
               for s in range(0, n, _CHUNK)]
     return {k: np.concatenate([c[k] for c in chunks]) for k in chunks[0]}
 
@@ -449,8 +458,9 @@ def family_properties(family: str, dims: dict, private: bool = False) -> dict[st
 STABILITY_KEYS = ("J", "Cw", "ys", "wagner")
 
 
-def family_stability(family: str, dims: dict, yc, zc) -> dict[str, np.ndarray]:
-    """:data:`STABILITY_KEYS` of N sections of one family (centroid ``yc``, ``zc`` given), SI.
+def family_stability(family: str, dims: dict, yc, zc, wagner=None) -> dict[str, np.ndarray]:
+    """:data:`STABILITY_KEYS` of N sections of one family (centroid ``yc``, ``zc`` given), SI;
+    ``wagner`` too if given (from ``family_properties(..., wagner=True)``, the same numbers).
 
     >>> import numpy as np
     >>> out = family_stability("rectangle", {"b": np.array([0.1]), "d": np.array([0.2])},
@@ -462,12 +472,19 @@ def family_stability(family: str, dims: dict, yc, zc) -> dict[str, np.ndarray]:
     dims = fam.complete(dims)
     tw = thin_walled_torsion(family, dims)
     n = len(next(iter(dims.values())))
+    if wagner is None:
+        wagner = _wagner(fam, dims, yc, zc, n)
+    return {"J": tw["J"], "Cw": tw["Cw"], "ys": shear_centre_height(family, dims), "wagner": wagner}
+
+
+def _wagner(fam, dims, yc, zc, n) -> np.ndarray:
+    """The Wagner integral of N sections about their centroids, polygons built chunk by chunk."""
     wagner = np.empty(n)
     for s in range(0, n, _CHUNK):  # chunks keep the polygons small
         e = edges_from_family(fam, {k: v[s:s + _CHUNK] for k, v in dims.items()})
         t = third_moments(e, (np.asarray(zc[s:s + _CHUNK], float), np.asarray(yc[s:s + _CHUNK], float)))
         wagner[s:s + _CHUNK] = t["Syyy"] + t["Syzz"]
-    return {"J": tw["J"], "Cw": tw["Cw"], "ys": shear_centre_height(family, dims), "wagner": wagner}
+    return wagner
 
 
 def edges_from_family(fam, dims) -> Edges:
