@@ -91,7 +91,7 @@ def user_cache_file(key: str) -> Path:
 
 def load_columns(path: Path, names, extra=()) -> dict | None:
     """The arrays of an ``.npz`` cache file, if it holds exactly the arrays ``names`` (1-D, of one
-    length) and ``extra`` (1-D, any length); None for a missing, partial, damaged or foreign file."""
+    length) and ``extra`` (any shape); None for a missing, partial, damaged or foreign file."""
     try:
         with np.load(path, allow_pickle=False) as z:
             if set(z.files) != set(names) | set(extra):
@@ -99,7 +99,7 @@ def load_columns(path: Path, names, extra=()) -> dict | None:
             cols = {k: z[k] for k in (*names, *extra)}
     except Exception:  # missing, partial or foreign file: rebuild
         return None
-    if len({cols[k].shape for k in names}) > 1 or any(a.ndim != 1 for a in cols.values()):
+    if len({cols[k].shape for k in names}) > 1 or any(cols[k].ndim != 1 for k in names):
         return None
     return cols
 

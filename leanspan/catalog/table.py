@@ -174,7 +174,11 @@ def _user_frame(path, mats):
         cols, warnings = _user_columns(path, text, mats)
         if key and len(cols["row"]) >= USER_MIN_ROWS:
             _save_user_cache(user_cache_file(key), key, cols, warnings, path)
-    return pd.DataFrame(cols), warnings
+    # the float columns are the rows of one block ("_numbers"): one frame block, no copy
+    df = pd.DataFrame(cols["_numbers"].T, columns=list(_NUMBER_COLUMNS), copy=False)
+    for k in reversed(_USER_COLUMNS[:-len(_NUMBER_COLUMNS)]):  # text and file lines in front
+        df.insert(0, k, cols[k])
+    return df, warnings
 
 
 def _user_columns(path, text, mats):
@@ -191,8 +195,10 @@ def _user_columns(path, text, mats):
     n = order.size
     cols = {"name": np.empty(n, object), "family": np.empty(n, object), "series": np.full(n, "user", object),
             "material": np.empty(n, object), "row": lines[order]}
-    for k in _NUMBER_COLUMNS:  # a dimension a family does not use stays NaN; every row has the rest
-        cols[k] = np.full(n, np.nan) if k in DIM_KEYS else np.empty(n)
+    # the float columns: rows of one block, "_numbers" (the frame takes it whole, without a copy)
+    cols["_numbers"] = numbers = np.empty((len(_NUMBER_COLUMNS), n))
+    numbers[:len(DIM_KEYS)] = np.nan  # a dimension a family does not use stays NaN; every row has the rest
+    cols.update(zip(_NUMBER_COLUMNS, numbers))
     start = 0
     for fam, b in cat.blocks.items():  # one vectorised call per family present
         rows = place[start:start + b.lines.size]
@@ -206,9 +212,13 @@ def _user_columns(path, text, mats):
 def _load_user_cache(file, key):
     """The columns and warnings (without the file name in front) of a supplier list's cache
     file; None when missing, damaged or not this key's."""
-    cols = load_columns(file, _USER_COLUMNS, _USER_EXTRA + _USER_TEXT)
+    cols = load_columns(file, _USER_COLUMNS[:-len(_NUMBER_COLUMNS)], _USER_EXTRA + _USER_TEXT + ("_numbers",))
     if cols is None or cols.pop("_key").tolist() != [key]:
         return None
+    numbers = cols["_numbers"]
+    if numbers.shape != (len(_NUMBER_COLUMNS), len(cols["row"])) or numbers.dtype != float:
+        return None
+    cols.update(zip(_NUMBER_COLUMNS, numbers))
     for k, blob in zip(_TEXT_COLUMNS, _USER_TEXT):
         cols[k] = unpack_text(cols[k], cols.pop(blob))
         if cols[k] is None:
@@ -220,8 +230,9 @@ def _save_user_cache(file, key, cols, warnings, path) -> None:
     prefix = f"{path}: "
     if not all(w.startswith(prefix) for w in warnings):  # a note that cannot be moved to another path
         return
-    extra = {"_key": np.array([key]), "_warnings": np.array([w[len(prefix):] for w in warnings], dtype=str)}
-    cols = dict(cols)
+    extra = {"_key": np.array([key]), "_warnings": np.array([w[len(prefix):] for w in warnings], dtype=str),
+             "_numbers": cols["_numbers"]}
+    cols = {k: cols[k] for k in _USER_COLUMNS[:-len(_NUMBER_COLUMNS)]}  # text and file lines
     for k, blob in zip(_TEXT_COLUMNS, _USER_TEXT):  # text as codes and distinct values
         packed = pack_text(cols[k])
         if packed is None:  # a name holding NUL: not cached
