@@ -48,7 +48,7 @@ from .csvfile import column_factor
 from .materials import OPTIONAL as MATERIAL_OPTIONAL
 from .materials import get_material, materials_table
 from .series import RENAMED, SERIES
-from .thickness import beyond_table, governing_thickness, strength_factors, thickness_steps
+from .thickness import beyond_table, governing_thickness, graded, strength_factors
 from .user import TABULATED, _factorize, read_user_catalog
 
 __all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "family_rows", "dims_of", "row_dims", "cache_dir",
@@ -422,8 +422,8 @@ def _step_strengths(df) -> None:
     """Scale the strengths of graded metals by their yield step at the governing thickness (the
     thickest element, :mod:`.thickness`); ``strength_thickness`` is that thickness (NaN: no steps)."""
     t = governing_thickness(df["family"].to_numpy(), {k: df[k].to_numpy(float) for k in DIM_KEYS})
-    names = df["material"].to_numpy().astype(str)
-    stepped = np.isin(names, list(thickness_steps()))
+    names = df["material"].to_numpy()
+    stepped = graded(names)
     factor = strength_factors(names, t)
     df["strength_bending"] = df["strength_bending"].to_numpy() * factor
     df["strength_shear"] = df["strength_shear"].to_numpy() * factor

@@ -257,7 +257,7 @@ def _factorize(values):
     """
     import pandas as pd
 
-    code, uniq = pd.factorize(np.asarray(values, dtype=object))
+    code, uniq = pd.factorize(np.asarray(values, dtype=object), use_na_sentinel=False)
     return uniq.tolist(), code.astype(np.intp, copy=False)
 
 
