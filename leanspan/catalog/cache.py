@@ -9,7 +9,9 @@ Two kinds of file live in the user cache folder (:func:`cache_dir`):
   :func:`source_hash`. A changed list, a changed material or changed code gives another key,
   so a file is never used for anything but the rows it was written from. The newest
   :data:`USER_FILES_KEPT` lists are kept; lists shorter than :data:`USER_MIN_ROWS` rows are
-  computed every time (quicker than reading a file).
+  computed every time (quicker than reading a file). It holds the float columns as one
+  (columns, rows) array ``_numbers``, the file lines ``row``, each text column as int32 codes
+  with its distinct values in ``_text_<column>`` (:func:`pack_text`), the key and the warnings.
 
 Every file is written atomically (:func:`leanspan.fileio.atomic_write`); a file that cannot
 be read, or holds other columns or lengths than expected, is ignored and written again. An
@@ -41,7 +43,7 @@ __all__ = ["cache_dir", "cache_enabled", "source_hash", "user_key", "user_cache_
 
 #: supplier lists with fewer rows are not cached (computing them is quicker than a disk read)
 USER_MIN_ROWS = 1000
-#: how many supplier lists' files are kept (the newest; each 100,000-row list takes about 40 MB)
+#: how many supplier lists' files are kept (the newest; each 100,000-row list takes about 31 MB)
 USER_FILES_KEPT = 8
 
 
