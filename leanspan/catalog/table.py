@@ -48,7 +48,7 @@ from .csvfile import column_factor
 from .materials import OPTIONAL as MATERIAL_OPTIONAL
 from .materials import get_material, materials_table
 from .series import RENAMED, SERIES
-from .thickness import beyond_table, governing_thickness, graded, strength_factors
+from .thickness import beyond_table, distinct, governing_thickness, graded, strength_factors
 from .user import TABULATED, _factorize, read_user_catalog
 
 __all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "family_rows", "dims_of", "row_dims", "cache_dir",
@@ -423,8 +423,9 @@ def _step_strengths(df) -> None:
     thickest element, :mod:`.thickness`); ``strength_thickness`` is that thickness (NaN: no steps)."""
     t = governing_thickness(df["family"].to_numpy(), {k: df[k].to_numpy(float) for k in DIM_KEYS})
     names = df["material"].to_numpy()
-    stepped = graded(names)
-    factor = strength_factors(names, t)
+    grades = distinct(names)  # (once for both)
+    stepped = graded(names, grades)
+    factor = strength_factors(names, t, grades)
     df["strength_bending"] = df["strength_bending"].to_numpy() * factor
     df["strength_shear"] = df["strength_shear"].to_numpy() * factor
     df["strength_thickness"] = np.where(stepped, t, np.nan)

@@ -34,7 +34,7 @@ import numpy as np
 from ..errors import CatalogError
 from .csvfile import column_factor, read_table, to_float
 
-__all__ = ["STEPS_FILE", "thickness_steps", "governing_thickness", "strength_factors", "beyond_table", "graded"]
+__all__ = ["STEPS_FILE", "thickness_steps", "governing_thickness", "strength_factors", "beyond_table", "graded", "distinct"]
 
 STEPS_FILE = "steel_thickness.csv"
 
@@ -63,7 +63,7 @@ def thickness_steps() -> dict:
     return steps
 
 
-def governing_thickness(family, dims: dict) -> np.ndarray:
+def governing_thickness(family, dims: dict, known=None) -> np.ndarray:
     """The thickest element of each row (m), from the family (N,) and dimension columns (N,) (NaN
     where a family does not use a key).
 
@@ -76,8 +76,10 @@ def governing_thickness(family, dims: dict) -> np.ndarray:
     ...         "d": np.array([0.6, 0.3, 0.2])}
     >>> [float(x) for x in governing_thickness(fam, dims)]
     [0.025, 0.01, 0.05]
+
+    ``known``: ``(names, codes)`` of ``family`` if already known (as :func:`distinct` gives).
     """
-    names, code = _distinct(family)
+    names, code = known or distinct(family)
     n = code.size
     get = lambda k: np.asarray(dims[k], float) if k in dims else np.full(n, np.nan)  # noqa: E731
     plates = np.fmax(get("tw"), np.fmax(get("tf"), np.fmax(get("tf_top"), get("tf_bot"))))
@@ -87,7 +89,7 @@ def governing_thickness(family, dims: dict) -> np.ndarray:
                      [plates, get("t"), np.fmin(get("b"), get("d")), get("d")], np.nan)
 
 
-def _distinct(values):
+def distinct(values):
     """The distinct names (str) of an array and each entry's index among them (hashing, no sort)."""
     import pandas as pd
 
@@ -95,15 +97,16 @@ def _distinct(values):
     return [str(x) for x in names], code
 
 
-def graded(materials) -> np.ndarray:
-    """True for the rows whose material has thickness steps."""
-    names, code = _distinct(materials)
+def graded(materials, known=None) -> np.ndarray:
+    """True for the rows whose material has thickness steps (``known``: see governing_thickness)."""
+    names, code = known or distinct(materials)
     return np.array([x in thickness_steps() for x in names], bool)[code] if names else np.zeros(code.size, bool)
 
 
-def strength_factors(materials, t) -> np.ndarray:
-    """``fy(t) / fy(first step)`` per row (1 for grades without steps), arrays (N,)."""
-    names, code = _distinct(materials)
+def strength_factors(materials, t, known=None) -> np.ndarray:
+    """``fy(t) / fy(first step)`` per row (1 for grades without steps), arrays (N,) (``known``: see
+    governing_thickness)."""
+    names, code = known or distinct(materials)
     t = np.asarray(t, float)
     out = np.ones(code.size)
     steps = thickness_steps()
@@ -119,7 +122,7 @@ def strength_factors(materials, t) -> np.ndarray:
 
 def beyond_table(materials, t) -> list:
     """Warnings for rows thicker than their grade's last step (they keep that step's fy)."""
-    names, code = _distinct(materials)
+    names, code = distinct(materials)
     t = np.asarray(t, float)
     out = []
     for grade, (t_max, _, src) in thickness_steps().items():
