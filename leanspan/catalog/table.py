@@ -64,10 +64,10 @@ _TEXT_COLUMNS = ("name", "family", "series", "material")
 _NUMBER_COLUMNS = DIM_KEYS + tuple(KEYS) + STABILITY_KEYS
 # every column a block builds: what the disk cache must hold to be used
 _COLUMNS = _TEXT_COLUMNS + _NUMBER_COLUMNS
-# a supplier list's rows: the same plus each row's file line, in the table's column order
-_USER_COLUMNS = _TEXT_COLUMNS + ("row",) + _COLUMNS[len(_TEXT_COLUMNS):]
-# what a supplier list's cache file holds besides its columns: its key and its warnings
-_USER_EXTRA = ("_key", "_warnings")
+# a supplier list's rows: the same plus each row's file line, in front of the float columns
+_USER_FRONT = _TEXT_COLUMNS + ("row",)
+# what a supplier list's cache file holds besides those: its key, its warnings, the float block
+_USER_EXTRA = ("_key", "_warnings", "_numbers")
 # and each text column's distinct values (the column itself holds their codes: see cache.pack_text)
 _USER_TEXT = tuple(f"_text_{k}" for k in _TEXT_COLUMNS)
 
@@ -176,7 +176,7 @@ def _user_frame(path, mats):
             _save_user_cache(user_cache_file(key), key, cols, warnings, path)
     # the float columns are the rows of one block ("_numbers"): one frame block, no copy
     df = pd.DataFrame(cols["_numbers"].T, columns=list(_NUMBER_COLUMNS), copy=False)
-    for k in reversed(_USER_COLUMNS[:-len(_NUMBER_COLUMNS)]):  # text and file lines in front
+    for k in reversed(_USER_FRONT):  # text and file lines in front
         df.insert(0, k, cols[k])
     return df, warnings
 
@@ -212,7 +212,7 @@ def _user_columns(path, text, mats):
 def _load_user_cache(file, key):
     """The columns and warnings (without the file name in front) of a supplier list's cache
     file; None when missing, damaged or not this key's."""
-    cols = load_columns(file, _USER_COLUMNS[:-len(_NUMBER_COLUMNS)], _USER_EXTRA + _USER_TEXT + ("_numbers",))
+    cols = load_columns(file, _USER_FRONT, _USER_EXTRA + _USER_TEXT)
     if cols is None or cols.pop("_key").tolist() != [key]:
         return None
     numbers = cols["_numbers"]
@@ -232,7 +232,7 @@ def _save_user_cache(file, key, cols, warnings, path) -> None:
         return
     extra = {"_key": np.array([key]), "_warnings": np.array([w[len(prefix):] for w in warnings], dtype=str),
              "_numbers": cols["_numbers"]}
-    cols = {k: cols[k] for k in _USER_COLUMNS[:-len(_NUMBER_COLUMNS)]}  # text and file lines
+    cols = {k: cols[k] for k in _USER_FRONT}
     for k, blob in zip(_TEXT_COLUMNS, _USER_TEXT):  # text as codes and distinct values
         packed = pack_text(cols[k])
         if packed is None:  # a name holding NUL: not cached
