@@ -34,7 +34,8 @@ import numpy as np
 from ..errors import CatalogError
 from .csvfile import column_factor, read_table, to_float
 
-__all__ = ["STEPS_FILE", "thickness_steps", "governing_thickness", "strength_factors", "beyond_table", "graded", "distinct"]
+__all__ = ["STEPS_FILE", "thickness_steps", "governing_thickness", "strength_factors", "beyond_table", "graded",
+           "distinct"]
 
 STEPS_FILE = "steel_thickness.csv"
 

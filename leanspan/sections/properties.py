@@ -144,10 +144,10 @@ def _snapped_levels(lev, extent):
 
     Returns ``(order, s, start, shared)``: the sort order (one for all sections (V,), or one
     per section (V, N)), the sorted levels, a (V, N) mask of the sorted vertices
-    that start a new level and whether that mask is the same in every section. Each run of levels with gaps up to the tolerance
-    takes the level of its lowest member (of its first, if round-off leaves it a
-    hair out of order), so an edge tilted by less than that becomes
-    exactly horizontal and every band is either empty or thicker than the tolerance.
+    that start a new level and whether that mask is the same in every section. Each run
+    of levels with gaps up to the tolerance takes the level of its lowest member (of its
+    first, if round-off leaves it a hair out of order), so an edge tilted by less than that
+    becomes exactly horizontal and every band is either empty or thicker than the tolerance.
 
     The sections of one family mostly share one order, so the first section's order is
     tried on all; a section keeps it if it sorts its levels up to disorder far below
