@@ -408,22 +408,22 @@ def _with_materials(df, material, mats):
     df = df.copy(deep=False)  # (copy-on-write: the caller's frame keeps its columns)
     if material is not None:
         df["material"] = material
-    inv, uniq = pd.factorize(df["material"])  # (by hashing: quicker than sorting the names)
+    names = df["material"].to_numpy()
+    grades = uniq, inv = distinct(names)  # (by hashing: quicker than sorting the names)
     rows = [mats[u] for u in uniq]
     df["kind"] = np.array([m.kind for m in rows], dtype=object)[inv] if rows else []
     for col in ("E", "G", "density", "strength_bending", "strength_shear") + MATERIAL_OPTIONAL:
         df[col] = np.array([getattr(m, col) for m in rows], float)[inv] if rows else []  # None -> NaN
     df["mass_per_length"] = df["A"].to_numpy() * df["density"].to_numpy()
-    _step_strengths(df)
+    _step_strengths(df, names, grades)
     return df
 
 
-def _step_strengths(df) -> None:
+def _step_strengths(df, names, grades) -> None:
     """Scale the strengths of graded metals by their yield step at the governing thickness (the
-    thickest element, :mod:`.thickness`); ``strength_thickness`` is that thickness (NaN: no steps)."""
+    thickest element, :mod:`.thickness`); ``strength_thickness`` is that thickness (NaN: no steps).
+    ``names``: the material column, ``grades``: its distinct names and codes."""
     t = governing_thickness(df["family"].to_numpy(), {k: df[k].to_numpy(float) for k in DIM_KEYS})
-    names = df["material"].to_numpy()
-    grades = distinct(names)  # (once for both)
     stepped = graded(names, grades)
     factor = strength_factors(names, t, grades)
     df["strength_bending"] = df["strength_bending"].to_numpy() * factor
