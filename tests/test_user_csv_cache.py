@@ -48,18 +48,19 @@ def _csv_reference(text):
     return header, [n for n, _ in rows], [c + [""] * (len(header) - len(c)) for _, c in rows]
 
 
-def _random_text(rng):
-    """A quote-free CSV text with blanks, tabs, comments, empty lines, comma-only lines, short rows
-    and CR LF / CR line ends."""
+def _random_text(rng, blanks=True):
+    """A quote-free CSV text with blanks and tabs (unless not ``blanks``), comments, empty lines,
+    comma-only lines, short rows and CR LF / CR line ends."""
     width = int(rng.integers(1, 6))
-    words = ["a", "b c", "12.5", "", "x#y", "#", "\u00e9t\u00e9", "7"]
-    pad = ["", " ", "\t", "  "]
-    lines = ["#" + " comment"] if rng.random() < 0.5 else []
+    words = ["a", "b c", "12.5", "", "x#y", "#", "\u00e9t\u00e9", "7"] if blanks else ["a", "12.5", "", "x#y", "#", "#z", "7"]
+    pad = ["", " ", "\t", "  "] if blanks else [""]
+    lines = ["#" + (" comment" if blanks else "comment")] if rng.random() < 0.5 else []
     lines.append(",".join(f"{rng.choice(pad)}h{j}{rng.choice(pad)}" for j in range(width)))
     for _ in range(int(rng.integers(0, 12))):
         kind = rng.random()
         if kind < 0.1:
-            lines.append(rng.choice(["", "  ", ",,", " , ,\t", "# note, with, commas", "  #x"]))
+            lines.append(rng.choice(["", "  ", ",,", " , ,\t", "# note, with, commas", "  #x"] if blanks else
+                                    ["", ",,", ",", "#note,with,commas", "#", ",#x"]))
         else:
             k = int(rng.integers(1, width + 1)) if rng.random() < 0.98 else width + 1  # a few long rows
             lines.append(",".join(f"{rng.choice(pad)}{rng.choice(words)}{rng.choice(pad)}" for _ in range(k)))
@@ -69,12 +70,14 @@ def _random_text(rng):
     return end.join(lines) + (end if rng.random() < 0.7 else "")
 
 
-def test_split_text_equals_the_csv_module():
-    """read_grid (the whole text split at once) gives the csv module's cells and line numbers."""
+@pytest.mark.parametrize("blanks", [True, False])
+def test_split_text_equals_the_csv_module(blanks):
+    """read_grid (the whole text split at once) gives the csv module's cells and line numbers (also
+    for texts without blanks, whose comment lines are found from the places of their '#')."""
     rng = np.random.default_rng(18)
     compared = 0
     for _ in range(600):
-        text = _random_text(rng)
+        text = _random_text(rng, blanks)
         got, want = read_grid(text, "t.csv"), _csv_reference(text)
         if want is None:  # a row longer than the header: left to the row reader
             assert got is None, text

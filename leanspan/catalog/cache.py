@@ -9,7 +9,9 @@ Two kinds of file live in the user cache folder (:func:`cache_dir`):
   :func:`source_hash`. A changed list, a changed material or changed code gives another key,
   so a file is never used for anything but the rows it was written from. The newest
   :data:`USER_FILES_KEPT` lists are kept; lists shorter than :data:`USER_MIN_ROWS` rows are
-  computed every time (quicker than reading a file).
+  computed every time (quicker than reading a file). It holds the float columns as one
+  (columns, rows) array ``_numbers``, the file lines ``row``, each text column as int32 codes
+  with its distinct values in ``_text_<column>`` (:func:`pack_text`), the key and the warnings.
 
 Every file is written atomically (:func:`leanspan.fileio.atomic_write`); a file that cannot
 be read, or holds other columns or lengths than expected, is ignored and written again. An
@@ -37,11 +39,11 @@ from .. import __version__
 from ..fileio import atomic_write
 
 __all__ = ["cache_dir", "cache_enabled", "source_hash", "user_key", "user_cache_file", "load_columns",
-           "save_columns", "USER_MIN_ROWS", "USER_FILES_KEPT"]
+           "save_columns", "pack_text", "unpack_text", "USER_MIN_ROWS", "USER_FILES_KEPT"]
 
 #: supplier lists with fewer rows are not cached (computing them is quicker than a disk read)
 USER_MIN_ROWS = 1000
-#: how many supplier lists' files are kept (the newest; each 100,000-row list takes about 40 MB)
+#: how many supplier lists' files are kept (the newest; each 100,000-row list takes about 31 MB)
 USER_FILES_KEPT = 8
 
 
@@ -91,7 +93,7 @@ def user_cache_file(key: str) -> Path:
 
 def load_columns(path: Path, names, extra=()) -> dict | None:
     """The arrays of an ``.npz`` cache file, if it holds exactly the arrays ``names`` (1-D, of one
-    length) and ``extra`` (1-D, any length); None for a missing, partial, damaged or foreign file."""
+    length) and ``extra`` (any shape); None for a missing, partial, damaged or foreign file."""
     try:
         with np.load(path, allow_pickle=False) as z:
             if set(z.files) != set(names) | set(extra):
@@ -99,9 +101,39 @@ def load_columns(path: Path, names, extra=()) -> dict | None:
             cols = {k: z[k] for k in (*names, *extra)}
     except Exception:  # missing, partial or foreign file: rebuild
         return None
-    if len({cols[k].shape for k in names}) > 1 or any(a.ndim != 1 for a in cols.values()):
+    if len({cols[k].shape for k in names}) > 1 or any(cols[k].ndim != 1 for k in names):
         return None
     return cols
+
+
+def pack_text(values):
+    """A column of str as arrays an ``.npz`` file holds without pickling: int32 codes (N,) and the
+    distinct values in order of first appearance as UTF-8, each ended by NUL (uint8); None if a
+    value holds NUL.
+
+    >>> codes, blob = pack_text(np.array(["C24", "S355", "C24"], dtype=object))
+    >>> codes.tolist(), blob.tobytes(), unpack_text(codes, blob).tolist()
+    ([0, 1, 0], b'C24\\x00S355\\x00', ['C24', 'S355', 'C24'])
+    """
+    import pandas as pd
+
+    codes, uniq = pd.factorize(np.asarray(values, dtype=object))  # (hashing: no sort)
+    joined = "\0".join(uniq.tolist())
+    if joined.count("\0") != max(len(uniq) - 1, 0):
+        return None
+    blob = (joined + "\0" if len(uniq) else "").encode("utf-8", "surrogatepass")
+    return codes.astype(np.int32), np.frombuffer(blob, np.uint8)
+
+
+def unpack_text(codes, blob):
+    """The object array of str that :func:`pack_text` packed; None if the arrays do not fit."""
+    try:
+        uniq = blob.tobytes().decode("utf-8", "surrogatepass").split("\0")[:-1]
+        if codes.dtype != np.int32 or (codes.size and not 0 <= codes.min() <= codes.max() < len(uniq)):
+            return None
+        return np.array(uniq, dtype=object)[codes] if uniq else np.empty(0, object)
+    except (UnicodeDecodeError, AttributeError, ValueError):
+        return None
 
 
 def save_columns(path: Path, cols: dict, compress: bool = True, keep: int | None = None) -> None:

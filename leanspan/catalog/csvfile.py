@@ -173,8 +173,13 @@ def read_grid(text: str, path, error=CatalogError):
         lines = list(map(str.strip, lines))
     # per line, each a pass in C: commas, a comment mark, anything but commas (and blanks)
     commas = np.fromiter(map(methodcaller("count", ","), lines), np.int64, n)
-    comment = np.fromiter(map(methodcaller("startswith", "#"), lines), bool, n)
-    filled = np.fromiter(map(len, map(methodcaller("strip", ", \t"), lines)), np.int64, n) > 0
+    if spaced:
+        comment = np.fromiter(map(methodcaller("startswith", "#"), lines), bool, n)
+        filled = np.fromiter(map(len, map(methodcaller("strip", ", \t"), lines)), np.int64, n) > 0
+    else:  # no blanks: a line of commas only is as long as its commas; comments found from the '#'s
+        lengths = np.fromiter(map(len, lines), np.int64, n)
+        filled = lengths > commas
+        comment = _comment_lines(text, lines, lengths)
     rows = np.flatnonzero(filled & ~comment)
     if rows.size == 0:
         raise error(_NO_HEADER.format(path=path))
@@ -192,6 +197,22 @@ def read_grid(text: str, path, error=CatalogError):
         cells = list(map(str.strip, cells))
     grid = np.array(cells, dtype=object)
     return header, rows + 1, grid.reshape(rows.size, width)
+
+
+def _comment_lines(text: str, lines, lengths) -> np.ndarray:
+    """Which ``lines`` (``text`` split on line ends, ``lengths`` long) start with ``#``: from the
+    places of the few ``#`` in the text, else a test of every line."""
+    if text.count("#") > 64:
+        return np.fromiter(map(methodcaller("startswith", "#"), lines), bool, len(lines))
+    starts = np.concatenate(([0], np.cumsum(lengths[:-1] + 1)))  # each line's first character
+    marks, at = [], text.find("#")
+    while at >= 0:
+        marks.append(at)
+        at = text.find("#", at + 1)
+    line = np.searchsorted(starts, marks, side="right") - 1
+    comment = np.zeros(lengths.size, bool)
+    comment[line[starts[line] == marks]] = True
+    return comment
 
 
 def _odd_space(text: str) -> bool:

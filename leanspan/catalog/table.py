@@ -42,13 +42,13 @@ from ..errors import CatalogError, LeanspanError
 from ..fileio import protect_inputs, read_text
 from ..sections.families import FAMILIES
 from ..sections.properties import KEYS, STABILITY_KEYS, family_properties, family_stability
-from .cache import (USER_FILES_KEPT, USER_MIN_ROWS, cache_dir, cache_enabled, load_columns, save_columns,
-                    source_hash, user_cache_file, user_key)
+from .cache import (USER_FILES_KEPT, USER_MIN_ROWS, cache_dir, cache_enabled, load_columns, pack_text,
+                    save_columns, source_hash, unpack_text, user_cache_file, user_key)
 from .csvfile import column_factor
 from .materials import OPTIONAL as MATERIAL_OPTIONAL
 from .materials import get_material, materials_table
 from .series import RENAMED, SERIES
-from .thickness import beyond_table, governing_thickness, strength_factors, thickness_steps
+from .thickness import beyond_table, distinct, governing_thickness, graded, strength_factors
 from .user import TABULATED, _factorize, read_user_catalog
 
 __all__ = ["DIM_KEYS", "MATERIAL_COLUMNS", "catalog_table", "family_rows", "dims_of", "row_dims", "cache_dir",
@@ -60,33 +60,46 @@ BUILT_UP_DIM_KEYS = ("timbers", "timber_width", "timber_depth", "plate_thickness
 MATERIAL_COLUMNS = ("kind", "E", "G", "density", "strength_bending", "strength_shear",
                     "mass_per_length", "strength_thickness") + MATERIAL_OPTIONAL  # optional: NaN where not given
 _TEXT_COLUMNS = ("name", "family", "series", "material")
+# the numeric columns of a block: dimensions, section properties, buckling
+_NUMBER_COLUMNS = DIM_KEYS + tuple(KEYS) + STABILITY_KEYS
 # every column a block builds: what the disk cache must hold to be used
-_COLUMNS = _TEXT_COLUMNS + DIM_KEYS + tuple(KEYS) + STABILITY_KEYS
-# a supplier list's rows: the same plus each row's file line, in the table's column order
-_USER_COLUMNS = _TEXT_COLUMNS + ("row",) + _COLUMNS[len(_TEXT_COLUMNS):]
-# what a supplier list's cache file holds besides its columns: its key and its warnings
-_USER_EXTRA = ("_key", "_warnings")
+_COLUMNS = _TEXT_COLUMNS + _NUMBER_COLUMNS
+# a supplier list's rows: the same plus each row's file line, in front of the float columns
+_USER_FRONT = _TEXT_COLUMNS + ("row",)
+# what a supplier list's cache file holds besides those: its key, its warnings, the float block
+_USER_EXTRA = ("_key", "_warnings", "_numbers")
+# and each text column's distinct values (the column itself holds their codes: see cache.pack_text)
+_USER_TEXT = tuple(f"_text_{k}" for k in _TEXT_COLUMNS)
 
 
 def _block(series: str, family: str, dims: dict, names: list, materials, stability: bool = True) -> dict:
     """Columns (numpy arrays) for N rows of one family: text, dims, section properties (the
     buckling columns NaN unless ``stability``)."""
-    fam = FAMILIES[family]
-    dims = fam.complete(dims)
-    props = family_properties(family, dims)
+    numbers = _section_columns(family, dims, stability)
     n = len(names)
     cols = {"name": np.array(names, dtype=str), "family": np.full(n, family),
             "series": np.full(n, series),
             "material": np.array(materials if not isinstance(materials, str) else [materials] * n, dtype=str)}
-    for k in DIM_KEYS:
-        cols[k] = dims[k] if k in dims else np.full(n, np.nan)
+    for k in _NUMBER_COLUMNS:
+        cols[k] = numbers[k] if k in numbers else np.full(n, np.nan)
+    return cols
+
+
+def _section_columns(family: str, dims: dict, stability: bool = True) -> dict:
+    """The dimension (those of the family), section-property and buckling columns of N rows of
+    one family (the buckling columns NaN unless ``stability``)."""
+    fam = FAMILIES[family]
+    dims = fam.complete(dims)
+    props = family_properties(family, dims, wagner=stability)
+    cols = {k: dims[k] for k in DIM_KEYS if k in dims}
     for k in KEYS:
         cols[k] = np.asarray(props[k], float)
     try:
         if not stability:
             raise LeanspanError("not asked for")
-        stab = family_stability(family, dims, cols["yc"], cols["zc"])
+        stab = family_stability(family, dims, cols["yc"], cols["zc"], props["wagner"])
     except LeanspanError:  # a closed form that does not fit these walls: buckling checks refuse the row
+        n = len(cols["A"])
         stab = {k: np.full(n, np.nan) for k in STABILITY_KEYS}
     for k in STABILITY_KEYS:
         cols[k] = np.asarray(stab[k], float)
@@ -161,31 +174,55 @@ def _user_frame(path, mats):
         cols, warnings = _user_columns(path, text, mats)
         if key and len(cols["row"]) >= USER_MIN_ROWS:
             _save_user_cache(user_cache_file(key), key, cols, warnings, path)
-    return pd.DataFrame(cols), warnings
+    # the float columns are the rows of one block ("_numbers"): one frame block, no copy
+    df = pd.DataFrame(cols["_numbers"].T, columns=list(_NUMBER_COLUMNS), copy=False)
+    for k in reversed(_USER_FRONT):  # text and file lines in front
+        df.insert(0, k, cols[k])
+    return df, warnings
 
 
 def _user_columns(path, text, mats):
-    """Read and compute a supplier list: its columns (rows in file order) and its warnings."""
+    """Read and compute a supplier list: its columns (rows in file order) and its warnings.
+
+    Each family's rows are computed at once and written straight to their places in file order."""
     cat = read_user_catalog(path, mats, text=text)
-    blocks, lines = [], []
-    for fam, b in cat.blocks.items():  # one vectorised call per family present
-        blocks.append(_block("user", fam, b.dims, b.names, b.materials))
-        lines.append(b.lines)
-    if not blocks:
+    if not cat.blocks:
         raise CatalogError(f"{path}: no catalogue rows")
-    built = _concat(blocks)
-    rows = np.concatenate(lines)
-    order = np.argsort(rows, kind="stable")
-    cols = {k: rows[order] if k == "row" else built[k][order] for k in _USER_COLUMNS}
+    lines = np.concatenate([b.lines for b in cat.blocks.values()])
+    order = np.argsort(lines, kind="stable")
+    place = np.empty_like(order)
+    place[order] = np.arange(order.size)  # each block row's place in file order
+    n = order.size
+    cols = {"name": np.empty(n, object), "family": np.empty(n, object), "series": np.full(n, "user", object),
+            "material": np.empty(n, object), "row": lines[order]}
+    # the float columns: rows of one block, "_numbers" (the frame takes it whole, without a copy)
+    cols["_numbers"] = numbers = np.empty((len(_NUMBER_COLUMNS), n))
+    numbers[:len(DIM_KEYS)] = np.nan  # a dimension a family does not use stays NaN; every row has the rest
+    cols.update(zip(_NUMBER_COLUMNS, numbers))
+    start = 0
+    for fam, b in cat.blocks.items():  # one vectorised call per family present
+        rows = place[start:start + b.lines.size]
+        start += b.lines.size
+        for k, v in _section_columns(fam, b.dims).items():
+            cols[k][rows] = v
+        cols["name"][rows], cols["family"][rows], cols["material"][rows] = b.names, fam, b.materials
     return cols, cat.warnings + _compare_tabulated(cols, cat, mats)
 
 
 def _load_user_cache(file, key):
     """The columns and warnings (without the file name in front) of a supplier list's cache
     file; None when missing, damaged or not this key's."""
-    cols = load_columns(file, _USER_COLUMNS, _USER_EXTRA)
+    cols = load_columns(file, _USER_FRONT, _USER_EXTRA + _USER_TEXT)
     if cols is None or cols.pop("_key").tolist() != [key]:
         return None
+    numbers = cols["_numbers"]
+    if numbers.shape != (len(_NUMBER_COLUMNS), len(cols["row"])) or numbers.dtype != float:
+        return None
+    cols.update(zip(_NUMBER_COLUMNS, numbers))
+    for k, blob in zip(_TEXT_COLUMNS, _USER_TEXT):
+        cols[k] = unpack_text(cols[k], cols.pop(blob))
+        if cols[k] is None:
+            return None
     return cols, cols.pop("_warnings").tolist()
 
 
@@ -193,7 +230,14 @@ def _save_user_cache(file, key, cols, warnings, path) -> None:
     prefix = f"{path}: "
     if not all(w.startswith(prefix) for w in warnings):  # a note that cannot be moved to another path
         return
-    extra = {"_key": np.array([key]), "_warnings": np.array([w[len(prefix):] for w in warnings], dtype=str)}
+    extra = {"_key": np.array([key]), "_warnings": np.array([w[len(prefix):] for w in warnings], dtype=str),
+             "_numbers": cols["_numbers"]}
+    cols = {k: cols[k] for k in _USER_FRONT}
+    for k, blob in zip(_TEXT_COLUMNS, _USER_TEXT):  # text as codes and distinct values
+        packed = pack_text(cols[k])
+        if packed is None:  # a name holding NUL: not cached
+            return
+        cols[k], extra[blob] = packed
     save_columns(file, {**cols, **extra}, compress=False, keep=USER_FILES_KEPT)
 
 
@@ -361,26 +405,27 @@ def _with_materials(df, material, mats):
     """Set the material columns (one material for all rows, or each row's own)."""
     import pandas as pd
 
-    df = df.copy()
+    df = df.copy(deep=False)  # (copy-on-write: the caller's frame keeps its columns)
     if material is not None:
         df["material"] = material
-    inv, uniq = pd.factorize(df["material"])  # (by hashing: quicker than sorting the names)
+    names = df["material"].to_numpy()
+    grades = uniq, inv = distinct(names)  # (by hashing: quicker than sorting the names)
     rows = [mats[u] for u in uniq]
     df["kind"] = np.array([m.kind for m in rows], dtype=object)[inv] if rows else []
     for col in ("E", "G", "density", "strength_bending", "strength_shear") + MATERIAL_OPTIONAL:
         df[col] = np.array([getattr(m, col) for m in rows], float)[inv] if rows else []  # None -> NaN
     df["mass_per_length"] = df["A"].to_numpy() * df["density"].to_numpy()
-    _step_strengths(df)
+    _step_strengths(df, names, grades)
     return df
 
 
-def _step_strengths(df) -> None:
+def _step_strengths(df, names, grades) -> None:
     """Scale the strengths of graded metals by their yield step at the governing thickness (the
-    thickest element, :mod:`.thickness`); ``strength_thickness`` is that thickness (NaN: no steps)."""
+    thickest element, :mod:`.thickness`); ``strength_thickness`` is that thickness (NaN: no steps).
+    ``names``: the material column, ``grades``: its distinct names and codes."""
     t = governing_thickness(df["family"].to_numpy(), {k: df[k].to_numpy(float) for k in DIM_KEYS})
-    names = df["material"].to_numpy().astype(str)
-    stepped = np.isin(names, list(thickness_steps()))
-    factor = strength_factors(names, t)
+    stepped = graded(names, grades)
+    factor = strength_factors(names, t, grades)
     df["strength_bending"] = df["strength_bending"].to_numpy() * factor
     df["strength_shear"] = df["strength_shear"].to_numpy() * factor
     df["strength_thickness"] = np.where(stepped, t, np.nan)

@@ -34,7 +34,8 @@ import numpy as np
 from ..errors import CatalogError
 from .csvfile import column_factor, read_table, to_float
 
-__all__ = ["STEPS_FILE", "thickness_steps", "governing_thickness", "strength_factors", "beyond_table"]
+__all__ = ["STEPS_FILE", "thickness_steps", "governing_thickness", "strength_factors", "beyond_table", "graded",
+           "distinct"]
 
 STEPS_FILE = "steel_thickness.csv"
 
@@ -63,7 +64,7 @@ def thickness_steps() -> dict:
     return steps
 
 
-def governing_thickness(family, dims: dict) -> np.ndarray:
+def governing_thickness(family, dims: dict, known=None) -> np.ndarray:
     """The thickest element of each row (m), from the family (N,) and dimension columns (N,) (NaN
     where a family does not use a key).
 
@@ -76,24 +77,44 @@ def governing_thickness(family, dims: dict) -> np.ndarray:
     ...         "d": np.array([0.6, 0.3, 0.2])}
     >>> [float(x) for x in governing_thickness(fam, dims)]
     [0.025, 0.01, 0.05]
+
+    ``known``: ``(names, codes)`` of ``family`` if already known (as :func:`distinct` gives).
     """
-    fam = np.asarray(family).astype(str)
-    n = fam.size
+    names, code = known or distinct(family)
+    n = code.size
     get = lambda k: np.asarray(dims[k], float) if k in dims else np.full(n, np.nan)  # noqa: E731
     plates = np.fmax(get("tw"), np.fmax(get("tf"), np.fmax(get("tf_top"), get("tf_bot"))))
-    return np.select([np.isin(fam, ("ibeam", "channel", "tee")), np.isin(fam, ("box", "tube", "angle")),
-                      fam == "rectangle", fam == "circle"],
+    rule = np.array([0 if f in ("ibeam", "channel", "tee") else 1 if f in ("box", "tube", "angle") else
+                     {"rectangle": 2, "circle": 3}.get(f, 4) for f in names], int)[code]
+    return np.select([rule == 0, rule == 1, rule == 2, rule == 3],
                      [plates, get("t"), np.fmin(get("b"), get("d")), get("d")], np.nan)
 
 
-def strength_factors(materials, t) -> np.ndarray:
-    """``fy(t) / fy(first step)`` per row (1 for grades without steps), arrays (N,)."""
-    materials = np.asarray(materials).astype(str)
+def distinct(values):
+    """The distinct names (str) of an array and each entry's index among them (hashing, no sort)."""
+    import pandas as pd
+
+    code, names = pd.factorize(np.asarray(values, dtype=object).ravel(), use_na_sentinel=False)
+    return [str(x) for x in names], code
+
+
+def graded(materials, known=None) -> np.ndarray:
+    """True for the rows whose material has thickness steps (``known``: see governing_thickness)."""
+    names, code = known or distinct(materials)
+    return np.array([x in thickness_steps() for x in names], bool)[code] if names else np.zeros(code.size, bool)
+
+
+def strength_factors(materials, t, known=None) -> np.ndarray:
+    """``fy(t) / fy(first step)`` per row (1 for grades without steps), arrays (N,) (``known``: see
+    governing_thickness)."""
+    names, code = known or distinct(materials)
     t = np.asarray(t, float)
-    out = np.ones(materials.size)
+    out = np.ones(code.size)
     steps = thickness_steps()
-    for grade in set(np.unique(materials)) & set(steps):  # a small set of grades
-        rows = materials == grade
+    for j, grade in enumerate(names):  # a small set of grades
+        if grade not in steps:
+            continue
+        rows = code == j
         t_max, fy, _ = steps[grade]
         i = np.minimum(np.searchsorted(t_max * (1 + 1e-9), t[rows], side="left"), t_max.size - 1)
         out[rows] = np.where(np.isnan(t[rows]), 1.0, fy[i] / fy[0])
@@ -102,11 +123,13 @@ def strength_factors(materials, t) -> np.ndarray:
 
 def beyond_table(materials, t) -> list:
     """Warnings for rows thicker than their grade's last step (they keep that step's fy)."""
-    materials = np.asarray(materials).astype(str)
+    names, code = distinct(materials)
     t = np.asarray(t, float)
     out = []
     for grade, (t_max, _, src) in thickness_steps().items():
-        rows = (materials == grade) & (t > t_max[-1] * (1 + 1e-9))
+        if grade not in names:
+            continue
+        rows = (code == names.index(grade)) & (t > t_max[-1] * (1 + 1e-9))
         if rows.any():
             out.append(f"{grade}: {int(rows.sum())} catalogue row(s) thicker than {t_max[-1] * 1e3:g} mm, "
                        f"the largest thickness of {src[-1].split(' (')[0]}: their fy is taken as the "

@@ -24,6 +24,7 @@ Examples
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from string import Formatter
 from typing import Callable
 
 import numpy as np
@@ -179,18 +180,57 @@ def _angle_rings(d):
 
 
 def _mm(x) -> str:
-    if isinstance(x, str):  # formatted already (see Family.designation)
-        return x
     x = float(x) * 1000.0
     return f"{x:.4g}" if abs(x) < 1e4 else f"{x:.0f}"
 
 
+def _mm_text(values) -> np.ndarray:
+    """:func:`_mm` of many values as an array of str, each distinct value formatted once
+    (catalogues repeat their sizes).
+
+    >>> _mm_text([0.2, 0.045, 0.2, 12.5]).tolist()
+    ['200', '45', '200', '12500']
+    """
+    uniq, inverse = np.unique(np.asarray(values, float).ravel(), return_inverse=True)
+    return np.array([_mm(u) for u in uniq], dtype=str)[inverse]
+
+
 def _mm_all(values) -> list:
-    """:func:`_mm` of many values, each distinct value formatted once (catalogues repeat them)."""
-    values = np.asarray(values, float)
-    uniq, inverse = np.unique(values, return_inverse=True)
-    text = np.array([_mm(u) for u in uniq], dtype=object)
-    return text[inverse.ravel()].tolist()
+    """:func:`_mm` of many values, as a list (see :func:`_mm_text`)."""
+    return _mm_text(values).tolist()
+
+
+class _MmColumns(dict):
+    """The dimension columns of ``dims`` as mm text (:func:`_mm_text`), each formatted when first used."""
+
+    def __init__(self, dims: dict):
+        super().__init__()
+        self.dims = dims
+
+    def __missing__(self, key):
+        self[key] = text = _mm_text(self.dims[key])
+        return text
+
+
+def _template(form: str) -> Callable:
+    """A designation maker from a template such as ``"rect {b}x{d}"``: the dimension columns in mm
+    text joined with the literal pieces by numpy string operations (no step per section).
+
+    >>> label = _template("tube {d}x{t}")
+    >>> label(_MmColumns({"d": np.array([0.1143, 0.06]), "t": np.array([0.0036, 0.003])})).tolist()
+    ['tube 114.3x3.6', 'tube 60x3']
+    """
+    pieces = []  # literal text (str) and dimension keys (1-tuples)
+    for literal, key, _, _ in Formatter().parse(form):
+        pieces += [literal] if literal else []
+        pieces += [(key,)] if key else []
+
+    def label(text: _MmColumns) -> np.ndarray:
+        out = np.array("", dtype=str)
+        for piece in pieces:
+            out = np.strings.add(out, text[piece[0]] if isinstance(piece, tuple) else piece)
+        return out
+    return label
 
 
 @dataclass(frozen=True)
@@ -210,7 +250,8 @@ class Family:
     rules : callable
         ``dims -> list of (bad_mask, field, expectation)`` geometric checks.
     label : callable
-        ``dims(i) -> designation`` (mm, generated from dimensions).
+        ``text -> designations``: from the dimension columns as mm text (a dict of str arrays,
+        :class:`_MmColumns`) to an array of str, one per section (mostly :func:`_template`).
     """
 
     name: str
@@ -276,34 +317,39 @@ class Family:
         """Oriented rings for complete, validated dims (see :meth:`complete`)."""
         return self.build(dims)
 
+    def designations(self, dims: dict) -> np.ndarray:
+        """Names generated from complete dimensions (m) as an array of str, sizes in millimetres."""
+        return self.label(_MmColumns(dims))
+
     def designation(self, dims: dict) -> list[str]:
-        """Names generated from dimensions, in millimetres."""
-        keys = list(dims)
-        columns = [_mm_all(dims[k]) for k in keys]
-        return [self.label(dict(zip(keys, row))) for row in zip(*columns)]
+        """Names generated from complete dimensions (m), in millimetres (a list of str)."""
+        return self.designations(dims).tolist()
 
 
-def _i_label(d):
-    if d["b_top"] == d["b_bot"] and d["tf_top"] == d["tf_bot"]:
-        return f"I {_mm(d['d'])}x{_mm(d['b_top'])}x{_mm(d['tw'])}x{_mm(d['tf_top'])}"
-    return (f"I {_mm(d['d'])}x{_mm(d['b_top'])}/{_mm(d['b_bot'])}x{_mm(d['tw'])}"
-            f"x{_mm(d['tf_top'])}/{_mm(d['tf_bot'])}")
+_I_PLAIN = _template("I {d}x{b_top}x{tw}x{tf_top}")
+_I_MONO = _template("I {d}x{b_top}/{b_bot}x{tw}x{tf_top}/{tf_bot}")
+
+
+def _i_label(text):
+    """Equal flanges (the same text in mm) name each size once, others both: ``I 600x300/250x12x25/20``."""
+    same = (text["b_top"] == text["b_bot"]) & (text["tf_top"] == text["tf_bot"])
+    return _I_PLAIN(text) if same.all() else np.where(same, _I_PLAIN(text), _I_MONO(text))
 
 
 FAMILIES: dict[str, Family] = {
     f.name: f
     for f in [
         Family("rectangle", ("b", "d"), {}, _rect_rings, lambda d: [],
-               lambda d: f"rect {_mm(d['b'])}x{_mm(d['d'])}", "solid rectangle b wide, d deep"),
+               _template("rect {b}x{d}"), "solid rectangle b wide, d deep"),
         Family("circle", ("d",), {}, _circle_rings, lambda d: [],
-               lambda d: f"round {_mm(d['d'])}", "solid round bar of diameter d"),
+               _template("round {d}"), "solid round bar of diameter d"),
         Family("tube", ("d", "t"), {}, _tube_rings,
                lambda d: [(2 * d["t"] >= d["d"], "2 t < d")],
-               lambda d: f"tube {_mm(d['d'])}x{_mm(d['t'])}", "circular hollow section", ("t",)),
+               _template("tube {d}x{t}"), "circular hollow section", ("t",)),
         Family("box", ("b", "d", "t"), {"r": 0.0}, _box_rings,
                lambda d: [(2 * d["t"] >= np.minimum(d["b"], d["d"]), "2 t < min(b, d)"),
                           (2 * d["r"] > np.minimum(d["b"], d["d"]), "2 r <= min(b, d)")],
-               lambda d: f"box {_mm(d['d'])}x{_mm(d['b'])}x{_mm(d['t'])}",
+               _template("box {d}x{b}x{t}"),
                "rectangular hollow section, outer corner radius r", ("t",)),
         Family("ibeam", ("d", "b", "tw", "tf"),
                {"r": 0.0, "b_top": "b", "tf_top": "tf", "b_bot": "b", "tf_bot": "tf"}, _i_rings,
@@ -314,16 +360,16 @@ FAMILIES: dict[str, Family] = {
         Family("channel", ("d", "b", "tw", "tf"), {"r": 0.0}, _channel_rings,
                lambda d: [(d["tw"] + d["r"] >= d["b"], "tw + r < b"),
                           (2 * d["tf"] + 2 * d["r"] >= d["d"], "2 tf + 2 r < d")],
-               lambda d: f"channel {_mm(d['d'])}x{_mm(d['b'])}x{_mm(d['tw'])}x{_mm(d['tf'])}",
+               _template("channel {d}x{b}x{tw}x{tf}"),
                "channel, web on the left, parallel flanges", ("tw", "tf")),
         Family("tee", ("d", "b", "tw", "tf"), {"r": 0.0}, _tee_rings,
                lambda d: [(d["tw"] + 2 * d["r"] > d["b"], "tw + 2 r <= b"),
                           (d["tf"] + d["r"] >= d["d"], "tf + r < d")],
-               lambda d: f"tee {_mm(d['d'])}x{_mm(d['b'])}x{_mm(d['tw'])}x{_mm(d['tf'])}",
+               _template("tee {d}x{b}x{tw}x{tf}"),
                "tee, flange on top", ("tw", "tf")),
         Family("angle", ("d", "b", "t"), {"r": 0.0}, _angle_rings,
                lambda d: [(d["t"] + d["r"] >= np.minimum(d["b"], d["d"]), "t + r < min(b, d)")],
-               lambda d: f"angle {_mm(d['d'])}x{_mm(d['b'])}x{_mm(d['t'])}",
+               _template("angle {d}x{b}x{t}"),
                "angle, vertical leg d on the left, horizontal leg b at the bottom", ("t",)),
     ]
 }

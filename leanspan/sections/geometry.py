@@ -56,20 +56,19 @@ def edges_from_rings(rings) -> Edges:
 
     Each ring is closed implicitly (its last point joins its first).
     """
-    z0s, y0s, z1s, y1s, prevs = [], [], [], [], []
-    offset = 0
-    for ring in rings:
-        ring = np.asarray(ring, dtype=float)
-        nxt = np.roll(ring, -1, axis=1)
-        z0s.append(ring[..., 0])
-        y0s.append(ring[..., 1])
-        z1s.append(nxt[..., 0])
-        y1s.append(nxt[..., 1])
-        count = ring.shape[1]
+    rings = [np.asarray(ring, dtype=float) for ring in rings]
+    counts = [ring.shape[1] for ring in rings]
+    n, total = rings[0].shape[0], sum(counts)
+    z0, y0, z1, y1 = (np.empty((n, total)) for _ in range(4))
+    prevs, offset = [], 0
+    for ring, count in zip(rings, counts):  # each ring's points, and the same rolled by one
+        end = offset + count
+        z0[:, offset:end], y0[:, offset:end] = ring[..., 0], ring[..., 1]
+        z1[:, offset:end - 1], y1[:, offset:end - 1] = z0[:, offset + 1:end], y0[:, offset + 1:end]
+        z1[:, end - 1], y1[:, end - 1] = z0[:, offset], y0[:, offset]
         prevs.append(offset + np.roll(np.arange(count), 1))
-        offset += count
-    cat = lambda parts: np.concatenate(parts, axis=1)  # noqa: E731
-    return Edges(cat(z0s), cat(y0s), cat(z1s), cat(y1s), prev=np.concatenate(prevs))
+        offset = end
+    return Edges(z0, y0, z1, y1, prev=np.concatenate(prevs))
 
 
 def swap_axes(e: Edges) -> Edges:

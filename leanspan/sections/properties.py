@@ -97,16 +97,22 @@ def _largest_cubic_root(alpha, c):
     return alpha / 4.0 + t
 
 
-def _running_sum(a, reverse=False, op=np.add):
+def _running_sum(a, reverse=False, op=np.add, out=None):
     """Cumulative sums along the first axis of a (V, N) array (from the last row if ``reverse``).
 
     The same sums, in the same order, as ``np.cumsum(a, axis=0)`` (``op=np.maximum``:
     running maxima); for many sections a loop of row operations is several times
-    faster than numpy's accumulate along the slow axis.
+    faster than numpy's accumulate along the slow axis. ``out``: write the sums to its
+    first V rows (and return it).
     """
     if len(a) < 2 or a[0].size < 256:
-        return op.accumulate(a[::-1], axis=0)[::-1].copy() if reverse else op.accumulate(a, axis=0)
-    out = np.empty_like(a)
+        sums = op.accumulate(a[::-1], axis=0)[::-1] if reverse else op.accumulate(a, axis=0)
+        if out is None:
+            return sums.copy() if reverse else sums
+        out[:len(a)] = sums
+        return out
+    if out is None:
+        out = np.empty_like(a)
     rows = range(len(a) - 1, -1, -1) if reverse else range(len(a))
     previous = None
     for i in rows:
@@ -136,12 +142,12 @@ def _sorter(order, n):
 def _snapped_levels(lev, extent):
     """Sort the vertex levels (V, N) of each section, merging levels closer than 1e-9 of the extent.
 
-    Returns ``(order, s, start)``: the sort order (one for all sections (V,), or one
-    per section (V, N)), the sorted levels and a (V, N) mask of the sorted vertices
-    that start a new level. Each run of levels with gaps up to the tolerance
-    takes the level of its lowest member (of its first, if round-off leaves it a
-    hair out of order), so an edge tilted by less than that becomes
-    exactly horizontal and every band is either empty or thicker than the tolerance.
+    Returns ``(order, s, start, shared)``: the sort order (one for all sections (V,), or one
+    per section (V, N)), the sorted levels, a (V, N) mask of the sorted vertices
+    that start a new level and whether that mask is the same in every section. Each run
+    of levels with gaps up to the tolerance takes the level of its lowest member (of its
+    first, if round-off leaves it a hair out of order), so an edge tilted by less than that
+    becomes exactly horizontal and every band is either empty or thicker than the tolerance.
 
     The sections of one family mostly share one order, so the first section's order is
     tried on all; a section keeps it if it sorts its levels up to disorder far below
@@ -154,9 +160,17 @@ def _snapped_levels(lev, extent):
     order = np.argsort(lev[:, 0], kind="stable")
     s = lev[order]
     gap = s[1:] - s[:-1]
+    start = np.empty((v, n), bool)
+    start[0] = True
+    np.greater(gap, tol, out=start[1:])
     # a tried order fails where levels step down by more than round-off, or where a gap
     # is too close to the tolerance to say that the runs of merged levels are the same
-    fails = ((gap < -slack) | ((gap > tol) & (gap <= tol + 2 * v * slack))).any(axis=0)
+    # (gap > tol but not > tol + 2 v slack): counted over all sections first, as nearly always none fails
+    near = tol + 2 * v * slack
+    if (gap < -slack).any() or np.count_nonzero(gap > near) != np.count_nonzero(start[1:]):
+        fails = ((gap < -slack) | ((gap > tol) & (gap <= near))).any(axis=0)
+    else:
+        fails = np.zeros(n, bool)
     if fails.any():
         # the tried order leaves them nearly sorted: a merge sort of runs finishes quickly
         full = np.repeat(order[:, None], n, axis=1)
@@ -165,19 +179,19 @@ def _snapped_levels(lev, extent):
         order = full
         s = _sorter(order, n)[0](lev)
         gap = s[1:] - s[:-1]
-    start = np.empty((v, n), bool)
-    start[0] = True
-    np.greater(gap, tol, out=start[1:])
-    if (~start[1:] & (gap != 0.0)).any():  # else the levels are already merged (or distinct)
-        if (start == start[:, :1]).all():  # the same runs in every section
+        np.greater(gap, tol, out=start[1:])
+    shared = bool((start == start[:, :1]).all())  # the same runs in every section
+    # levels to merge: gaps up to the tolerance that are not zero (every start is a non-zero gap)
+    if np.count_nonzero(gap) != np.count_nonzero(start[1:]):
+        if shared:
             s = s[np.maximum.accumulate(np.where(start[:, 0], np.arange(v), 0))]
         else:
             run_start = _running_sum(np.where(start, np.arange(v)[:, None], 0), op=np.maximum)
             s = s.ravel().take(run_start * n + np.arange(n)).reshape(v, n)
-    return order, s, start
+    return order, s, start, shared
 
 
-def _level_groups(s, start):
+def _level_groups(s, start, shared):
     """The distinct levels, when every section has its repeated levels at the same sorted rows.
 
     Returns ``(pick, levels)``: ``pick(a)`` takes, from a sorted (V, N) array, the rows
@@ -186,19 +200,15 @@ def _level_groups(s, start):
     levels leave no empty bands and the band work shrinks (a welded I has 4 levels,
     not 12). Otherwise every vertex keeps its row (repeated levels give empty bands).
     """
-    last = np.empty_like(start)
-    last[:-1] = start[1:]
-    last[-1] = True
-    if last.all() or not (last == last[:, :1]).all():
+    if not shared or start.all():
         return (lambda a: a), s
-    rows = np.flatnonzero(last[:, 0])
+    rows = np.flatnonzero(np.append(start[1:, 0], True))
     return (lambda a: a[rows]), s[rows]
 
 
-def _above(start):
-    """Sums over the bands strictly above each band, from the sums that include it."""
-    out = np.empty_like(start)
-    out[:-1] = start[1:]
+def _zero_row(a):
+    """An uninitialised array of ``a``'s rows and one more row of zeros (B + 1, N)."""
+    out = np.empty((a.shape[0] + 1,) + a.shape[1:])
     out[-1] = 0.0
     return out
 
@@ -224,7 +234,7 @@ class _WidthProfile:
     """
 
     def __init__(self, lev, wid, succ, prev, extent, shear=True):
-        order, s, start = _snapped_levels(lev, extent)
+        order, s, start, shared = _snapped_levels(lev, extent)
         v, n = s.shape
         if order.ndim == 1:  # one order for all sections: renumber the vertices in it
             rank = np.empty_like(order)
@@ -233,21 +243,30 @@ class _WidthProfile:
         else:
             sort, unsort = _sorter(order, n)
             lev = unsort(s)
-        du = lev[succ] - lev  # each edge from a vertex ends at the next vertex
-        sloped = du != 0.0
-        slope = (wid[succ] - wid) / np.where(sloped, du, np.inf)  # 0 for horizontal edges
         # edge k adds sign(du) z_k(u) to the width between its ends. Sweeping up through
         # the vertices, the width jumps by z of the sloped edge leaving a vertex minus z
         # of the sloped edge arriving there (the same point: no slopes involved), and the
         # width slope changes by the leaving edge's slope minus the arriving one's.
         changes = np.empty((v, 2, n))  # both, to sum them in one pass
         dslope, jump = changes[:, 0], changes[:, 1]
+        du = lev[succ]
+        du -= lev  # each edge from a vertex ends at the next vertex
+        if sort is None and shared:  # the same levels in every section: the same edges are horizontal
+            level = np.cumsum(start[:, 0])
+            sloped = (level[succ] != level)[:, None]
+            du[~sloped[:, 0]] = np.inf
+        else:
+            sloped = du != 0.0
+            du = np.where(sloped, du, np.inf)
+        slope = wid[succ]
+        slope -= wid
+        slope /= du  # 0 for horizontal edges
+        # +1 where a sloped edge leaves a vertex, -1 where one arrives
+        np.multiply(wid, np.subtract(sloped, sloped[prev], dtype=float), out=jump)
         np.subtract(slope, slope[prev], out=dslope)
-        np.subtract(sloped, sloped[prev], out=jump, dtype=float)
-        jump *= wid
         if sort is not None:
             changes[:, 0], changes[:, 1] = sort(dslope), sort(jump)
-        pick, self.u = _level_groups(s, start)
+        pick, self.u = _level_groups(s, start, shared)
         sums = pick(_running_sum(changes))[:-1]
         self.beta, jumps = np.ascontiguousarray(sums[:, 0]), sums[:, 1]
         lo, hi = self.u[:-1], self.u[1:]
@@ -257,14 +276,12 @@ class _WidthProfile:
         w[0] = 0.0
         w[1:] = _running_sum(rise[:-1])
         w += jumps
-        empty = h == 0.0
-        if empty.any():
-            w[empty] = 0.0  # between repeated levels: the partial sums there are no width
+        if not h.all():
+            w[h == 0.0] = 0.0  # between repeated levels: the partial sums there are no width
         self.width_lo = w
-        self.alpha = w - self.beta * lo  # b = alpha + beta u in the band
-        # area / first moment of each band, and above the start and the top of each band
-        bands = np.empty((h.shape[0], 2, h.shape[1]))
-        band_area, band_first, t = bands[:, 0], bands[:, 1], np.empty_like(h)
+        # area / first moment of each band, and above the start of each band: rows 0 .. B-1
+        # (row B: zero, so that rows 1 .. B are the sums above the top of each band)
+        band_area, band_first, t = np.empty_like(h), np.empty_like(h), np.empty_like(h)
         np.multiply(rise, 0.5, out=t)  # band area h (w + rise/2)
         t += w
         np.multiply(h, t, out=band_area)
@@ -275,19 +292,16 @@ class _WidthProfile:
         t *= h
         np.multiply(lo, band_area, out=band_first)
         band_first += t
+        self.area_start = _running_sum(band_area, reverse=True, out=_zero_row(h))
         if shear:  # every band's first moments
-            sums = _running_sum(bands, reverse=True)
-            self.area_start, self.first_start = np.ascontiguousarray(sums[:, 0]), np.ascontiguousarray(sums[:, 1])
-            self.first_top = _above(self.first_start)
+            self.first_start = _running_sum(band_first, reverse=True, out=_zero_row(h))
         else:  # the plastic axis needs them in one band only (see _first_top)
-            self.area_start, self.first_start = _running_sum(band_area, reverse=True), None
-            self.band_first = np.ascontiguousarray(bands[:, 1])
-        self.area_top = _above(self.area_start)
+            self.first_start, self.band_first = None, band_first
 
     def _first_top(self, band):
         """First moment above the top of band ``band[i]`` of section i."""
         if self.first_start is not None:
-            return self.first_top.ravel().take(self._at(band))
+            return self.first_start.ravel().take(self._at(band + 1))
         above = np.arange(self.band_first.shape[0])[:, None] > band
         return np.where(above, self.band_first, 0.0).sum(axis=0)
 
@@ -298,10 +312,11 @@ class _WidthProfile:
     def _in_band(self, band, c):
         """Width, area and first moment above level c, for c inside band ``band`` (one per section)."""
         at = self._at(band)
-        a, b = self.alpha.ravel().take(at), self.beta.ravel().take(at)
+        b = self.beta.ravel().take(at)
+        a = self.width_lo.ravel().take(at) - b * self.u.ravel().take(at)  # b = a + beta u in the band
         top = self.u.ravel().take(at + band.size)
         width = a + b * c
-        area = self.area_top.ravel().take(at) + a * (top - c) + b * (top * top - c * c) / 2.0
+        area = self.area_start.ravel().take(at + band.size) + a * (top - c) + b * (top * top - c * c) / 2.0
         first = (self._first_top(band) + a * (top * top - c * c) / 2.0
                  + b * (top * top * top - c * c * c) / 3.0)
         return width, area, first
@@ -309,12 +324,12 @@ class _WidthProfile:
     def plastic(self, A):
         """Plastic modulus ∫|u - c| dA about the equal-area level c; returns (Z, c)."""
         half = A / 2.0
-        band = np.clip((self.area_start >= half).sum(axis=0) - 1, 0, self.beta.shape[0] - 1)
+        band = np.clip((self.area_start[:-1] >= half).sum(axis=0) - 1, 0, self.beta.shape[0] - 1)
         at = self._at(band)
         b = self.beta.ravel().take(at)
         top = self.u.ravel().take(at + band.size)
-        rest = half - self.area_top.ravel().take(at)  # area still needed below the band top
-        width_top = (self.width_lo + self.rise).ravel().take(at)
+        rest = half - self.area_start.ravel().take(at + band.size)  # area still needed below the band top
+        width_top = self.width_lo.ravel().take(at) + self.rise.ravel().take(at)
         # area between c = top - t and top is width_top t - b t^2 / 2 = rest
         disc = np.sqrt(np.maximum(width_top * width_top - 2.0 * b * rest, 0.0))
         with np.errstate(divide="ignore", invalid="ignore"):
@@ -342,7 +357,7 @@ class _WidthProfile:
         maximum.
         """
         lo, hi = self.u[:-1], self.u[1:]
-        w_lo, b, q_lo, q_hi = self.width_lo, self.beta, self.first_start, self.first_top
+        w_lo, b, q_lo, q_hi = self.width_lo, self.beta, self.first_start[:-1], self.first_start[1:]
         w_hi = w_lo + self.rise
         tiny = 1e-9 * depth
 
@@ -369,8 +384,11 @@ class _WidthProfile:
         return best
 
 
-def _properties_chunk(e: Edges) -> dict[str, np.ndarray]:
+def _properties_chunk(e: Edges, wagner: bool = False) -> dict[str, np.ndarray]:
     p = elastic_properties(e)
+    if wagner:  # on these edges, about the centroid: see family_stability
+        t = third_moments(e, (p["zc"], p["yc"]))
+        p["wagner"] = t["Syyy"] + t["Syzz"]
     A = p["A"]
     prev = e.prev
     succ = np.empty_like(prev)
@@ -389,7 +407,7 @@ def _properties_chunk(e: Edges) -> dict[str, np.ndarray]:
     return p
 
 
-def properties(e: Edges, private: bool = False, offset: int = 0) -> dict[str, np.ndarray]:
+def properties(e: Edges, private: bool = False, offset: int = 0, wagner: bool = False) -> dict[str, np.ndarray]:
     """All section properties (:data:`KEYS`) for every section in the batch ``e``.
 
     Parameters
@@ -400,6 +418,8 @@ def properties(e: Edges, private: bool = False, offset: int = 0) -> dict[str, np
         Also return helper arrays (bounds ``_ymin`` …, plastic axes ``_pna_y``, ``_pna_z``).
     offset : int
         Index of the first section, for error messages.
+    wagner : bool
+        Also return ``wagner`` (see :data:`STABILITY_KEYS`), from the same edges.
 
     Raises
     ------
@@ -411,7 +431,7 @@ def properties(e: Edges, private: bool = False, offset: int = 0) -> dict[str, np
     step = _chunk_size(e.z0.shape[1])
     for start in range(0, n, step):
         sub = e.rows(slice(start, start + step))
-        chunks.append(_properties_chunk(sub))
+        chunks.append(_properties_chunk(sub, wagner))
     out = {k: np.concatenate([c[k] for c in chunks]) for k in chunks[0]}
     bad = np.flatnonzero(~(out["A"] > 0))
     if bad.size:
@@ -422,7 +442,8 @@ def properties(e: Edges, private: bool = False, offset: int = 0) -> dict[str, np
     return out
 
 
-def family_properties(family: str, dims: dict, private: bool = False) -> dict[str, np.ndarray]:
+def family_properties(family: str, dims: dict, private: bool = False,
+                      wagner: bool = False) -> dict[str, np.ndarray]:
     """Properties of N sections of one parametric family, from arrays of dimensions (m).
 
     Parameters
@@ -431,13 +452,16 @@ def family_properties(family: str, dims: dict, private: bool = False) -> dict[st
         A name in :data:`leanspan.sections.families.FAMILIES` (``"ibeam"`` …).
     dims : dict of str to array_like
         Dimension arrays of equal length N (or scalars), SI metres.
+    private, wagner : bool
+        As in :func:`properties` (``wagner``: the Wagner integral too, which
+        :func:`family_stability` then takes instead of building the polygons again).
     """
     fam = get_family(family)
     dims = fam.complete(dims)
     fam.validate(dims)
     n = len(next(iter(dims.values())))
     # build the polygons chunk by chunk too: small arrays stay in cache
-    chunks = [properties(edges_from_family(fam, {k: v[s:s + _CHUNK] for k, v in dims.items()}), private, s)
+    chunks = [properties(edges_from_family(fam, {k: v[s:s + _CHUNK] for k, v in dims.items()}), private, s, wagner)
               for s in range(0, n, _CHUNK)]
     return {k: np.concatenate([c[k] for c in chunks]) for k in chunks[0]}
 
@@ -449,8 +473,9 @@ def family_properties(family: str, dims: dict, private: bool = False) -> dict[st
 STABILITY_KEYS = ("J", "Cw", "ys", "wagner")
 
 
-def family_stability(family: str, dims: dict, yc, zc) -> dict[str, np.ndarray]:
-    """:data:`STABILITY_KEYS` of N sections of one family (centroid ``yc``, ``zc`` given), SI.
+def family_stability(family: str, dims: dict, yc, zc, wagner=None) -> dict[str, np.ndarray]:
+    """:data:`STABILITY_KEYS` of N sections of one family (centroid ``yc``, ``zc`` given), SI;
+    ``wagner`` too if given (from ``family_properties(..., wagner=True)``, the same numbers).
 
     >>> import numpy as np
     >>> out = family_stability("rectangle", {"b": np.array([0.1]), "d": np.array([0.2])},
@@ -462,12 +487,19 @@ def family_stability(family: str, dims: dict, yc, zc) -> dict[str, np.ndarray]:
     dims = fam.complete(dims)
     tw = thin_walled_torsion(family, dims)
     n = len(next(iter(dims.values())))
+    if wagner is None:
+        wagner = _wagner(fam, dims, yc, zc, n)
+    return {"J": tw["J"], "Cw": tw["Cw"], "ys": shear_centre_height(family, dims), "wagner": wagner}
+
+
+def _wagner(fam, dims, yc, zc, n) -> np.ndarray:
+    """The Wagner integral of N sections about their centroids, polygons built chunk by chunk."""
     wagner = np.empty(n)
     for s in range(0, n, _CHUNK):  # chunks keep the polygons small
         e = edges_from_family(fam, {k: v[s:s + _CHUNK] for k, v in dims.items()})
         t = third_moments(e, (np.asarray(zc[s:s + _CHUNK], float), np.asarray(yc[s:s + _CHUNK], float)))
         wagner[s:s + _CHUNK] = t["Syyy"] + t["Syzz"]
-    return {"J": tw["J"], "Cw": tw["Cw"], "ys": shear_centre_height(family, dims), "wagner": wagner}
+    return wagner
 
 
 def edges_from_family(fam, dims) -> Edges:

@@ -58,9 +58,15 @@ _EXACT = 8  # terms with their hyperbolic factors; beyond, tanh = 1 and sech = 0
 _POWER = {p: float(np.sum(_ODD[_EXACT:] ** -p)) for p in (5, 6, 7)}  # the saturated tails
 
 
+_ROWS = 4096  # rectangles per pass of the series: its (rows, terms) arrays stay in cache
+
+
 def _rectangle(b, d):
     """J and Cw of solid rectangles b x d (arrays) by the series below, with the terms past the
     eighth (where tanh(n pi a / 2c) = 1 and sech = 0 to 1e-10 since a >= c) summed in closed form."""
+    if np.ndim(b) == np.ndim(d) == 1 and len(b) > _ROWS:  # (each row on its own: the same numbers)
+        parts = [_rectangle(b[s:s + _ROWS], d[s:s + _ROWS]) for s in range(0, len(b), _ROWS)]
+        return np.concatenate([J for J, _ in parts]), np.concatenate([Cw for _, Cw in parts])
     a, c = np.maximum(b, d), np.minimum(b, d)  # long and short sides
     n = _ODD[:_EXACT]
     k = np.pi * n / c[..., None]             # (..., terms)
