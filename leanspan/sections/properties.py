@@ -20,6 +20,8 @@ Examples
 
 from __future__ import annotations
 
+import os
+
 import numpy as np
 
 from ..errors import GeometryError
@@ -33,6 +35,7 @@ KEYS = ("A yc zc Iz Iy Iyz I1 I2 theta Sz_top Sz_bot Sy_left Sy_right Zz Zy rz r
         "depth width shear_factor").split()
 
 _CHUNK = 4096  # sections per chunk: keeps the (sections x levels x edges) work in cache
+_THREAD_ROWS = 50_000  # sections from which family_properties works on two threads
 _CHUNK_VERTICES = 196608  # and at most this many vertices per chunk (many-sided tubes: fewer sections)
 
 
@@ -460,9 +463,20 @@ def family_properties(family: str, dims: dict, private: bool = False,
     dims = fam.complete(dims)
     fam.validate(dims)
     n = len(next(iter(dims.values())))
-    # build the polygons chunk by chunk too: small arrays stay in cache
-    chunks = [properties(edges_from_family(fam, {k: v[s:s + _CHUNK] for k, v in dims.items()}), private, s, wagner)
-              for s in range(0, n, _CHUNK)]
+
+    def chunk(s):  # build the polygons chunk by chunk too: small arrays stay in cache
+        return properties(edges_from_family(fam, {k: v[s:s + _CHUNK] for k, v in dims.items()}), private, s, wagner)
+
+    starts = range(0, n, _CHUNK)
+    if n >= _THREAD_ROWS and (os.cpu_count() or 1) >= 2:
+        # the chunks on two threads (numpy's loops run outside Python's lock); the same chunks, so
+        # the same numbers, and the first bad chunk in order raises, as one thread would
+        from concurrent.futures import ThreadPoolExecutor
+
+        with ThreadPoolExecutor(2) as pool:
+            chunks = list(pool.map(chunk, starts))
+    else:
+        chunks = [chunk(s) for s in starts]
     return {k: np.concatenate([c[k] for c in chunks]) for k in chunks[0]}
 
 
