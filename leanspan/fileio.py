@@ -99,8 +99,9 @@ def _target_mode(path: Path) -> int:
         return 0o666 & ~umask
 
 
-def atomic_write(path, data: str | bytes) -> None:
-    """Write ``data`` to ``path`` through a temporary file and a rename.
+def atomic_write(path, data: str | bytes | memoryview) -> None:
+    """Write ``data`` (text, or bytes or a buffer of them) to ``path`` through a temporary file and
+    a rename.
 
     The file gets the permissions a plain ``open(path, "w")`` would give: those of the
     file it replaces, else 0666 less the user's umask.
@@ -121,7 +122,7 @@ def atomic_write(path, data: str | bytes) -> None:
     folder = path.parent if str(path.parent) else Path(".")
     if not is_dir(folder):
         raise InputError(f"{path}: folder {folder} does not exist")
-    mode = "wb" if isinstance(data, bytes) else "w"
+    mode = "w" if isinstance(data, str) else "wb"
     fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".tmp", dir=folder)
     try:
         with os.fdopen(fd, mode, **({} if mode == "wb" else {"encoding": "utf-8", "newline": ""})) as fh:

@@ -144,7 +144,7 @@ def save_columns(path: Path, cols: dict, compress: bool = True, keep: int | None
         path.parent.mkdir(parents=True, exist_ok=True)
         buf = io.BytesIO()
         (np.savez_compressed if compress else np.savez)(buf, **cols)
-        atomic_write(path, buf.getvalue())
+        atomic_write(path, buf.getbuffer())  # no copy of the (large) file
         kind = path.name.split("-", 1)[0]
         others = [p for p in path.parent.glob(f"{kind}-*.npz") if p != path]
         if keep is not None:
