@@ -60,7 +60,8 @@ def test_verdicts_equal_the_full_screen(job, cand):
     fast, fast_worst, some = screen_verdicts(job.model, cand, sw, chunk=500)
     np.testing.assert_array_equal(np.isnan(fast_worst), np.isnan(worst))
     ok = ~np.isnan(worst)
-    np.testing.assert_allclose(fast_worst[ok], worst[ok], rtol=1e-12, atol=0)  # springs: each chunk its own batched solve
+    # 1e-12: with springs each chunk is its own batched solve
+    np.testing.assert_allclose(fast_worst[ok], worst[ok], rtol=1e-12, atol=0)
     # a verdict may differ only where the utilisation is 1 to round-off (a last-bit tie)
     differ = fast != passes
     assert np.all(np.abs(worst[differ] - 1.0) < 1e-12)
@@ -153,9 +154,11 @@ def test_long_list_selection_equals_the_full_table(tmp_path, monkeypatch, varian
     if variant == "vibration":  # a check that reads the member alone (the fast first pass still applies)
         kw["limits"] = '[limits]\nstress_factor = 0.6\nmin_frequency = "9 Hz"\n'
     if variant == "restraints":  # lateral-torsional buckling: the first pass in chunks
-        kw["limits"] = '[limits]\nstress_factor = 0.6\nlateral_restraint = "supports"\nlateral_restraint_at = ["2.5 m", "7 m"]\n'
+        kw["limits"] = ('[limits]\nstress_factor = 0.6\nlateral_restraint = "supports"\n'
+                        'lateral_restraint_at = ["2.5 m", "7 m"]\n')
     if variant == "design":
-        kw["limits"] = '[design]\nservice_class = 1\nduration = { dead = "permanent", imposed = "medium" }\npsi2 = { imposed = 0.3 }\n'
+        kw["limits"] = ('[design]\nservice_class = 1\nduration = { dead = "permanent", imposed = "medium" }\n'
+                        'psi2 = { imposed = 0.3 }\n')
     text = _BEAM.replace('self_weight = "dead"\n', 'self_weight = "dead"\nobjective = "depth"\n') \
         if variant == "objective depth" else _BEAM
     job = _job(text, tmp_path, **kw)

@@ -38,7 +38,8 @@ from .envelope import EnvelopeTable
 from .extremes import _cubic_best, _cubic_stations, _polished_best
 from .screen_reduce import to_parents
 
-__all__ = ["Candidates", "Screen", "screen", "screen_chunks", "screen_verdicts", "screen_loop", "evaluate", "check_names", "CHUNK"]
+__all__ = ["Candidates", "Screen", "screen", "screen_chunks", "screen_verdicts", "screen_loop", "evaluate",
+           "check_names", "CHUNK"]
 
 _BLOCK = 2048  # candidates per block (keeps the grid work in cache)
 
@@ -298,7 +299,7 @@ def screen_effects(model, cand: Candidates, self_weight_case=None, method: str =
     s = _Setup(model, cand, self_weight_case, method)
     if s.table is not None:  # through the peak envelopes, on the candidates' distinct weights
         return s.effects(np.arange(cand.size))
-    resp, weights, sw, K = s.resp, s.weights, s.resp.self_weight_index, cand.size
+    resp, weights, sw = s.resp, s.weights, s.resp.self_weight_index
     lengths, x0 = resp.lengths, resp.x_nodes[:-1]
     all_elems = np.arange(lengths.size)
     C = len(resp.combos)
