@@ -52,8 +52,8 @@ def _summary(sel, units):
 
 
 def ranks_note(sel) -> str:
-    """What the ranks count: every candidate, or (a built-up search keeps only the rows the table
-    can show) the rows kept."""
+    """What the ranks count: every candidate, or (a built-up search and a long list keep only the
+    rows the table can show) the rows kept."""
     if sel.screened == len(sel.table):
         return "ranks count every candidate screened"
     return f"ranks count the {len(sel.table)} rows kept of the {sel.screened} screened"

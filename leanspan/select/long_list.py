@@ -16,14 +16,17 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["LONG_LIST", "KEEP", "long_list_rows", "kept_positions", "best_rows"]
+__all__ = ["LONG_LIST", "KEEP", "CLOSE_CALL", "long_list_rows", "kept_positions", "nearest_failures", "best_rows"]
 
 LONG_LIST = 2**17  # catalogue rows from which a search screens in chunks and keeps the best
 KEEP = 1000  # passing candidates kept for the ranked table
+CLOSE_CALL = 1e-9  # rows whose first-pass utilisation is this close to 1 are kept and screened again
+_MAYBE = 20  # close calls lighter than the lightest sure pass whose nearest failures are kept too
 
 
 def best_rows(first, second, idx, n):
-    """``idx`` sorted by (first, second), the first ``n`` and any tied with the n-th.
+    """``idx`` sorted by (first, second), the first ``n`` and those tied with the n-th (at most
+    ``4 n`` of them, in index order: the full ranking would break such ties by name).
 
     >>> best_rows(np.array([3.0, 1.0, 2.0, 1.0]), np.zeros(4), np.arange(4), 1).tolist()
     [1, 3]
@@ -37,9 +40,9 @@ def best_rows(first, second, idx, n):
 
 
 def kept_positions(passes, first, second, worst, threshold, top_failures=3):
-    """Positions the ranked table can show: the best KEEP passing, the heaviest ``top_failures``
-    failing ones below ``threshold`` (the winner's objective value; ties kept), and with nothing
-    passing anywhere the KEEP closest (smallest largest utilisation).
+    """Positions the ranked table can show: the best KEEP passing, the heaviest (for objective
+    depth: deepest) ``top_failures`` failing ones below ``threshold`` (the winner's objective value;
+    ties kept), and with nothing passing anywhere the KEEP closest (smallest largest utilisation).
 
     >>> passes = np.array([True, False, True, False, False])
     >>> mass = np.array([30.0, 12.0, 25.0, 20.0, 40.0])
@@ -50,14 +53,21 @@ def kept_positions(passes, first, second, worst, threshold, top_failures=3):
     f = np.flatnonzero(~passes)
     keep = [best_rows(first, second, p, KEEP)]
     if np.isfinite(threshold):
-        lighter = f[first[f] < threshold]
-        if lighter.size:
-            order = lighter[np.argsort(-first[lighter], kind="stable")]
-            edge = first[order[min(top_failures, order.size) - 1]]
-            keep.append(order[first[order] >= edge][: 4 * KEEP])
+        keep.append(nearest_failures(f, first, threshold, top_failures))
     else:
         keep.append(best_rows(worst, first, f, KEEP))
     return np.unique(np.concatenate(keep))
+
+
+def nearest_failures(f, first, threshold, top_failures=3):
+    """Of the failing positions ``f``, the ``top_failures`` with the largest ``first`` below
+    ``threshold`` (and any tied with the last of them, at most ``4 KEEP``)."""
+    lighter = f[first[f] < threshold]
+    if not lighter.size:
+        return lighter
+    order = lighter[np.argsort(-first[lighter], kind="stable")]
+    edge = first[order[min(top_failures, order.size) - 1]]
+    return order[first[order] >= edge][: 4 * KEEP]
 
 
 def long_list_rows(df, job, chunk=None):
@@ -79,8 +89,22 @@ def long_list_rows(df, job, chunk=None):
     mass = df["mass_per_length"].to_numpy(float)
     depth = df["depth"].to_numpy(float)
     first, second = (mass, depth) if job.search.objective == "mass" else (depth, mass)
-    threshold = float(first[passes].min()) if passes.any() else np.inf
-    pos = kept_positions(passes, first, second, worst, threshold)
+    # rows within round-off of their limit are kept whatever the first pass said: the full screen of
+    # the kept rows decides them, so the winner is the lightest sure pass or one of them, and the
+    # nearest failures below each of those are kept too
+    close = np.abs(worst - 1.0) <= CLOSE_CALL
+    sure = first[passes & ~close]
+    sure = sure[np.isfinite(sure)]
+    threshold = float(sure.min()) if sure.size else np.inf
+    maybe = np.unique(first[close & (first < threshold)])[:_MAYBE]
+    if not np.isfinite(threshold):  # every pass a close call: the lightest of them
+        lead = first[passes]
+        lead = lead[np.isfinite(lead)]
+        threshold = float(lead.min()) if lead.size else np.inf
+    pos = [kept_positions(passes, first, second, worst, threshold), np.flatnonzero(close)]
+    f = np.flatnonzero(~passes)
+    pos += [nearest_failures(f, first, t) for t in maybe]
+    pos = np.unique(np.concatenate(pos))
     dropped = K - pos.size
     dropped_pass = int(passes.sum() - passes[pos].sum())
     kept = df.iloc[pos].reset_index(drop=True)

@@ -173,9 +173,7 @@ def evaluate(effects: Effects, cand: Candidates, first_pass: bool = False, nan_f
     K = cand.size
     demand, allow, combo, util, columns = {}, {}, {}, {}, {}
     rows = np.arange(K)
-    checks = active_checks(cand.limits)
-    if first_pass:
-        checks = tuple(c for c in checks if c.reports_only is None or not c.reports_only(effects.model))
+    checks = first_pass_checks(cand.limits, effects.model) if first_pass else active_checks(cand.limits)
     effects = dataclasses.replace(effects, limits=cand.limits)
     for check in checks:  # a small fixed set
         d = np.asarray(check.demand(effects, cand.props), float)
@@ -335,7 +333,15 @@ def _distinct(values):
     return v[new], back, order
 
 
-_KEYS = ("M_max", "M_min", "V_abs", "v_abs", "v_allowed")
+def _sprung(model) -> bool:
+    """Whether the beam has a spring support (its forces then depend on each candidate's EI)."""
+    return any(s.type == "spring" for s in model.supports)
+
+
+def first_pass_checks(limits, model) -> tuple:
+    """The checks a pass/fail first pass applies: the active ones that can fail a candidate on this
+    beam (not those that only report, :attr:`~leanspan.select.checks.Check.reports_only`)."""
+    return tuple(c for c in active_checks(limits) if c.reports_only is None or not c.reports_only(model))
 
 
 class _Setup:
@@ -346,7 +352,7 @@ class _Setup:
     def __init__(self, model, cand, self_weight_case=None, method="auto"):
         sw_case = self_weight_case if self_weight_case is not None else model.self_weight
         EI = np.asarray(cand.EI, float)
-        sprung = any(s.type == "spring" for s in model.supports)
+        sprung = _sprung(model)
         # without springs one stiffness gives every candidate's response (v scales with 1/EI; the
         # deflections of all K would be K copies): respond still checks all of them
         valid = EI.ndim == 1 and EI.size > 0 and bool(np.all(np.isfinite(EI)) and np.all(EI > 0))
@@ -401,19 +407,19 @@ CHUNK = 2**14
 
 
 def screen_chunks(model, cand: Candidates, self_weight_case=None, first_pass: bool = False,
-                  chunk: int = CHUNK, nan_fails=frozenset(), workers: int | None = None):
+                  chunk: int = CHUNK, nan_fails=frozenset(), workers: int | None = None, setup=None):
     """:func:`screen` in chunks of ``chunk`` candidates: yields ``(rows, Screen)`` (rows: indices
     into ``cand``), holding a few chunks' (K, C) arrays at a time.
 
-    Without springs the beam is solved and the peak envelopes built once, and the chunks follow
-    the candidates' weights (each chunk's weights are one range of the envelopes); each chunk's
-    numbers equal those of the whole screen. With springs each chunk is its own screen.
-    ``nan_fails`` as for :func:`evaluate`. ``workers`` threads screen chunks at the same time
-    (default: up to two, as the machine allows; numpy's array loops run outside Python's lock).
+    Without springs the beam is solved and the peak envelopes built once (on however many distinct
+    weights; ``setup``: a ``_Setup`` with them already), and the chunks follow the candidates'
+    weights (each chunk's weights are one range of the envelopes). With springs each chunk is its
+    own screen. ``nan_fails`` as for :func:`evaluate`. ``workers`` threads screen chunks at the
+    same time (default: up to two, as the machine allows; numpy's array loops run outside
+    Python's lock).
     """
     K = cand.size
-    sprung = any(s.type == "spring" for s in model.supports)
-    s = None if sprung else _Setup(model, cand, self_weight_case)
+    s = setup if setup is not None or _sprung(model) else _Setup(model, cand, self_weight_case, "envelope")
     if s is None or s.table is None:
         parts = [np.arange(a, min(K, a + chunk)) for a in range(0, K, chunk)]
 
@@ -454,16 +460,14 @@ def screen_verdicts(model, cand: Candidates, self_weight_case=None, chunk: int =
     :func:`screen_chunks`. Either way parts of the work run on two threads where the machine has
     two cores.
     """
-    checks = [c for c in active_checks(cand.limits) if c.reports_only is None or not c.reports_only(model)]
-    sprung = any(s.type == "spring" for s in model.supports)
-    s = None
-    if not sprung and all(c.peaks_suffice is not None and c.peaks_suffice(cand.limits) for c in checks):
-        s = _Setup(model, cand, self_weight_case)
-    if s is not None and s.table is not None:
+    checks = first_pass_checks(cand.limits, model)
+    # without springs the envelopes are built once, on however many distinct weights
+    s = None if _sprung(model) else _Setup(model, cand, self_weight_case, "envelope")
+    if s is not None and all(c.peaks_suffice is not None and c.peaks_suffice(cand.limits) for c in checks):
         n = s.table.n
         halves = [(0, n // 2), (n // 2, n)]  # two ranges of weights, one per thread
         worst_parts = list(_threaded(lambda r: s.table.worst(*r), halves))
-        peak = {k: np.concatenate([w[k] for w in worst_parts])[s.back][:, None] for k in _KEYS}
+        peak = {k: np.concatenate([w[k] for w in worst_parts])[s.back][:, None] for k in worst_parts[0]}
         peak["v_abs"] *= s.v_scale[:, None]
         eff = Effects(**peak, combinations=(), EI=np.asarray(cand.EI, float),
                       mass_per_length=np.asarray(cand.mass_per_length, float), model=model, limits=cand.limits)
@@ -471,7 +475,7 @@ def screen_verdicts(model, cand: Candidates, self_weight_case=None, chunk: int =
         results = _threaded(lambda rows: (rows, evaluate(eff.take(rows), cand.take(rows), first_pass=True)),
                             parts)
     else:
-        results = screen_chunks(model, cand, self_weight_case, first_pass=True, chunk=chunk)
+        results = screen_chunks(model, cand, self_weight_case, first_pass=True, chunk=chunk, setup=s)
     passes, worst = np.zeros(cand.size, bool), np.full(cand.size, np.nan)
     all_nan, some = {}, set()  # per check: the chunks in which every row is NaN; checks with a value
     for rows, res in results:
@@ -590,7 +594,8 @@ class FieldSampler:
     def worst_reactions(self, combos):
         """The largest upward force of the concrete combinations ``combos`` (indices) at every support
         and the position in ``combos`` of the combination giving it, each (K, S); where no force is
-        upward, the first combination's (as an argmax of max(R, 0) would give). None with springs.
+        upward, the first combination's (as an argmax of max(R, 0) would give); where two give the
+        same force exactly, either may be named. None with springs.
 
         Each reaction is a line in the candidate's weight, ``R = a + t b`` (t: the factored weight per
         length), so the largest is the upper envelope of ``len(combos)`` lines per support: each
@@ -664,13 +669,15 @@ class FieldSampler:
 
 def _upper_lines(a, b):
     """The upper envelope of the lines ``a[i] + m b[i]`` over m >= 0: line indices (P,) and the
-    P - 1 values of m where each next one takes over (sorted); ties go to the lowest index.
+    P - 1 values of m where each next one takes over (sorted). Where lines tie exactly (equal at
+    m = 0, or at a breakpoint) the steeper one is listed, the larger just after; of identical
+    lines the lowest index.
 
     >>> lines, breaks = _upper_lines(np.array([5.0, 8.0, 0.0]), np.array([1.0, -1.0, 4.0]))
     >>> lines.tolist(), breaks.tolist()
     ([1, 0, 2], [1.5, 1.6666666666666667])
     """
-    # at m = 0 the largest a leads (lowest index among equals, then the steepest)
+    # at m = 0 the largest a leads (the steepest among equals, then the lowest index)
     order = np.lexsort((np.arange(a.size), -b, -a))
     lines, breaks, m = [int(order[0])], [], 0.0
     while True:  # at most len(a) steps: each takes over from the current line at a larger m

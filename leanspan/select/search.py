@@ -283,8 +283,9 @@ def run_selection(job, table=None) -> Selection:
         Catalogue rows to screen instead of the job's own search (schedules, tests): all of them
         are kept in the result.
 
-    A search of more than :data:`~leanspan.select.long_list.LONG_LIST` rows is screened in chunks
-    and keeps the rows the table can show (:func:`~leanspan.select.long_list.long_list_rows`).
+    A catalogue search (without ``[built_up]``) of more than :data:`~leanspan.select.long_list.LONG_LIST`
+    rows sorts them into pass and fail first and keeps the rows the table can show
+    (:func:`~leanspan.select.long_list.long_list_rows`).
     """
     dropped = dropped_pass = 0  # candidates screened but not kept for the table
     nan_fails = frozenset()
@@ -294,10 +295,10 @@ def run_selection(job, table=None) -> Selection:
         df, dropped, dropped_pass = built_up_table(job, candidate_table(job.search) if job.catalogue else None)
     else:
         df = candidate_table(job.search) if table is None else table
-        if table is None and len(df) > LONG_LIST:
-            df, dropped, dropped_pass, nan_fails = long_list_rows(df, job)
     warnings = (list(df.attrs.get("warnings", [])) if hasattr(df, "attrs") else []) + list(job.model.notes)
-    warnings += _mixed_bases(df, job)
+    warnings += _mixed_bases(df, job)  # on every row of the search, also of a long list
+    if table is None and not getattr(job, "built_up", ()) and len(df) > LONG_LIST:
+        df, dropped, dropped_pass, nan_fails = long_list_rows(df, job)
     if len(df) == 0:
         why = _why_empty(job.search) if table is None else "the given table"
         raise SelectionError(f"search: no catalogue rows match {why}; widen the search")

@@ -371,10 +371,14 @@ def memoised(props, columns, extra, compute):
     hit = _MEMO.get(key)
     if hit is not None and all(a is b for a, b in zip(hit[0], arrays)):
         return hit[1]
-    if len(_MEMO) >= _MEMO_SIZE:
-        _MEMO.pop(next(iter(_MEMO)))
-    _MEMO[key] = (arrays, compute())
-    return _MEMO[key][1]
+    result = compute()
+    while len(_MEMO) >= _MEMO_SIZE:  # drop the oldest (another thread may have dropped it already)
+        try:
+            _MEMO.pop(next(iter(_MEMO)), None)
+        except (StopIteration, RuntimeError):
+            break
+    _MEMO[key] = (arrays, result)
+    return result
 
 
 def web_shear(props):
